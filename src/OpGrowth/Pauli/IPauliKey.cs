@@ -1,0 +1,72 @@
+namespace OpGrowth.Pauli;
+
+/// <summary>
+/// A fixed-width, allocation-free Pauli string used as a key by the hot engines. Each width is
+/// its own struct so the JIT specialises every generic kernel per width (no branch on N per
+/// operation). Same symplectic layout and phase convention as <see cref="PauliString"/>.
+/// </summary>
+/// <typeparam name="TSelf">The implementing struct.</typeparam>
+public interface IPauliKey<TSelf> : IEquatable<TSelf>
+    where TSelf : unmanaged, IPauliKey<TSelf>
+{
+    /// <summary>Largest number of qubits this width holds.</summary>
+    static abstract int Capacity { get; }
+
+    /// <summary>Converts from the general form; throws when N exceeds <see cref="Capacity"/>.</summary>
+    static abstract TSelf From(PauliString s);
+
+    /// <summary>Converts back to the general form on <paramref name="n"/> qubits.</summary>
+    PauliString ToPauliString(int n);
+
+    /// <summary>Product a*b = i^phase * result, phase in 0..3.</summary>
+    static abstract TSelf Multiply(in TSelf a, in TSelf b, out int phase);
+
+    /// <summary>True when a and b anticommute.</summary>
+    static abstract bool Anticommute(in TSelf a, in TSelf b);
+
+    /// <summary>True when the supports of a and b share a site below <paramref name="site"/>.</summary>
+    static abstract bool OverlapBelow(in TSelf a, in TSelf b, int site);
+
+    /// <summary>True when the supports of a and b intersect.</summary>
+    static abstract bool Overlaps(in TSelf a, in TSelf b);
+
+    /// <summary>Writes the support sites in increasing order; returns how many.</summary>
+    static abstract int SupportSites(in TSelf a, Span<int> sites);
+
+    /// <summary>Number of non-identity sites.</summary>
+    int Weight { get; }
+
+    /// <summary>First non-identity site or -1.</summary>
+    int FirstSite { get; }
+
+    /// <summary>Last non-identity site or -1.</summary>
+    int LastSite { get; }
+
+    /// <summary>True when site j is not the identity.</summary>
+    bool HasSite(int j);
+
+    /// <summary>2-bit letter code at site j: bit 0 = x, bit 1 = z (I=0, X=1, Z=2, Y=3).</summary>
+    int LetterCode(int j);
+
+    /// <summary>A well-mixed 64-bit hash (both halves usable independently).</summary>
+    ulong Hash64 { get; }
+}
+
+/// <summary>Shared bit tricks for the keys.</summary>
+internal static class PauliBits
+{
+    /// <summary>Finalizer of a 64-bit mixer (Stafford variant 13 of the MurmurHash3 finalizer).</summary>
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveInlining)]
+    public static ulong Mix(ulong h)
+    {
+        h ^= h >> 30;
+        h *= 0xbf58476d1ce4e5b9UL;
+        h ^= h >> 27;
+        h *= 0x94d049bb133111ebUL;
+        h ^= h >> 31;
+        return h;
+    }
+
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveInlining)]
+    public static ulong LowMask(int site) => site >= 64 ? ulong.MaxValue : (1UL << site) - 1;
+}
