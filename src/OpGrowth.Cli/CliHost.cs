@@ -1,0 +1,76 @@
+using Microsoft.Extensions.Logging;
+using OpGrowth.IO;
+
+namespace OpGrowth.Cli;
+
+/// <summary>
+/// What every command shares: logging to stderr (stdout stays clean for data), the top-level
+/// error policy (one line, no stack trace, documented exit codes) and Ctrl-C cancellation.
+/// </summary>
+internal static class CliHost
+{
+    /// <summary>Creates the logger factory: console logger on stderr, plain single lines.</summary>
+    public static ILoggerFactory CreateLoggerFactory(LogLevel level)
+        => LoggerFactory.Create(b =>
+        {
+            b.SetMinimumLevel(level);
+            b.AddSimpleConsole(o =>
+            {
+                o.SingleLine = true;
+                o.TimestampFormat = "HH:mm:ss ";
+                o.ColorBehavior = Microsoft.Extensions.Logging.Console.LoggerColorBehavior.Disabled;
+            });
+            b.AddConsole(o => o.LogToStandardErrorThreshold = LogLevel.Trace);
+        });
+
+    /// <summary>Runs a command body with the shared error policy; returns the exit code.</summary>
+    public static int Run(Func<CancellationToken, int> body)
+    {
+        using var cts = new CancellationTokenSource();
+        ConsoleCancelEventHandler onCancel = (_, e) =>
+        {
+            e.Cancel = true;
+            cts.Cancel();
+        };
+        Console.CancelKeyPress += onCancel;
+        try
+        {
+            return body(cts.Token);
+        }
+        catch (InputException ex)
+        {
+            Console.Error.WriteLine($"error: {ex.Message}");
+            return ExitCodes.InvalidInput;
+        }
+        catch (ResourceLimitException ex)
+        {
+            Console.Error.WriteLine($"resource limit: {ex.Message}");
+            return ExitCodes.ResourceLimit;
+        }
+        catch (OperationCanceledException)
+        {
+            Console.Error.WriteLine("interrupted: finished results were kept");
+            return ExitCodes.Interrupted;
+        }
+        catch (OutOfMemoryException ex)
+        {
+            Console.Error.WriteLine($"resource limit: out of memory ({ex.Message}); lower the budget with --memory");
+            return ExitCodes.ResourceLimit;
+        }
+        catch (Exception ex) when (ex is IOException or UnauthorizedAccessException)
+        {
+            Console.Error.WriteLine($"error: {ex.Message}");
+            return ExitCodes.InvalidInput;
+        }
+        catch (Exception ex)
+        {
+            Console.Error.WriteLine($"internal error: {ex.GetType().Name}: {ex.Message} (this is a bug; rerun with OPGROWTH_DEBUG=1 for the stack trace)");
+            if (Environment.GetEnvironmentVariable("OPGROWTH_DEBUG") == "1") Console.Error.WriteLine(ex);
+            return ExitCodes.Internal;
+        }
+        finally
+        {
+            Console.CancelKeyPress -= onCancel;
+        }
+    }
+}

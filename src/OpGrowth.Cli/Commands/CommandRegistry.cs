@@ -1,0 +1,12 @@
+using System.CommandLine;
+
+namespace OpGrowth.Cli.Commands;
+
+/// <summary>Every subcommand, one line each. Each command is a static class with <c>Create()</c> in its own file.</summary>
+internal static class CommandRegistry
+{
+    public static IEnumerable<Command> All()
+    {
+        yield break;
+    }
+}
