@@ -48,6 +48,9 @@ public interface IPauliKey<TSelf> : IEquatable<TSelf>
     /// <summary>2-bit letter code at site j: bit 0 = x, bit 1 = z (I=0, X=1, Z=2, Y=3).</summary>
     int LetterCode(int j);
 
+    /// <summary>Copies the symplectic words (site j = bit j % 64 of word j / 64); spans must hold PauliString.WordCount(Capacity) words or at least the used ones.</summary>
+    void CopyWords(Span<ulong> x, Span<ulong> z);
+
     /// <summary>A well-mixed 64-bit hash (both halves usable independently).</summary>
     ulong Hash64 { get; }
 }

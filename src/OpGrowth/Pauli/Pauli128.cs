@@ -90,6 +90,17 @@ public readonly struct Pauli128 : IPauliKey<Pauli128>
         ? (int)((X0 >> j) & 1) | (int)(((Z0 >> j) & 1) << 1)
         : (int)((X1 >> (j - 64)) & 1) | (int)(((Z1 >> (j - 64)) & 1) << 1);
 
+    public void CopyWords(Span<ulong> x, Span<ulong> z)
+    {
+        x[0] = X0;
+        z[0] = Z0;
+        if (x.Length > 1)
+        {
+            x[1] = X1;
+            z[1] = Z1;
+        }
+    }
+
     public ulong Hash64
     {
         [MethodImpl(MethodImplOptions.AggressiveInlining)]

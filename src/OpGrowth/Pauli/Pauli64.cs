@@ -68,6 +68,12 @@ public readonly struct Pauli64 : IPauliKey<Pauli64>
 
     public int LetterCode(int j) => (int)((X >> j) & 1) | (int)(((Z >> j) & 1) << 1);
 
+    public void CopyWords(Span<ulong> x, Span<ulong> z)
+    {
+        x[0] = X;
+        z[0] = Z;
+    }
+
     public ulong Hash64
     {
         [MethodImpl(MethodImplOptions.AggressiveInlining)]

@@ -213,6 +213,13 @@ public struct PauliWide<TWords> : IPauliKey<PauliWide<TWords>>
     public readonly int LetterCode(int j)
         => (int)((XWords[j >> 6] >> (j & 63)) & 1) | (int)(((ZWords[j >> 6] >> (j & 63)) & 1) << 1);
 
+    public readonly void CopyWords(Span<ulong> x, Span<ulong> z)
+    {
+        int w = Math.Min(x.Length, TWords.Length);
+        XWords[..w].CopyTo(x);
+        ZWords[..w].CopyTo(z);
+    }
+
     public readonly ulong Hash64
     {
         get
