@@ -61,7 +61,7 @@ public static class InfiniteChainLanczos
             n, probeLetters, offset, layout.GenericSites);
         void Check(LanczosStep step)
         {
-            if (verified >= 0 || step.SupportFirst < 0) return;
+            if (verified >= 0 || step.SupportFirst < 0 || step.N >= options.Depth) return; // O_depth is never used for a b_n
             if (step.SupportFirst < r || step.SupportLast > n - 1 - r)
             {
                 verified = step.N; // O_N touches the margin: b_{N+1} onward may feel the boundary

@@ -16,8 +16,8 @@ public static class KrylovChain
     /// <summary>Largest rho*dt per Chebyshev step (about 40 terms per step).</summary>
     private const double MaxPhase = 20;
 
-    /// <summary>Components below this magnitude are dropped from the active chain (their weight is under 1e-60).</summary>
-    private const double Negligible = 1e-30;
+    /// <summary>Components below this magnitude are dropped from the active chain (weight under 1e-40 each; far below rounding of the kept ones).</summary>
+    private const double Negligible = 1e-20;
 
     /// <summary>
     /// Evolves with b(n) (n &gt;= 1) and returns C(t), K(t) at the given non-negative, ascending times.

@@ -12,7 +12,7 @@ public sealed record KrylovChainResult
     /// <summary>Krylov complexity K(t) = sum_n n phi_n(t)^2.</summary>
     public required IReadOnlyList<double> Complexity { get; init; }
 
-    /// <summary>Largest chain index the wave function reached (beyond it every phi_n is zero to 1e-30).</summary>
+    /// <summary>Largest chain index the wave function reached (beyond it every phi_n is below 1e-20).</summary>
     public required int ChainLength { get; init; }
 
     /// <summary>Largest |sum_n phi_n^2 - 1| over the times: conservation check of the integrator.</summary>

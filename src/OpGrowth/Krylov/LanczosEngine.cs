@@ -19,8 +19,6 @@ namespace OpGrowth.Krylov;
 /// </remarks>
 internal static class LanczosEngine
 {
-    /// <summary>Fixed per-thread allowance for the map driver's emit buffers (bytes), added to the accounting.</summary>
-    private const long EmitAllowancePerThread = 192L << 20;
 
     /// <summary>Strings per commutator chunk at least; memory and cancellation are checked between chunks.</summary>
     private const int MinChunk = 1 << 20;
@@ -34,7 +32,7 @@ internal static class LanczosEngine
         var log = opt.Logger;
         var total = Stopwatch.StartNew();
         int perString = Unsafe.SizeOf<T>() + sizeof(double);
-        long emitAllowance = EmitAllowancePerThread * opt.Threads;
+        int entryBytes = Unsafe.SizeOf<T>() + 16; // one emitted contribution: key, value, hash
         var b = new List<double>();
         var steps = new List<LanczosStep>();
         var kept = new List<HashSortedVector<T>>();
@@ -68,8 +66,13 @@ internal static class LanczosEngine
                 break;
             }
             var sw = Stopwatch.StartNew();
-            long held = cur.AllocatedBytes + (prev?.AllocatedBytes ?? 0) + kept.Sum(v => v.Bytes) + emitAllowance;
             long predicted = (long)Math.Ceiling(cur.Count * growth * 1.1);
+            // The map driver's per-thread emit buffers: 64 entries per partition to start, plus one block of
+            // inputs times the products per input (sampled), with up to 2x slack from doubling.
+            int bits = PauliAccumulator<T>.BitsFor(predicted);
+            double products = ProductsPerInput(basis, cur);
+            long emitAllowance = ((long)opt.Threads * (64L << bits) + (long)(Math.Min(cur.Count, PauliMapper.BlockSize) * products * 2)) * entryBytes;
+            long held = cur.AllocatedBytes + (prev?.AllocatedBytes ?? 0) + kept.Sum(v => v.Bytes) + emitAllowance;
             long predictedBytes = held + (long)(predicted * (accBytesPerString + perString));
             if (predictedBytes > opt.MemoryBudgetBytes)
             {
@@ -78,7 +81,7 @@ internal static class LanczosEngine
                 break;
             }
 
-            var acc = new PauliAccumulator<T>(o0.N, PauliAccumulator<T>.BitsFor(predicted));
+            var acc = new PauliAccumulator<T>(o0.N, bits);
             bool aborted = false;
             int chunk = Math.Max(MinChunk, cur.Count / 16);
             for (int s0 = 0; s0 < cur.Count; s0 += chunk)
@@ -217,6 +220,27 @@ internal static class LanczosEngine
             Representation = representation,
             Sites = sites,
         };
+    }
+
+    /// <summary>Mean number of contributions the map emits per input string, from up to 256 evenly spread inputs.</summary>
+    private static double ProductsPerInput<T, TBasis>(in TBasis basis, PauliOperator<T> o)
+        where T : unmanaged, IPauliKey<T>
+        where TBasis : struct, IKrylovBasis<T>
+    {
+        if (o.Count == 0) return 0;
+        var sink = new EmitBuffer<T>(1);
+        int samples = Math.Min(256, o.Count);
+        long total = 0;
+        var keys = o.Keys;
+        var coeffs = o.Coefficients;
+        for (int i = 0; i < samples; i++)
+        {
+            int idx = (int)((long)i * o.Count / samples);
+            sink.Clear();
+            basis.Apply(keys[idx], coeffs[idx], sink);
+            total += sink.Counts[0] + sink.Counts[1];
+        }
+        return (double)total / samples;
     }
 
     internal static string Gib(long bytes) => bytes >= 1L << 30 ? $"{bytes / (double)(1L << 30):F2} GiB" : $"{bytes / (double)(1L << 20):F1} MiB";
