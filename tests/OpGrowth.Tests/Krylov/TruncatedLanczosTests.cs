@@ -48,7 +48,7 @@ public class TruncatedLanczosTests
     [Theory]
     [InlineData(Reorthogonalization.Full)]
     [InlineData(Reorthogonalization.Partial)]
-    public void Run_Reorthogonalized_FiniteSystemMatchesDenseAndReportsMemory(Reorthogonalization kind)
+    public void Run_Reorthogonalized_MatchesPlainRecursionEarlyAndReportsMemory(Reorthogonalization kind)
     {
         // Exact (no truncation) with re-orthogonalization on a small random system: must equal the plain recursion
         // early on (the subtracted overlaps are rounding-sized), and the kept vectors cost memory that is reported.
