@@ -13,9 +13,11 @@ internal static class BesselSeries
     {
         int kmax = j.Length - 1;
         j.Clear();
-        if (z == 0)
+        if (z < 1e-12)
         {
+            // Leading terms of the series J_k(z) = (z/2)^k / k! (1 + O(z^2)); exact to rounding here.
             j[0] = 1;
+            if (kmax >= 1) j[1] = z / 2;
             return;
         }
         int top = Math.Max(kmax, (int)z) + 20 + (int)Math.Sqrt(40 * Math.Max(kmax, z));

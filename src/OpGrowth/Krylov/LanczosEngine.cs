@@ -67,11 +67,10 @@ internal static class LanczosEngine
             }
             var sw = Stopwatch.StartNew();
             long predicted = (long)Math.Ceiling(cur.Count * growth * 1.1);
-            // The map driver's per-thread emit buffers: 64 entries per partition to start, plus one block of
-            // inputs times the products per input (sampled), with up to 2x slack from doubling.
-            int bits = PauliAccumulator<T>.BitsFor(predicted);
+            // The map driver's emit buffers: one block of inputs times the products per input (sampled),
+            // with up to 2x slack from doubling, plus their initial streams.
             double products = ProductsPerInput(basis, cur);
-            long emitAllowance = ((long)opt.Threads * (64L << bits) + (long)(Math.Min(cur.Count, PauliMapper.BlockSize) * products * 2)) * entryBytes;
+            long emitAllowance = ((long)opt.Threads * opt.Threads * 1024 + (long)(Math.Min(cur.Count, PauliMapper.BlockSize) * products * 2)) * entryBytes;
             long held = cur.AllocatedBytes + (prev?.AllocatedBytes ?? 0) + kept.Sum(v => v.Bytes) + emitAllowance;
             long predictedBytes = held + (long)(predicted * (accBytesPerString + perString));
             if (predictedBytes > opt.MemoryBudgetBytes)
@@ -81,32 +80,25 @@ internal static class LanczosEngine
                 break;
             }
 
-            var acc = new PauliAccumulator<T>(o0.N, bits);
-            bool aborted = false;
-            int chunk = Math.Max(MinChunk, cur.Count / 16);
-            for (int s0 = 0; s0 < cur.Count; s0 += chunk)
+            var acc = PauliAccumulator<T>.For(o0.N, predicted);
+            int stepIndex = n;
+            bool completed = Accumulate(basis, cur, prev, coupling, acc, opt.Threads, done =>
             {
-                int len = Math.Min(chunk, cur.Count - s0);
-                var part = len == cur.Count ? cur : new PauliOperator<T>(cur.N, cur.Keys.Slice(s0, len).ToArray(), cur.Coefficients.Slice(s0, len).ToArray(), len);
-                PauliMapper.Run(part, basis, acc, opt.Threads);
-                long now = held + acc.AllocatedBytes;
-                if (now > opt.MemoryBudgetBytes)
+                if (held + acc.AllocatedBytes > opt.MemoryBudgetBytes)
                 {
                     stop = LanczosStopReason.MemoryBudget;
-                    stopMessage = $"memory budget: step {n} exceeded {Gib(opt.MemoryBudgetBytes)} while accumulating ({acc.Count:N0} strings after {s0 + len:N0} of {cur.Count:N0} inputs); the step was abandoned";
-                    aborted = true;
-                    break;
+                    stopMessage = $"memory budget: step {stepIndex} exceeded {Gib(opt.MemoryBudgetBytes)} while accumulating ({acc.Count:N0} strings after {done:N0} of {cur.Count:N0} inputs); the step was abandoned";
+                    return false;
                 }
                 if (opt.Cancellation.IsCancellationRequested)
                 {
                     stop = LanczosStopReason.Cancelled;
-                    stopMessage = $"cancelled during step {n}";
-                    aborted = true;
-                    break;
+                    stopMessage = $"cancelled during step {stepIndex}";
+                    return false;
                 }
-            }
-            if (aborted) break;
-            if (prev is not null) acc.AddScaled(prev, coupling);
+                return true;
+            });
+            if (!completed) break;
             long accCount = acc.Count;
             long accBytes = acc.AllocatedBytes;
             long accounted = held + accBytes + accCount * perString;
@@ -222,13 +214,36 @@ internal static class LanczosEngine
         };
     }
 
+    /// <summary>
+    /// One step's accumulation, A_n = i[H, O_{n-1}] + coupling * O_{n-2}, into <paramref name="acc"/>: the
+    /// commutator in chunks of the input (so memory and cancellation can be checked between chunks), then the
+    /// scaled O_{n-2}. Returns false when <paramref name="afterChunk"/> (given the inputs done) asked to stop.
+    /// </summary>
+    internal static bool Accumulate<T, TBasis>(in TBasis basis, PauliOperator<T> cur, PauliOperator<T>? prev, double coupling,
+        PauliAccumulator<T> acc, int threads, Func<int, bool> afterChunk)
+        where T : unmanaged, IPauliKey<T>
+        where TBasis : struct, IKrylovBasis<T>
+    {
+        int chunk = Math.Max(MinChunk, cur.Count / 16);
+        for (int s0 = 0; s0 < cur.Count; s0 += chunk)
+        {
+            int len = Math.Min(chunk, cur.Count - s0);
+            var part = len == cur.Count ? cur : new PauliOperator<T>(cur.N, cur.Keys.Slice(s0, len).ToArray(), cur.Coefficients.Slice(s0, len).ToArray(), len);
+            PauliMapper.Run(part, basis, acc, threads);
+            if (!afterChunk(s0 + len)) return false;
+        }
+        if (prev is not null) acc.AddScaled(prev, coupling);
+        return true;
+    }
+
     /// <summary>Mean number of contributions the map emits per input string, from up to 256 evenly spread inputs.</summary>
     private static double ProductsPerInput<T, TBasis>(in TBasis basis, PauliOperator<T> o)
         where T : unmanaged, IPauliKey<T>
         where TBasis : struct, IKrylovBasis<T>
     {
         if (o.Count == 0) return 0;
-        var sink = new EmitBuffer<T>(1);
+        var sink = new EmitBuffer<T>();
+        sink.Reset(63, 1);
         int samples = Math.Min(256, o.Count);
         long total = 0;
         var keys = o.Keys;
@@ -236,9 +251,9 @@ internal static class LanczosEngine
         for (int i = 0; i < samples; i++)
         {
             int idx = (int)((long)i * o.Count / samples);
-            sink.Clear();
+            Array.Clear(sink.Counts);
             basis.Apply(keys[idx], coeffs[idx], sink);
-            total += sink.Counts[0] + sink.Counts[1];
+            total += sink.Counts[0];
         }
         return (double)total / samples;
     }
