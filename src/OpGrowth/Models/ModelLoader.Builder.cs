@@ -328,7 +328,7 @@ public static partial class ModelLoader
                 case "ring":
                     return Lattice.Chain(Need("sites", max), true);
                 case "all-to-all":
-                    return Lattice.AllToAll(Need("sites", 4096));
+                    return Lattice.AllToAll(Need("sites", 2048));
                 case "ladder":
                     return Lattice.Ladder(Need("length", max / 2), periodic);
                 case "square":

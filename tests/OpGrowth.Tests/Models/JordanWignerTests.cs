@@ -93,6 +93,22 @@ public class JordanWignerTests
     }
 
     [Fact]
+    public void MajoranaWeight_FixedWidthKeys_MatchGeneralString()
+    {
+        var rng = new Random(5);
+        foreach (int n in new[] { 10, 64, 100 })
+        {
+            for (int trial = 0; trial < 30; trial++)
+            {
+                var idx = Enumerable.Range(0, 2 * n).Where(_ => rng.NextDouble() < 0.15).ToArray();
+                var (s, _) = JordanWigner.Product(n, idx);
+                if (n <= 64) Assert.Equal(idx.Length, JordanWigner.MajoranaWeight(Pauli64.From(s), n));
+                Assert.Equal(idx.Length, JordanWigner.MajoranaWeight(Pauli128.From(s), n));
+            }
+        }
+    }
+
+    [Fact]
     public void HermitianMonomial_FourMajoranas_DenseEqualsMinusProduct()
     {
         // i^{q/2} chi_a chi_b chi_c chi_d with q = 4 is -chi_a chi_b chi_c chi_d: built densely and compared.
