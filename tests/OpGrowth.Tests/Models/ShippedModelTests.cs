@@ -143,6 +143,18 @@ public class ShippedModelTests
     }
 
     [Fact]
+    public void ModelOf_CodeBuiltFamily_HasDefaultsAndFlags()
+    {
+        var m = Model.Of(Families.MixedFieldIsing(8, periodic: true), Lattice.Chain(8, periodic: true), "mfi");
+        Assert.True(m.IsTranslationInvariant);
+        Assert.Equal(PauliString.Single(8, 4, 'Z'), m.Probes[0]);
+        var s = Model.Of(Families.Syk(4), Lattice.AllToAll(4), sizeMeasure: SizeMeasure.Majoranas, disordered: true);
+        Assert.Equal(8, s.MajoranaCount);
+        Assert.False(s.IsTranslationInvariant);
+        Assert.Throws<ArgumentException>(() => Model.Of(Families.MixedFieldIsing(8), Lattice.Chain(6)));
+    }
+
+    [Fact]
     public void Flags_DisorderTranslationAndSeeds()
     {
         var clean = Load("mixed-field-ising");
