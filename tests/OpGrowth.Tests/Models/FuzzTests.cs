@@ -106,6 +106,57 @@ public class FuzzTests
     }
 
     [Fact]
+    public void Parse_CharacterLevelMutationsOfAllShippedModels_OnlyInputExceptions()
+    {
+        // Edits anywhere in the text (replace, delete a run, insert, copy a run elsewhere), 1 to 6 per file.
+        const string chars = "=[]{}\",.'#_-+*/^()0123456789 abcXYZIN\n\t\\\u00e9e";
+        var files = ModelTestFiles.Shipped.Select(File.ReadAllText).ToArray();
+        var rng = new Random(4242);
+        for (int trial = 0; trial < 600; trial++)
+        {
+            var sb = new StringBuilder(files[rng.Next(files.Length)]);
+            int edits = 1 + rng.Next(6);
+            for (int e = 0; e < edits; e++)
+            {
+                int k = rng.Next(sb.Length);
+                switch (rng.Next(4))
+                {
+                    case 0:
+                        sb[k] = chars[rng.Next(chars.Length)];
+                        break;
+                    case 1:
+                        sb.Remove(k, Math.Min(sb.Length - k, rng.Next(1, 20)));
+                        break;
+                    case 2:
+                        sb.Insert(k, chars[rng.Next(chars.Length)]);
+                        break;
+                    default:
+                    {
+                        int a = rng.Next(sb.Length);
+                        sb.Insert(k, sb.ToString(a, Math.Min(sb.Length - a, rng.Next(1, 40))));
+                        break;
+                    }
+                }
+                if (sb.Length == 0) sb.Append('x');
+            }
+            string mutated = sb.ToString();
+            try
+            {
+                ModelLoader.Parse(mutated, "fuzz.toml");
+            }
+            catch (InputException ex)
+            {
+                Assert.DoesNotContain('\n', ex.Message);
+                Assert.StartsWith("fuzz.toml", ex.Message);
+            }
+            catch (Exception ex)
+            {
+                Assert.Fail($"trial {trial}: {ex.GetType().Name}: {ex.Message}\n--- mutated file ---\n{mutated}");
+            }
+        }
+    }
+
+    [Fact]
     public void Parse_RandomOverrides_OnlyInputExceptions()
     {
         string path = ShippedModels.Resolve("mixed-field-ising");
