@@ -17,24 +17,26 @@ internal static class HeatmapKit
         (double x0, double dx, double[,] grid) = ResampleColumns(xs, values);
         int rows = grid.GetLength(0), cols = grid.GetLength(1);
         double dy = ys.Length > 1 ? (ys[^1] - ys[0]) / (ys.Length - 1) : 1.0;
+        // With its default (centred) cell alignment the library treats the extent as the span of cell centres:
+        // first column centred on Left, last on Right. A single row or column has no span, so it is doubled
+        // into two half-size cells around its coordinate.
+        double xFirst = x0, xLast = x0 + dx * (cols - 1), yFirst = ys[0], yLast = ys[0] + dy * (rows - 1);
+        if (cols == 1) { xFirst -= dx / 4; xLast += dx / 4; }
+        if (rows == 1) { yFirst -= dy / 4; yLast += dy / 4; }
+        int outRows = Math.Max(rows, 2), outCols = Math.Max(cols, 2);
         // The plotting library draws row 0 at the top; put the lowest y at the bottom instead.
-        var flipped = new double[rows, cols];
-        for (int r = 0; r < rows; r++)
-            for (int c = 0; c < cols; c++)
-                flipped[rows - 1 - r, c] = grid[r, c];
+        var flipped = new double[outRows, outCols];
+        for (int r = 0; r < outRows; r++)
+            for (int c = 0; c < outCols; c++)
+                flipped[outRows - 1 - r, c] = grid[Math.Min(r, rows - 1), Math.Min(c, cols - 1)];
         Heatmap map = plot.Add.Heatmap(flipped);
         map.Colormap = new HeatScale();
         map.Smooth = false;
         map.NaNCellColor = ChartStyle.MissingCell;
         map.ManualRange = new ScottPlot.Range(scaleMin, scaleMax > scaleMin ? scaleMax : scaleMin + 1);
+        map.CellAlignment = Alignment.MiddleCenter;
+        map.Extent = new CoordinateRect(xFirst, xLast, yFirst, yLast);
         var wanted = new CoordinateRect(x0 - dx / 2, x0 + dx * (cols - 0.5), ys[0] - dy / 2, ys[0] + dy * (rows - 0.5));
-        map.Extent = wanted;
-        // The library shifts the extent by its cell alignment rule; measure the shift and undo it so that cell
-        // centres sit exactly on the data coordinates.
-        CoordinateRect drawn = map.GetAlignedExtent();
-        double sx = drawn.Left - wanted.Left, sy = drawn.Bottom - wanted.Bottom;
-        if (Math.Abs(sx) > 1e-12 || Math.Abs(sy) > 1e-12)
-            map.Extent = new CoordinateRect(wanted.Left - sx, wanted.Right - sx, wanted.Bottom - sy, wanted.Top - sy);
         ScottPlot.Panels.ColorBar bar = plot.Add.ColorBar(map, Edge.Right);
         bar.Label = colorLabel;
         bar.LabelStyle.FontName = ReportFonts.Family;

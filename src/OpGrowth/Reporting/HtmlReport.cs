@@ -1,5 +1,4 @@
 using System.Globalization;
-using System.Net;
 using System.Text;
 using System.Text.RegularExpressions;
 
@@ -182,5 +181,24 @@ internal static class HtmlReport
         return open + "><title>" + E(f.Title) + "</title>" + body[(close + 1)..];
     }
 
-    private static string E(string? text) => WebUtility.HtmlEncode(text ?? "");
+    /// <summary>Escapes the five characters that matter in HTML text and attributes; everything else stays UTF-8.</summary>
+    internal static string E(string? text)
+    {
+        if (string.IsNullOrEmpty(text)) return "";
+        if (text.AsSpan().IndexOfAny("&<>\"'") < 0) return text;
+        var sb = new StringBuilder(text.Length + 16);
+        foreach (char c in text)
+        {
+            sb.Append(c switch
+            {
+                '&' => "&amp;",
+                '<' => "&lt;",
+                '>' => "&gt;",
+                '"' => "&quot;",
+                '\'' => "&#39;",
+                _ => null,
+            } ?? c.ToString());
+        }
+        return sb.ToString();
+    }
 }

@@ -29,7 +29,7 @@ internal static class MarkdownReport
             foreach (HeadlineFigure h in doc.Headlines)
             {
                 string context = h.Value.FormatContext() + (string.IsNullOrWhiteSpace(h.Note) ? "" : " (" + h.Note + ")");
-                Row(sb, h.Name, h.Value.FormatValue(), context, h.Converged ? "yes" : "**NO: not converged**");
+                Row(sb, h.Name, h.Value.FormatValue(), context, h.Converged ? "yes" : "**NO: not converged**", rawIndex: 3);
             }
             sb.Append('\n');
         }
