@@ -48,6 +48,11 @@ internal static partial class FigureRenderer
             }
         }
 
+        // Auto-placed legends need the panel's pixel size: lay out once, place, then draw twice.
+        (float Top, float Bottom)[] bands = PanelBands(size, caption, panels);
+        for (int i = 0; i < panels.Length; i++)
+            PlotKit.PlaceLegend(panels[i].Plot, size.Width - 8, bands[i].Bottom - bands[i].Top);
+
         byte[] png;
         int pw = (int)Math.Round(size.Width * size.Scale), ph = (int)Math.Round(size.Height * size.Scale);
         using (var surface = SKSurface.Create(new SKImageInfo(pw, ph, SKColorType.Rgba8888, SKAlphaType.Premul))
@@ -97,25 +102,39 @@ internal static partial class FigureRenderer
         canvas.DrawText(shownTitle, Margin, Margin + ChartStyle.TitleSize, SKTextAlign.Left, titleFont, ink);
 
         List<string> lines = Wrap(caption, w - 2 * Margin, captionFont, maxLines: 2);
-        float lineHeight = ChartStyle.CaptionSize * 1.35f;
-        float captionBand = lines.Count * lineHeight + 12f;
+        float captionBand = CaptionBand(lines.Count);
         float y = h - captionBand + ChartStyle.CaptionSize + 2f;
         foreach (string line in lines)
         {
             canvas.DrawText(line, Margin, y, SKTextAlign.Left, captionFont, muted);
-            y += lineHeight;
+            y += CaptionLineHeight;
         }
 
-        float top = TitleBand, bottom = h - captionBand;
+        (float Top, float Bottom)[] bands = PanelBands(size, caption, panels);
+        for (int i = 0; i < panels.Length; i++)
+            panels[i].Plot.Render(canvas, new PixelRect(left: 4, right: w - 4, bottom: bands[i].Bottom, top: bands[i].Top));
+    }
+
+    private const float CaptionLineHeight = ChartStyle.CaptionSize * 1.35f;
+
+    private static float CaptionBand(int lines) => lines * CaptionLineHeight + 12f;
+
+    /// <summary>Vertical extent of each panel: the space between title and caption, split by weight.</summary>
+    private static (float Top, float Bottom)[] PanelBands(FigureSize size, string caption, PanelSpec[] panels)
+    {
+        using SKFont captionFont = Font(ReportFonts.Regular, ChartStyle.CaptionSize);
+        int lines = Wrap(caption, size.Width - 2 * Margin, captionFont, maxLines: 2).Count;
+        float top = TitleBand, bottom = size.Height - CaptionBand(lines);
         double totalWeight = panels.Sum(p => p.Weight);
+        var bands = new (float, float)[panels.Length];
         float cursor = top;
-        foreach (PanelSpec p in panels)
+        for (int i = 0; i < panels.Length; i++)
         {
-            float ph = (float)((bottom - top) * p.Weight / totalWeight);
-            var rect = new PixelRect(left: 4, right: w - 4, bottom: cursor + ph, top: cursor);
-            p.Plot.Render(canvas, rect);
+            float ph = (float)((bottom - top) * panels[i].Weight / totalWeight);
+            bands[i] = (cursor, cursor + ph);
             cursor += ph;
         }
+        return bands;
     }
 
     /// <summary>

@@ -125,11 +125,31 @@ internal static class PlotKit
         plot.Legend.Alignment = where;
     }
 
+    private static readonly System.Runtime.CompilerServices.ConditionalWeakTable<Plot, object> s_autoLegend = new();
+
     /// <summary>
-    /// Shows the legend in the corner of the data area that covers the fewest data points (lines are sampled
-    /// along their segments, reference lines across the axis). Call after all plottables are added.
+    /// Shows the legend in the corner of the data area that covers the fewest data points; the corner is chosen
+    /// when the figure is laid out (<see cref="PlaceLegend"/>), once the panel's pixel size is known.
     /// </summary>
     internal static void ShowLegendAuto(Plot plot)
+    {
+        plot.Legend.IsVisible = true;
+        plot.Legend.Alignment = Alignment.UpperLeft;
+        s_autoLegend.AddOrUpdate(plot, s_autoLegend);
+    }
+
+    /// <summary>Places an auto-placed legend for a panel of the given pixel size (no-op for fixed legends).</summary>
+    internal static void PlaceLegend(Plot plot, float panelWidth, float panelHeight)
+    {
+        if (!s_autoLegend.TryGetValue(plot, out _)) return;
+        plot.Legend.Alignment = BestLegendCorner(plot, panelWidth, panelHeight);
+    }
+
+    /// <summary>
+    /// The corner whose legend-sized box covers the fewest data points (lines are sampled along their segments,
+    /// reference lines count heavily). The legend size is estimated from its entries and the font size.
+    /// </summary>
+    internal static Alignment BestLegendCorner(Plot plot, float panelWidth, float panelHeight)
     {
         var pts = new List<(double X, double Y)>();
         var hLines = new List<double>();
@@ -157,8 +177,7 @@ internal static class PlotKit
             }
         }
         pts.RemoveAll(p => !double.IsFinite(p.X) || !double.IsFinite(p.Y));
-        plot.Legend.IsVisible = true;
-        if (pts.Count == 0) { plot.Legend.Alignment = Alignment.UpperRight; return; }
+        if (pts.Count == 0) return Alignment.UpperRight;
         double x0 = pts.Min(p => p.X), x1 = pts.Max(p => p.X), y0 = pts.Min(p => p.Y), y1 = pts.Max(p => p.Y);
         foreach (double h in hLines) { y0 = Math.Min(y0, h); y1 = Math.Max(y1, h); }
         if (plot.Axes.LimitsHaveBeenSet)
@@ -169,8 +188,14 @@ internal static class PlotKit
         }
         if (x1 <= x0) x1 = x0 + 1;
         if (y1 <= y0) y1 = y0 + 1;
-        int items = plot.Legend.GetItems().Length;
-        double fw = 0.45, fh = Math.Min(0.7, 0.06 + 0.075 * items);
+
+        LegendItem[] items = plot.Legend.GetItems();
+        int longest = items.Select(i => (i.LabelText ?? "").Length).DefaultIfEmpty(8).Max();
+        // Data area: the panel less typical axis paddings; legend: symbol + text width, one row per entry.
+        double areaW = Math.Max(50, panelWidth - 90), areaH = Math.Max(40, panelHeight - 60);
+        double legendW = 52 + 0.62 * ChartStyle.LegendSize * longest, legendH = 14 + 1.75 * ChartStyle.LegendSize * items.Length;
+        double fw = Math.Min(0.95, (legendW + 10) / areaW), fh = Math.Min(0.95, (legendH + 10) / areaH);
+
         Alignment best = Alignment.UpperLeft;
         double bestScore = double.PositiveInfinity;
         foreach (Alignment a in (Alignment[])[Alignment.UpperLeft, Alignment.LowerRight, Alignment.UpperRight, Alignment.LowerLeft])
@@ -187,7 +212,7 @@ internal static class PlotKit
             foreach (double xv in vLines) { double u = (xv - x0) / (x1 - x0); if (u >= bx0 && u <= bx1) score += 20; }
             if (score < bestScore - 1e-9) { bestScore = score; best = a; }
         }
-        plot.Legend.Alignment = best;
+        return best;
     }
 
     internal static void CheckSameLength(string what, int expected, int actual, string paramName)

@@ -176,7 +176,6 @@ public class ChartTests
         using Plot plot = PlotKit.NewPanel("x", "y");
         double[] x = Enumerable.Range(0, 50).Select(i => i / 49.0).ToArray();
         PlotKit.Line(plot, x, x.Select(v => slope * v).ToArray(), "line", 0);
-        PlotKit.ShowLegendAuto(plot);
-        Assert.Equal(expected, plot.Legend.Alignment);
+        Assert.Equal(expected, PlotKit.BestLegendCorner(plot, 600, 400));
     }
 }
