@@ -85,6 +85,8 @@ internal static partial class FigureRenderer
         foreach ((string tag, string replacement) in dashes) svg = svg.Replace(tag, replacement, StringComparison.Ordinal);
         // The SVG back end ends glyph position lists with ", " which strict parsers reject as a list item.
         svg = s_trailingComma.Replace(svg, " $1=\"$2\"");
+        // Heatmaps are embedded as one pixel per cell; viewers must not blur them when scaling up.
+        svg = svg.Replace("<image ", "<image image-rendering=\"optimizeSpeed\" style=\"image-rendering:pixelated\" ", StringComparison.Ordinal);
 
         foreach (PanelSpec p in panels) p.Plot.Dispose();
         return new FigureImage(name, title, caption, png, svg, size.Width, size.Height);

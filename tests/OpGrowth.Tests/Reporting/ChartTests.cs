@@ -67,6 +67,13 @@ public class ChartTests
     }
 
     [Fact]
+    public void LightCone_Svg_HeatmapImageIsNotSmoothed()
+    {
+        FigureImage f = Charts.LightCone(SampleData.Cone(), FigureSize.Small);
+        Assert.Contains("<image image-rendering=\"optimizeSpeed\" style=\"image-rendering:pixelated\"", f.Svg, StringComparison.Ordinal);
+    }
+
+    [Fact]
     public void FigureImage_Save_WritesPngAndSvg()
     {
         FigureImage f = Charts.Lines(SampleData.Lines(), FigureSize.Small);
