@@ -125,7 +125,7 @@ public class ChartTests
         Tick[] ticks = Log10Ticks.Generate(-3.2, 1.5, 400, vertical: true);
         string[] majors = ticks.Where(t => t.IsMajor).Select(t => t.Label).ToArray();
         Assert.Equal(["1e-3", "1e-2", "1e-1", "1e0", "1e1"], majors);
-        // Minor ticks at log10(2..9) inside each decade: 2e-4 .. 9e-4 lie below -3.2 except log10(7e-4) and up.
+        // Minor ticks sit at log10(m * 10^k) for m = 2..9, e.g. at log10(2e-3).
         Assert.Contains(ticks, t => !t.IsMajor && Math.Abs(t.Position - Math.Log10(2e-3)) < 1e-12);
     }
 
