@@ -80,17 +80,16 @@ internal sealed class Compactor<T> where T : unmanaged, IPauliKey<T>
         ForStripes(threads, np, (t, pi) =>
         {
             var part = parts[pi];
-            var keys = part.Keys;
-            var vals = part.Vals;
+            var ents = part.Entries;
             int[]? hist = topM ? _hist[t] : null;
             int cand = 0;
             for (int i = 0; i < part.Count; i++)
             {
-                double c = vals[i];
+                double c = ents[i].Val;
                 if (c == 0) continue;
                 if (needSize)
                 {
-                    int w = keys[i].Weight;
+                    int w = ents[i].Key.Weight;
                     if (w > maxSize) continue;
                     if (damp is not null) c *= damp[w];
                 }
@@ -130,7 +129,7 @@ internal sealed class Compactor<T> where T : unmanaged, IPauliKey<T>
                 var part = parts[pi];
                 for (int i = 0; i < part.Count; i++)
                 {
-                    double a = Magnitude(part.Keys[i], part.Vals[i], thr, maxSize, damp, needSize);
+                    double a = Magnitude(part.Entries[i].Key, part.Entries[i].Val, thr, maxSize, damp, needSize);
                     if (a > 0 && Bin(a) == bin) _binValues[filled++] = a;
                 }
             }
@@ -142,7 +141,7 @@ internal sealed class Compactor<T> where T : unmanaged, IPauliKey<T>
                 int above = 0, ties = 0;
                 for (int i = 0; i < part.Count; i++)
                 {
-                    double a = Magnitude(part.Keys[i], part.Vals[i], thr, maxSize, damp, needSize);
+                    double a = Magnitude(part.Entries[i].Key, part.Entries[i].Val, thr, maxSize, damp, needSize);
                     if (a > cut) above++;
                     else if (a == cut) ties++;
                 }
@@ -177,18 +176,17 @@ internal sealed class Compactor<T> where T : unmanaged, IPauliKey<T>
         ForStripes(threads, np, (_, pi) =>
         {
             var part = parts[pi];
-            var keys = part.Keys;
-            var vals = part.Vals;
+            var ents = part.Entries;
             int w = _offset[pi];
             int tiesLeft = applyCut ? _ties[pi] : 0;
             double kept = 0, del = 0, damped = 0;
             for (int i = 0; i < part.Count; i++)
             {
-                double c = vals[i];
+                double c = ents[i].Val;
                 if (c == 0) continue;
                 if (needSize)
                 {
-                    int sz = keys[i].Weight;
+                    int sz = ents[i].Key.Weight;
                     if (damp is not null)
                     {
                         double c2 = c * damp[sz];
@@ -217,7 +215,7 @@ internal sealed class Compactor<T> where T : unmanaged, IPauliKey<T>
                     del += c * c;
                     continue;
                 }
-                dk[w] = keys[i];
+                dk[w] = ents[i].Key;
                 dv[w] = c;
                 w++;
                 kept += c * c;

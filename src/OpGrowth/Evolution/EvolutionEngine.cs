@@ -414,7 +414,7 @@ internal sealed class EvolutionEngine<T> where T : unmanaged, IPauliKey<T>
         }
         double before = prune > 0 ? _cur.NormSquared() : 0;
         var stats = CompactInto(acc, Rule(damping), _spare);
-        double passLoss = prune > 0 ? Math.Max(0, before - (stats.KeptWeight + stats.DeletedWeight + stats.DampedWeight)) : 0;
+        double passLoss = prune > 0 ? before - (stats.KeptWeight + stats.DeletedWeight + stats.DampedWeight) : 0;
         Swap();
         AfterPass(stats);
         return passLoss + stats.DeletedWeight + stats.DampedWeight;

@@ -39,6 +39,7 @@ internal readonly struct GroupRotationMap<T> : IPauliMap<T> where T : unmanaged,
         _prune = prune;
     }
 
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     public void Apply(in T key, double coefficient, EmitBuffer<T> sink)
     {
         var sites = sink.Sites;
@@ -76,6 +77,7 @@ internal readonly struct GroupRotationMap<T> : IPauliMap<T> where T : unmanaged,
         return a;
     }
 
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private void Branch(int i, int m, int[] idx, T key, double amp, EmitBuffer<T> sink)
     {
         double prune = _prune;

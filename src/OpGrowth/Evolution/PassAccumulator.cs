@@ -53,7 +53,7 @@ internal sealed class PassAccumulator<T> where T : unmanaged, IPauliKey<T>
     }
 
     /// <summary>Bytes one stored entry costs at worst: key + value at array capacity up to twice the count, plus 4 slots of 4 bytes.</summary>
-    public static int WorstBytesPerEntry => 2 * (Unsafe.SizeOf<T>() + 8) + 16;
+    public static int WorstBytesPerEntry => 2 * Unsafe.SizeOf<Entry>() + 16;
 
     /// <summary>Forgets the content, keeps the capacity.</summary>
     public void Clear()
@@ -85,15 +85,21 @@ internal sealed class PassAccumulator<T> where T : unmanaged, IPauliKey<T>
         return bits;
     }
 
+    /// <summary>A key and its accumulated value, stored together (one cache line touched per update).</summary>
+    internal struct Entry
+    {
+        public T Key;
+        public double Val;
+    }
+
     internal sealed class Part
     {
-        public T[] Keys = new T[16];
-        public double[] Vals = new double[16];
+        public Entry[] Entries = new Entry[16];
         public int Count;
         private int[] _slots = new int[32];
         private int _mask = 31;
 
-        public long AllocatedBytes => (long)Keys.Length * Unsafe.SizeOf<T>() + (long)Vals.Length * 8 + (long)_slots.Length * 4;
+        public long AllocatedBytes => (long)Entries.Length * Unsafe.SizeOf<Entry>() + (long)_slots.Length * 4;
 
         public void Clear()
         {
@@ -107,15 +113,16 @@ internal sealed class PassAccumulator<T> where T : unmanaged, IPauliKey<T>
         {
             int[] slots = _slots;
             int mask = _mask;
-            T[] keys = Keys;
+            Entry[] entries = Entries;
             int i = (int)h & mask;
             while (true)
             {
                 int s = slots[i];
                 if (s == 0) break;
-                if (keys[s - 1].Equals(key))
+                ref Entry e = ref entries[s - 1];
+                if (e.Key.Equals(key))
                 {
-                    Vals[s - 1] += value;
+                    e.Val += value;
                     return;
                 }
                 i = (i + 1) & mask;
@@ -125,14 +132,10 @@ internal sealed class PassAccumulator<T> where T : unmanaged, IPauliKey<T>
 
         private void Insert(in T key, double value, int slot)
         {
-            if (Count == Keys.Length)
-            {
-                int cap = Keys.Length * 2;
-                Array.Resize(ref Keys, cap);
-                Array.Resize(ref Vals, cap);
-            }
-            Keys[Count] = key;
-            Vals[Count] = value;
+            if (Count == Entries.Length) Array.Resize(ref Entries, Entries.Length * 2);
+            ref Entry e = ref Entries[Count];
+            e.Key = key;
+            e.Val = value;
             _slots[slot] = ++Count;
             if (2 * Count > _mask + 1) Rehash((_mask + 1) * 2);
         }
@@ -143,7 +146,7 @@ internal sealed class PassAccumulator<T> where T : unmanaged, IPauliKey<T>
             int mask = size - 1;
             for (int e = 0; e < Count; e++)
             {
-                int i = (int)Keys[e].Hash64 & mask;
+                int i = (int)Entries[e].Key.Hash64 & mask;
                 while (slots[i] != 0) i = (i + 1) & mask;
                 slots[i] = e + 1;
             }

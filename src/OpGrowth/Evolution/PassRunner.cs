@@ -15,8 +15,17 @@ namespace OpGrowth.Evolution;
 /// </summary>
 internal sealed class PassRunner<T> where T : unmanaged, IPauliKey<T>
 {
-    /// <summary>Input strings per block: bounds the buffered contributions per block.</summary>
-    public const int BlockSize = 8192;
+    /// <summary>Smallest block of input strings.</summary>
+    public const int MinBlock = 8192;
+
+    /// <summary>
+    /// Contributions buffered per block (all threads). Large blocks make each partition's table
+    /// L2-resident while it is merged (a block must emit about as many contributions as the table
+    /// holds, or every update misses the cache); the block size does not change any result.
+    /// </summary>
+    public const long TargetBlockEmissions = 1 << 21;
+
+    private double _emitPerInput = 4;
 
     private readonly int _threads;
     private EmitBuffer<T>[] _buffers = [];
@@ -63,12 +72,13 @@ internal sealed class PassRunner<T> where T : unmanaged, IPauliKey<T>
         int threads = Math.Min(_threads, Math.Max(1, count / 1024));
         EnsureBuffers(target.PartitionBits);
         var options = new ParallelOptions { MaxDegreeOfParallelism = threads, CancellationToken = ct };
-        int checkEvery = Math.Max(1, target.Parts.Length / 2048);
+        int checkEvery = 1;
         int block = 0;
-        for (int b0 = 0; b0 < count; b0 += BlockSize, block++)
+        int blockSize = (int)Math.Clamp(TargetBlockEmissions / Math.Max(1.0, _emitPerInput), MinBlock, 1 << 22);
+        for (int b0 = 0; b0 < count; b0 += blockSize, block++)
         {
             ct.ThrowIfCancellationRequested();
-            int b1 = Math.Min(count, b0 + BlockSize);
+            int b1 = Math.Min(count, b0 + blockSize);
             if (threads == 1 || b1 - b0 < 1024)
             {
                 Produce(keys, coeffs, b0, b1, map, _buffers[0]);
@@ -93,6 +103,7 @@ internal sealed class PassRunner<T> where T : unmanaged, IPauliKey<T>
             Merge(target, threads, options);
             if (block % checkEvery == 0 && target.AllocatedBytes > byteLimit) return false;
         }
+        _emitPerInput = Math.Max(1.0, emitted / (double)count);
         return true;
     }
 
@@ -104,6 +115,7 @@ internal sealed class PassRunner<T> where T : unmanaged, IPauliKey<T>
         _bufferBits = bits;
     }
 
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private static void Produce<TMap>(T[] keys, double[] coeffs, int start, int end, TMap map, EmitBuffer<T> sink)
         where TMap : struct, IPauliMap<T>
     {
@@ -127,6 +139,7 @@ internal sealed class PassRunner<T> where T : unmanaged, IPauliKey<T>
         });
     }
 
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private static void MergePartition(EmitBuffer<T>[] buffers, int threads, PassAccumulator<T>.Part part, int p)
     {
         for (int b = 0; b < threads; b++)

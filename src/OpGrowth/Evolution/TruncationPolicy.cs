@@ -42,9 +42,13 @@ public sealed record TruncationPolicy
 
     /// <summary>
     /// Branches of a grouped rotation pass whose amplitude is below this fraction of the current cut
-    /// (the weakest kept |c|, or the threshold) are not generated (their weight is booked as discarded).
+    /// (the weakest kept |c|, or the threshold) are not generated; the norm this loses is booked as
+    /// discarded weight. Pruning before the contributions to a string are summed can break the
+    /// interference that keeps a rotation unitary: at 0.1 the mixed-field Ising chain (128 sites,
+    /// 10^5 strings) gained norm (||O||^2 &gt; 1) and ran away; at 0.01 and 0.001 it stayed unitary to
+    /// 1e-6 (norm^2 + discarded = 1). Default 0.01; 0 disables pruning (slower, exact passes).
     /// </summary>
-    public double PassPruneFraction { get; init; } = 0.1;
+    public double PassPruneFraction { get; init; } = 0.01;
 
     /// <summary>True when nothing is truncated (exact evolution up to rounding).</summary>
     public bool IsExact => Threshold == 0 && MaxStrings is null && MemoryBytes is null && MaxSize is null && DampingRate == 0;
