@@ -110,7 +110,7 @@ public static class OperatorEvolution
         if (tp.MaxSize is int k && k < 1) throw new InputException($"--max-size {k}; expected at least 1");
         if (!(tp.DampingRate >= 0 && double.IsFinite(tp.DampingRate))) throw new InputException($"damping rate {tp.DampingRate}; expected a non-negative number");
         if (tp.DampingMinSize < 0) throw new InputException($"damping size l* = {tp.DampingMinSize}; expected a non-negative integer");
-        if (tp.MemoryBytes is long mb && mb < (256L << 20)) throw new InputException($"--memory {MemoryBudget.Format(mb)}; expected at least 256 MiB");
+        if (tp.MemoryBytes is long mb && mb < (160L << 20)) throw new InputException($"--memory {MemoryBudget.Format(mb)}; expected at least 160 MiB");
         if (!(tp.PassPruneFraction >= 0 && tp.PassPruneFraction <= 1)) throw new InputException($"pass prune fraction {tp.PassPruneFraction}; expected 0..1");
     }
 

@@ -140,7 +140,7 @@ public class DenseAgreementTests
     {
         // Conservation law: products of Pauli rotations are unitary conjugations, ||O(t)|| = 1.
         // Tolerance 1e-12: ~500 passes, each rounding at ~1e-16 relative.
-        int n = 8;
+        int n = 6;
         var h = MixedFieldIsing(n);
         var opts = new EvolutionOptions { Method = IntegrationMethod.Trotter4, Dt = 0.1, Time = 3.0, RecordEvery = 5, Threads = 2, Truncation = TruncationPolicy.None };
         var (_, s) = RunEngine<Pauli64>(Problem(h, PauliString.Single(n, 3, 'Z')), opts);
