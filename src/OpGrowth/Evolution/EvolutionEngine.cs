@@ -210,6 +210,23 @@ internal sealed class EvolutionEngine<T> where T : unmanaged, IPauliKey<T>
 
     // ---------------------------------------------------------------- stepping
 
+    /// <summary>Benchmark hook: starts from O(0) without recording or checkpoints.</summary>
+    internal void Start()
+    {
+        _cur.CopyFrom(_initKeys, _initCoeffs);
+        _state = new EngineState { PartitionBits = PassAccumulator<T>.BitsFor(Math.Min(_budget.MaxStrings ?? 65536, 1L << 22)) };
+    }
+
+    /// <summary>Benchmark hook: advances <paramref name="steps"/> steps (one segment); returns the strings held.</summary>
+    internal int Step(int steps, CancellationToken ct = default)
+    {
+        Advance(steps, 0, 1, null, Stopwatch.StartNew(), _state.Step, ct);
+        return _cur.Count;
+    }
+
+    /// <summary>Bytes held by the engine's arrays now.</summary>
+    internal long HeldBytes => TrackedBytes;
+
     private void Advance(int steps, int rungIndex, int rungCount, IProgress<EvolutionProgress>? progress, Stopwatch wall, long stepsAtStart, CancellationToken ct)
     {
         long step = _state.Step;

@@ -112,7 +112,7 @@ internal static class ObservablePass
                     right[k.LastSite] += w;
                     left[k.FirstSite] += w;
                 }
-                if (maj is not null) maj[MajoranaCount.Weight(xw, zw, n)] += w;
+                if (maj is not null) maj[OpGrowth.Models.JordanWigner.MajoranaWeight(xw, zw, n)] += w;
             }
             ws.NormSquared = norm;
             ws.Overlap = overlap;

@@ -29,7 +29,6 @@ internal sealed class PassRunner<T> where T : unmanaged, IPauliKey<T>
 
     private readonly int _threads;
     private EmitBuffer<T>[] _buffers = [];
-    private int _bufferBits = -1;
 
     public PassRunner(int threads)
     {
@@ -49,7 +48,7 @@ internal sealed class PassRunner<T> where T : unmanaged, IPauliKey<T>
             int entry = Unsafe.SizeOf<EmitBuffer<T>.Entry>();
             foreach (var buf in _buffers)
             {
-                foreach (var e in buf.Entries) b += (long)e.Length * entry;
+                foreach (var e in buf.Streams) b += (long)e.Length * entry;
             }
             return b;
         }
@@ -70,7 +69,8 @@ internal sealed class PassRunner<T> where T : unmanaged, IPauliKey<T>
         emitted = 0;
         if (count == 0) return true;
         int threads = Math.Min(_threads, Math.Max(1, count / 1024));
-        EnsureBuffers(target.PartitionBits);
+        EnsureBuffers();
+        foreach (var buf in _buffers) buf.Reset(target.Shift, threads);
         var options = new ParallelOptions { MaxDegreeOfParallelism = threads, CancellationToken = ct };
         int checkEvery = 1;
         int block = 0;
@@ -82,7 +82,7 @@ internal sealed class PassRunner<T> where T : unmanaged, IPauliKey<T>
             if (threads == 1 || b1 - b0 < 1024)
             {
                 Produce(keys, coeffs, b0, b1, map, _buffers[0]);
-                for (int t = 1; t < threads; t++) _buffers[t].Clear();
+                for (int t = 1; t < threads; t++) Array.Clear(_buffers[t].Counts);
             }
             else
             {
@@ -107,50 +107,54 @@ internal sealed class PassRunner<T> where T : unmanaged, IPauliKey<T>
         return true;
     }
 
-    private void EnsureBuffers(int bits)
+    private void EnsureBuffers()
     {
-        if (bits == _bufferBits && _buffers.Length == _threads) return;
+        if (_buffers.Length == _threads) return;
         _buffers = new EmitBuffer<T>[_threads];
-        for (int t = 0; t < _threads; t++) _buffers[t] = new EmitBuffer<T>(bits);
-        _bufferBits = bits;
+        for (int t = 0; t < _threads; t++) _buffers[t] = new EmitBuffer<T>();
     }
 
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private static void Produce<TMap>(T[] keys, double[] coeffs, int start, int end, TMap map, EmitBuffer<T> sink)
         where TMap : struct, IPauliMap<T>
     {
-        sink.Clear();
+        Array.Clear(sink.Counts);
         for (int i = start; i < end; i++) map.Apply(keys[i], coeffs[i], sink);
     }
 
     private void Merge(PassAccumulator<T> target, int threads, ParallelOptions options)
     {
-        int parts = target.Parts.Length;
         var buffers = _buffers;
         if (threads == 1)
         {
-            for (int p = 0; p < parts; p++) MergePartition(buffers, threads, target.Parts[p], p);
+            MergeOwner(buffers, threads, target, 0);
             return;
         }
-        // Fixed stripes: each partition has exactly one writer, and reads the buffers in slice order.
-        Parallel.For(0, threads, options, t =>
-        {
-            for (int p = t; p < parts; p += threads) MergePartition(buffers, threads, target.Parts[p], p);
-        });
+        // Each owner thread merges the partitions it owns (p % threads), reading the buffers in slice order.
+        Parallel.For(0, threads, options, u => MergeOwner(buffers, threads, target, u));
     }
 
+    private const int Ahead = 8;
+
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
-    private static void MergePartition(EmitBuffer<T>[] buffers, int threads, PassAccumulator<T>.Part part, int p)
+    private static void MergeOwner(EmitBuffer<T>[] buffers, int threads, PassAccumulator<T> target, int owner)
     {
+        var parts = target.Parts;
+        int shift = target.Shift;
         for (int b = 0; b < threads; b++)
         {
             var buf = buffers[b];
-            var entries = buf.Entries[p];
-            int c = buf.Counts[p];
+            var entries = buf.Streams[owner];
+            int c = buf.Counts[owner];
             for (int i = 0; i < c; i++)
             {
+                if (i + Ahead < c)
+                {
+                    ulong ha = entries[i + Ahead].Hash;
+                    parts[(int)(ha >> shift)].Prefetch(ha);
+                }
                 ref var e = ref entries[i];
-                part.Add(e.Key, e.Value, e.Hash);
+                parts[(int)(e.Hash >> shift)].Add(e.Key, e.Value, e.Hash);
             }
         }
     }

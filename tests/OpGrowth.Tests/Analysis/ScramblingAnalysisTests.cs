@@ -69,8 +69,9 @@ public class ScramblingAnalysisTests
     [Fact]
     public void GrowthRate_ExponentialSize_RecoversRateOffOneDimension()
     {
-        // n(t) = 1 + 0.05 (e^{2t} - 1), so n - n(0) is a pure exponential: the window rule picks the straight part of
-        // ln(n - n0); the rate must come out as 2 to 1e-6 and the regime as exponential.
+        // n(t) = 1 + 0.05 (e^{2t} - 1): n - n(0) = 0.05 (e^{2t} - 1), whose logarithm bends by ln(1 - e^{-2t}) at the
+        // start of the window (excess >= 0.5, i.e. e^{2t} >= 11): the fitted rate is 2 to within 3% (bias of the
+        // ln(n - n(0)) estimator itself), and the regime must be exponential.
         int n = 200;
         var times = Enumerable.Range(0, 60).Select(i => i * 0.05).ToArray();
         var mean = times.Select(t => 1 + 0.05 * (Math.Exp(2 * t) - 1)).ToArray();
@@ -78,7 +79,7 @@ public class ScramblingAnalysisTests
         var input = new ScramblingInput { N = n, Times = times, MeanSize = mean, SiteWeights = rho, ProbeSites = [0], Geometry = LatticeGeometry.AllToAll(n) };
         var g = ScramblingAnalysis.Analyze(input).Growth;
         Assert.Equal("exponential", g.Regime);
-        Assert.True(Math.Abs(g.SizeExponential.Rate!.Value - 2) < 1e-6, $"rate {g.SizeExponential.Rate}");
+        Assert.True(Math.Abs(g.SizeExponential.Rate!.Value - 2) < 0.06, $"rate {g.SizeExponential.Rate}");
         Assert.True(g.SizeExponential.WindowStart >= 1.0 && g.SizeExponential.Points >= 4);
     }
 
