@@ -181,6 +181,57 @@ public sealed class PauliHamiltonianApplier
     {
         var (start, len) = StateVector.Chunk(chunk, Dimension);
         var outC = outArr.AsSpan(start, len);
+        ComputeChunk(start, len, psiArr, outC);
+        if (expectParts is not null)
+        {
+            expectParts[chunk] = StateVector.InnerKernel(psiArr.AsSpan(start, len), outC).Real;
+        }
+    }
+
+    /// <summary>
+    /// One fused Chebyshev step: next = a (H v) + b v + c prev, written over <paramref name="prev"/>
+    /// (prev is not read when c = 0), and acc += coefficient * next. Returns nothing; one pass over memory.
+    /// </summary>
+    internal void ChebyshevStep(Complex[] v, Complex[] prev, Complex[] acc, double a, double b, double c, Complex coefficient)
+    {
+        int chunks = StateVector.ChunkCount(Dimension);
+        int chunkLen = Math.Min(1 << StateVector.ChunkBits, Dimension);
+        void Body(int ch, Complex[] tmp)
+        {
+            var (start, len) = StateVector.Chunk(ch, Dimension);
+            var hv = tmp.AsSpan(0, len);
+            ComputeChunk(start, len, v, hv);
+            var vs = v.AsSpan(start, len);
+            var ps = prev.AsSpan(start, len);
+            var acs = acc.AsSpan(start, len);
+            for (int i = 0; i < len; i++)
+            {
+                Complex nx = a * hv[i] + b * vs[i];
+                if (c != 0) nx += c * ps[i];
+                ps[i] = nx;
+            }
+            StateVector.AxpyKernel(coefficient, ps, acs);
+        }
+        if (Dimension < StateVector.ParallelThreshold || _threads <= 1)
+        {
+            var tmp = new Complex[chunkLen];
+            for (int ch = 0; ch < chunks; ch++) Body(ch, tmp);
+        }
+        else
+        {
+            Parallel.For(0, chunks, StateVector.Options(_threads), () => new Complex[chunkLen],
+                (ch, _, tmp) =>
+                {
+                    Body(ch, tmp);
+                    return tmp;
+                },
+                _ => { });
+        }
+    }
+
+    // outC = (H psi)[start .. start+len)
+    private void ComputeChunk(int start, int len, Complex[] psiArr, Span<Complex> outC)
+    {
         ReadOnlySpan<Complex> psi = psiArr;
         if (_diagonal is null)
         {
@@ -205,10 +256,6 @@ public sealed class PauliHamiltonianApplier
             {
                 GeneralKernel(g, src, srcStart, xl, outC);
             }
-        }
-        if (expectParts is not null)
-        {
-            expectParts[chunk] = StateVector.InnerKernel(psi.Slice(start, len), outC).Real;
         }
     }
 
