@@ -281,7 +281,7 @@ public sealed class PauliHamiltonianApplier
     {
         if (xl == 0)
         {
-            StateVector.AxpyKernel(c, src, outC);
+            RealAxpy(c, src, outC);
             return;
         }
         int p = BitOperations.TrailingZeroCount(xl);
@@ -291,7 +291,7 @@ public sealed class PauliHamiltonianApplier
             int block = 1 << p;
             for (int b = 0; b < outC.Length; b += block)
             {
-                StateVector.AxpyKernel(c, src.Slice(b ^ xl, block), outC.Slice(b, block));
+                RealAxpy(c, src.Slice(b ^ xl, block), outC.Slice(b, block));
             }
             return;
         }
@@ -312,6 +312,13 @@ public sealed class PauliHamiltonianApplier
             return;
         }
         for (int i = 0; i < outC.Length; i++) outC[i] += c * src[i ^ xl];
+    }
+
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    private static void RealAxpy(double c, ReadOnlySpan<Complex> x, Span<Complex> y)
+    {
+        var yd = MemoryMarshal.Cast<Complex, double>(y);
+        System.Numerics.Tensors.TensorPrimitives.MultiplyAdd(MemoryMarshal.Cast<Complex, double>(x), c, yd, yd);
     }
 
     private static void GeneralKernel(Group g, ReadOnlySpan<Complex> src, int srcStart, int xl, Span<Complex> outC)
