@@ -3,15 +3,17 @@ using System.Runtime.CompilerServices;
 namespace OpGrowth.Pauli;
 
 /// <summary>
-/// One thread's output of a map pass: contributions sorted into the target's partitions
-/// (radix partitioning), kept in emission order. Reused across blocks, so the steady state
-/// allocates nothing.
+/// One thread's output of a map pass: contributions appended in emission order to one stream per
+/// merging thread (the owner of the target partition the string hashes to). Appends are sequential,
+/// so producing costs a few nanoseconds per contribution; the merge then inserts each stream into the
+/// owner's partitions with prefetching. Reused across blocks and passes: steady state allocates nothing.
 /// </summary>
 public sealed class EmitBuffer<T> where T : unmanaged, IPauliKey<T>
 {
-    internal readonly Entry[][] Entries;
-    internal readonly int[] Counts;
-    private readonly int _shift;
+    internal Entry[][] Streams;
+    internal int[] Counts;
+    private int _shift;
+    private int _owners;
 
     /// <summary>Scratch for support sites, sized to the key capacity.</summary>
     public int[] Sites { get; } = new int[T.Capacity];
@@ -22,12 +24,24 @@ public sealed class EmitBuffer<T> where T : unmanaged, IPauliKey<T>
     /// <summary>General-purpose scratch for maps.</summary>
     public double[] ScratchValues { get; } = new double[256];
 
-    internal EmitBuffer(int partitionBits)
+    internal EmitBuffer()
     {
-        _shift = 64 - partitionBits;
-        Entries = new Entry[1 << partitionBits][];
-        Counts = new int[1 << partitionBits];
-        for (int i = 0; i < Entries.Length; i++) Entries[i] = new Entry[64];
+        Streams = [];
+        Counts = [];
+    }
+
+    /// <summary>Prepares for a pass into a target with the given partition shift and owner count.</summary>
+    internal void Reset(int shift, int owners)
+    {
+        _shift = shift;
+        _owners = owners;
+        if (Streams.Length != owners)
+        {
+            Streams = new Entry[owners][];
+            for (int i = 0; i < owners; i++) Streams[i] = new Entry[1024];
+            Counts = new int[owners];
+        }
+        Array.Clear(Counts);
     }
 
     /// <summary>Emits one contribution to the target.</summary>
@@ -35,24 +49,22 @@ public sealed class EmitBuffer<T> where T : unmanaged, IPauliKey<T>
     public void Emit(in T key, double value)
     {
         ulong h = key.Hash64;
-        int p = (int)(h >> _shift);
-        int c = Counts[p];
-        var arr = Entries[p];
-        if (c == arr.Length) arr = Grow(p);
+        int u = _owners == 1 ? 0 : (int)(h >> _shift) % _owners;
+        int c = Counts[u];
+        var arr = Streams[u];
+        if (c == arr.Length) arr = Grow(u);
         ref var e = ref arr[c];
         e.Key = key;
         e.Value = value;
         e.Hash = h;
-        Counts[p] = c + 1;
+        Counts[u] = c + 1;
     }
 
-    private Entry[] Grow(int p)
+    private Entry[] Grow(int u)
     {
-        Array.Resize(ref Entries[p], Entries[p].Length * 2);
-        return Entries[p];
+        Array.Resize(ref Streams[u], Streams[u].Length * 2);
+        return Streams[u];
     }
-
-    internal void Clear() => Array.Clear(Counts);
 
     internal struct Entry
     {

@@ -7,7 +7,7 @@ public static class Liouvillian
     public static PauliOperator<T> Commutator<T>(CompiledHamiltonian<T> h, PauliOperator<T> o, int threads = 1, double scale = 1.0)
         where T : unmanaged, IPauliKey<T>
     {
-        var acc = new PauliAccumulator<T>(o.N, PauliAccumulator<T>.BitsFor(EstimateImage(h, o)));
+        var acc = PauliAccumulator<T>.For(o.N, EstimateImage(h, o));
         PauliMapper.Run(o, new CommutatorMap<T>(h, scale), acc, threads);
         return acc.ToOperator();
     }
@@ -21,7 +21,7 @@ public static class Liouvillian
     public static PauliOperator<T> Combine<T>(double a, PauliOperator<T> x, double b, PauliOperator<T> y)
         where T : unmanaged, IPauliKey<T>
     {
-        var acc = new PauliAccumulator<T>(x.N, PauliAccumulator<T>.BitsFor(x.Count + y.Count));
+        var acc = PauliAccumulator<T>.For(x.N, x.Count + y.Count);
         acc.AddScaled(x, a);
         acc.AddScaled(y, b);
         return acc.ToOperator();
@@ -30,5 +30,5 @@ public static class Liouvillian
     /// <summary>A size hint for the image of O under i[H, .] (depends on inputs only).</summary>
     public static long EstimateImage<T>(CompiledHamiltonian<T> h, PauliOperator<T> o)
         where T : unmanaged, IPauliKey<T>
-        => Math.Max(16, (long)o.Count * 3);
+        => Math.Max(16, (long)o.Count * 2);
 }
