@@ -187,8 +187,12 @@ public static class LevelStatistics
             }
         }
         foreach (var name in detected.Where(d => !resolve.Contains(d))) warnings.Add($"H commutes with '{name}' but it was not resolved: independent blocks are mixed and <r> is biased toward Poisson");
-        foreach (var name in o.DeclaredSymmetries.Distinct())
+        foreach (var declared in o.DeclaredSymmetries.Distinct())
         {
+            // fermion parity is the spin flip prod_j X_j; time reversal is anti-unitary: it makes the
+            // blocks real (GOE class) and has no sectors to resolve.
+            string name = declared == "fermion-parity" ? "spin-flip" : declared;
+            if (name == "time-reversal") continue;
             if (Supported.Contains(name))
             {
                 if (!detected.Contains(name)) warnings.Add($"declared symmetry '{name}' does not commute with H (check the model)");
