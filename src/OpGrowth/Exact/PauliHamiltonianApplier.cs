@@ -22,7 +22,9 @@ namespace OpGrowth.Exact;
 public sealed class PauliHamiltonianApplier
 {
     private readonly double[]? _diagonal;
-    private readonly Group[] _groups;
+    private readonly Group[] _groups;      // groups not handled by the fused pass
+    private readonly ulong[] _fusedX;      // pure X-type groups (one real term, no Z bits), fused into one pass
+    private readonly double[] _fusedC;
     private readonly int _threads;
 
     private sealed class Group
@@ -45,13 +47,15 @@ public sealed class PauliHamiltonianApplier
     public Hamiltonian Hamiltonian { get; }
 
     /// <summary>Number of off-diagonal X-mask groups (the diagonal group is counted separately).</summary>
-    public int OffDiagonalGroups => _groups.Length;
+    public int OffDiagonalGroups => _groupCount;
+
+    private readonly int _groupCount;
 
     /// <summary>True when H has diagonal terms (products of Z).</summary>
     public bool HasDiagonal => _diagonal is not null;
 
     /// <summary>Amplitude updates done by one application: 2^N per group, the diagonal included.</summary>
-    public long AmplitudeUpdatesPerApply => (long)Dimension * (_groups.Length + (_diagonal is null ? 0 : 1));
+    public long AmplitudeUpdatesPerApply => (long)Dimension * (_groupCount + (_diagonal is null ? 0 : 1));
 
     /// <summary>True when H is a real matrix in the computational basis (every term has an even number of Y).</summary>
     public bool IsReal { get; }
@@ -107,7 +111,7 @@ public sealed class PauliHamiltonianApplier
         }
         IsReal = real;
         NormBound = bound;
-        _groups = byX.OrderBy(kv => kv.Key).Select(kv => new Group
+        var all = byX.OrderBy(kv => kv.Key).Select(kv => new Group
         {
             X = kv.Key,
             RealZ = [.. kv.Value.rz],
@@ -115,6 +119,11 @@ public sealed class PauliHamiltonianApplier
             ImagZ = [.. kv.Value.iz],
             ImagC = [.. kv.Value.ic],
         }).ToArray();
+        _groupCount = all.Length;
+        bool fuse = Vector256.IsHardwareAccelerated && Dimension >= 2;
+        _groups = all.Where(g => !(fuse && g.PureX)).ToArray();
+        _fusedX = all.Where(g => fuse && g.PureX).Select(g => g.X).ToArray();
+        _fusedC = all.Where(g => fuse && g.PureX).Select(g => g.RealC[0]).ToArray();
         if (diagTerms.Count > 0)
         {
             _diagonal = new double[Dimension];
@@ -233,7 +242,11 @@ public sealed class PauliHamiltonianApplier
     private void ComputeChunk(int start, int len, Complex[] psiArr, Span<Complex> outC)
     {
         ReadOnlySpan<Complex> psi = psiArr;
-        if (_diagonal is null)
+        if (_fusedX.Length > 0)
+        {
+            FusedKernel(start, len, psiArr, outC);
+        }
+        else if (_diagonal is null)
         {
             outC.Clear();
         }
@@ -255,6 +268,50 @@ public sealed class PauliHamiltonianApplier
             else
             {
                 GeneralKernel(g, src, srcStart, xl, outC);
+            }
+        }
+    }
+
+    // One pass for the diagonal and every pure X-type group: each pair of outputs (one 256-bit vector)
+    // sums diag * psi and c_g psi[i ^ x_g] in registers, so the output is written once instead of once
+    // per group. A group flipping the lowest bit reads the neighbouring pair with its halves swapped.
+    private unsafe void FusedKernel(int start, int len, Complex[] psiArr, Span<Complex> outC)
+    {
+        var xs = _fusedX;
+        var cs = _fusedC;
+        int g = xs.Length;
+        var swap = Vector256.Create(2L, 3L, 0L, 1L);
+        fixed (Complex* psiC = psiArr)
+        fixed (Complex* outP = outC)
+        fixed (double* diag = _diagonal)
+        {
+            double* psi = (double*)psiC;
+            double* o = (double*)outP;
+            for (int li = 0; li < len; li += 2)
+            {
+                int i = start + li;
+                Vector256<double> acc;
+                if (diag is not null)
+                {
+                    acc = Vector256.Create(diag[i], diag[i], diag[i + 1], diag[i + 1]) * Vector256.Load(psi + 2 * i);
+                }
+                else
+                {
+                    acc = Vector256<double>.Zero;
+                }
+                for (int k = 0; k < g; k++)
+                {
+                    ulong x = xs[k];
+                    if ((x & 1) == 0)
+                    {
+                        acc += Vector256.Create(cs[k]) * Vector256.Load(psi + 2 * (long)((ulong)i ^ x));
+                    }
+                    else
+                    {
+                        acc += Vector256.Create(cs[k]) * Vector256.Shuffle(Vector256.Load(psi + 2 * (long)((ulong)i ^ x ^ 1)), swap);
+                    }
+                }
+                acc.Store(o + 2 * li);
             }
         }
     }
