@@ -206,7 +206,7 @@ internal static class ExactCommand
         AtomicFile.WriteAllText(Path.Combine(outDir, "exact-levels.csv"), sb.ToString());
         var o = CliHost.Out;
         o.WriteLine(FormattableString.Invariant($"{model.Name} N={model.N}: <r> = {r.MeanRatio:F4} +- {r.StandardError:F4} over {r.Gaps} gap ratios, {r.Realizations} realisation(s) ({r.WallSeconds:F1} s)"));
-        o.WriteLine(FormattableString.Invariant($"  reference: Poisson {r.Poisson:F4}, GOE {r.Goe:F4}, GUE {r.Gue:F4}; closest: {r.Closest}; blocks {(r.RealBlocks ? "real (GOE class)" : "complex (GUE class)")}"));
+        o.WriteLine(FormattableString.Invariant($"  reference: Poisson {r.Poisson:F4}, GOE {r.Goe:F4}, GUE {r.Gue:F4}; closest: {r.Closest}; blocks {(r.RealBlocks ? "real (GOE class)" : "complex (GUE class)")}; eigensolver {(NativeLapack.IsAvailable ? "LAPACK" : "managed")}"));
         o.WriteLine($"  detected: {(r.Detected.Count == 0 ? "none" : string.Join(", ", r.Detected))}; resolved: {(r.Resolved.Count == 0 ? "none" : string.Join(", ", r.Resolved))}");
         foreach (var sec in r.Sectors) o.WriteLine(FormattableString.Invariant($"  {sec.Label,-24} dim {sec.Dimension,6}  <r> {sec.MeanRatio:F4} +- {sec.StandardError:F4}"));
         foreach (var wn in r.Warnings) o.WriteLine($"  warning: {wn}");
