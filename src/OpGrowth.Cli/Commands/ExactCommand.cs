@@ -96,13 +96,15 @@ internal static class ExactCommand
         };
         if (method == OtocMethod.Dense && n > DenseSpectrum.DefaultMaxQubits) throw new InputException($"--method dense: found N = {n}; expected N <= {DenseSpectrum.DefaultMaxQubits} (use typicality)");
         var fit = ParseRange(s.FitRange, "--fit-range");
+        var siteList = ParseSites(s.Sites, n);
+        if (siteList is { Length: 0 } && probes.Length == 0) throw new InputException("--sites none: found no sites and no --probe; expected at least one OTOC to compute");
         var betas = thermal ? ParseList(s.Beta, "--beta") : [0.0];
         if (betas.Any(b => b < 0)) throw new InputException("--beta: found a negative value; expected beta >= 0");
         var baseOptions = new ExactOtocOptions
         {
             Operator = w,
             Times = times,
-            Sites = ParseSites(s.Sites, n),
+            Sites = siteList,
             Probes = probes,
             Method = method,
             Samples = ParseInt(s.Samples, "--samples", 1, 10_000),

@@ -115,6 +115,7 @@ public static class ExactOtoc
         {
             if (s < 0 || s >= h.N) throw new ArgumentOutOfRangeException(nameof(o), s, $"Site {s} is outside 0..{h.N - 1}.");
         }
+        if (o.Sites is { Count: 0 } && o.Probes.Count == 0) throw new ArgumentException("Nothing to compute: no sites and no probes.", nameof(o));
         foreach (var p in o.Probes)
         {
             if (p.N != h.N) throw new ArgumentException($"Probe {p} acts on {p.N} qubits; the Hamiltonian on {h.N}.", nameof(o));
