@@ -21,6 +21,12 @@ public sealed record ExactOtocOptions
     /// <summary>Further probes V (any Pauli strings; single-site ones are better given through <see cref="Sites"/>).</summary>
     public IReadOnlyList<PauliString> Probes { get; init; } = [];
 
+    /// <summary>
+    /// Also estimate the mean operator size n(t) for all sites at once with a random-sign probe (beta = 0
+    /// only; two propagations per time instead of two per site). Used when not every site is resolved.
+    /// </summary>
+    public bool EstimateMeanSize { get; init; }
+
     /// <summary>Inverse temperature; 0 = infinite temperature. The regularised OTOC Tr(y W(t) y V y W(t) y V), y = rho^{1/4}.</summary>
     public double Beta { get; init; }
 

@@ -57,6 +57,9 @@ public sealed record ExactOtocResult
     /// </summary>
     public OtocSeries? MeanSize { get; init; }
 
+    /// <summary>How <see cref="MeanSize"/> was obtained: "site-resolved OTOCs", "random-sign probe" or "none".</summary>
+    public string MeanSizeMethod { get; init; } = "none";
+
     /// <summary>Growth-rate fits (one per probe, and per site letter average).</summary>
     public required IReadOnlyList<GrowthFit> Fits { get; init; }
 

@@ -240,3 +240,27 @@ public class ExactOtocTests
         Assert.Equal(2.0 / (2 * Math.PI), fit.BoundRatio, 10);
     }
 }
+
+public class MeanSizeProbeTests
+{
+    [Fact]
+    public void RandomSignProbe_N8_AgreesWithExactMeanSize()
+    {
+        // Source: OTOC-size identity n(t) = (3/4) sum_x (1 - Fbar_x) (check-values.md) evaluated exactly by
+        // dense traces, against the random-sign (Hutchinson 1989) typicality estimate with 10 samples; the
+        // bound is five reported standard errors plus 0.05 (a floor for a small sample SE).
+        const int n = 8;
+        var h = TestModels.MixedFieldIsing(n);
+        var w = PauliString.Parse("Z_0", n);
+        var times = new[] { 0.0, 0.8, 1.6, 3.0 };
+        var exact = ExactOtoc.Run(h, new ExactOtocOptions { Operator = w, Times = times, Method = OtocMethod.Dense });
+        var est = ExactOtoc.Run(h, new ExactOtocOptions { Operator = w, Times = times, Sites = [], EstimateMeanSize = true, Method = OtocMethod.Typicality, Samples = 10, Seed = 9 });
+        Assert.Equal("random-sign probe", est.MeanSizeMethod);
+        for (int k = 0; k < times.Length; k++)
+        {
+            double bound = 5 * est.MeanSize!.Errors[k] + 0.05;
+            Assert.True(Math.Abs(exact.MeanSize!.Values[k] - est.MeanSize.Values[k]) <= bound,
+                $"t={times[k]}: exact {exact.MeanSize.Values[k]:F4}, estimate {est.MeanSize.Values[k]:F4} +- {est.MeanSize.Errors[k]:F4}");
+        }
+    }
+}
