@@ -37,6 +37,7 @@ internal static class ExactCommand
         var resolve = new Option<string?>("--resolve") { Description = "levels: symmetries to resolve (comma list of total-z, reflection, spin-flip; \"none\"); default: every one H has." };
         var realizations = new Option<string>("--realizations") { Description = "levels: disorder realisations (the model's 'seed' parameter is stepped).", DefaultValueFactory = _ => "1" };
         var fraction = new Option<string>("--central-fraction") { Description = "levels: fraction of each sector's levels kept around the middle.", DefaultValueFactory = _ => "0.8" };
+        var meanSize = new Option<bool>("--mean-size") { Description = "otoc: also estimate the mean size for all sites with one random-sign probe (cheap at large N; used when not every site is resolved)." };
         var outDir = new Option<string?>("--out") { Description = "Output folder (default: exact-<model name>)." };
         var cmd = new Command("exact",
             "Exact state-vector engine at small N: OTOCs F(t) = Tr(W(t) V W(t) V)/2^N against X, Y, Z on every site " +
@@ -46,17 +47,17 @@ internal static class ExactCommand
             "  opgrowth exact mixed-field-ising --set N=10 --mode thermal --beta 0.2,0.5 --sites 5\n" +
             "  opgrowth exact mixed-field-ising --set N=12 --mode levels")
         {
-            model, mode, set, op, sites, probe, times, beta, method, samples, seed, tol, threads, fit, resolve, realizations, fraction, outDir,
+            model, mode, set, op, sites, probe, times, beta, method, samples, seed, tol, threads, fit, resolve, realizations, fraction, meanSize, outDir,
         };
         cmd.SetAction(pr => CliHost.Run(ct => Execute(new Settings(
             pr.GetValue(model)!, pr.GetValue(mode)!, pr.GetValue(set) ?? [], pr.GetValue(op), pr.GetValue(sites)!, pr.GetValue(probe) ?? [],
             pr.GetValue(times)!, pr.GetValue(beta)!, pr.GetValue(method)!, pr.GetValue(samples)!, pr.GetValue(seed)!, pr.GetValue(tol)!,
-            pr.GetValue(threads)!, pr.GetValue(fit)!, pr.GetValue(resolve), pr.GetValue(realizations)!, pr.GetValue(fraction)!, pr.GetValue(outDir)), ct)));
+            pr.GetValue(threads)!, pr.GetValue(fit)!, pr.GetValue(resolve), pr.GetValue(realizations)!, pr.GetValue(fraction)!, pr.GetValue(meanSize), pr.GetValue(outDir)), ct)));
         return cmd;
     }
 
     private sealed record Settings(string Model, string Mode, string[] Sets, string? Operator, string Sites, string[] Probes, string Times, string Beta,
-        string Method, string Samples, string Seed, string Tolerance, string Threads, string FitRange, string? Resolve, string Realizations, string Fraction, string? Out);
+        string Method, string Samples, string Seed, string Tolerance, string Threads, string FitRange, string? Resolve, string Realizations, string Fraction, bool MeanSize, string? Out);
 
     private static int Execute(Settings s, CancellationToken ct)
     {
@@ -97,7 +98,7 @@ internal static class ExactCommand
         if (method == OtocMethod.Dense && n > DenseSpectrum.DefaultMaxQubits) throw new InputException($"--method dense: found N = {n}; expected N <= {DenseSpectrum.DefaultMaxQubits} (use typicality)");
         var fit = ParseRange(s.FitRange, "--fit-range");
         var siteList = ParseSites(s.Sites, n);
-        if (siteList is { Length: 0 } && probes.Length == 0) throw new InputException("--sites none: found no sites and no --probe; expected at least one OTOC to compute");
+        if (siteList is { Length: 0 } && probes.Length == 0 && !s.MeanSize) throw new InputException("--sites none: found no sites and no --probe; expected at least one OTOC to compute");
         var betas = thermal ? ParseList(s.Beta, "--beta") : [0.0];
         if (betas.Any(b => b < 0)) throw new InputException("--beta: found a negative value; expected beta >= 0");
         var baseOptions = new ExactOtocOptions
@@ -112,6 +113,7 @@ internal static class ExactCommand
             Tolerance = ParseDouble(s.Tolerance, "--tolerance", 1e-15, 0.1),
             Threads = threads,
             FitRange = fit,
+            EstimateMeanSize = s.MeanSize && !thermal,
             Logger = log,
         };
         var results = new List<ExactOtocResult>();
@@ -140,7 +142,7 @@ internal static class ExactCommand
             o.WriteLine(FormattableString.Invariant($"{model.Name} N={n} W={r.Operator} beta={r.Beta} method={r.Method} samples={r.Samples} ({r.Cost.WallSeconds:F1} s, peak {r.Cost.PeakWorkingSetBytes / 1e6:F0} MB)"));
             int last = r.Times.Length - 1;
             o.WriteLine(FormattableString.Invariant($"  autocorrelation at t={r.Times[last]}: {r.Autocorrelation.Values[last]:F5} +- {r.Autocorrelation.Errors[last]:F5}"));
-            if (r.MeanSize is not null) o.WriteLine(FormattableString.Invariant($"  mean size at t={r.Times[last]}: {r.MeanSize.Values[last]:F4} +- {r.MeanSize.Errors[last]:F4} (saturation 3N/4 = {0.75 * n:F2})"));
+            if (r.MeanSize is not null) o.WriteLine(FormattableString.Invariant($"  mean size at t={r.Times[last]}: {r.MeanSize.Values[last]:F4} +- {r.MeanSize.Errors[last]:F4} (saturation 3N/4 = {0.75 * n:F2}; {r.MeanSizeMethod})"));
             foreach (var site in r.Sites.Take(40))
             {
                 o.WriteLine(FormattableString.Invariant($"  site {site.Site,3}: F_X {site.X.Values[last],8:F4}  F_Y {site.Y.Values[last],8:F4}  F_Z {site.Z.Values[last],8:F4}  weight {site.Weight.Values[last]:F4} +- {site.Weight.Errors[last]:F4}"));

@@ -310,6 +310,7 @@ public static class ExactOtoc
                     xi[k] = rng.Next(2) == 0 ? 1.0 : -1.0;
                 }
                 StateVector.ScaledCopy(r, 1, u[0], threads);
+                StateVector.ApplyPauli(w, r, wq[0]); // W r, for the autocorrelation <W r|W(t) r>
                 Array.Clear(u[1]);
                 for (int k = 0; k < 3 * n; k++)
                 {
@@ -339,6 +340,7 @@ public static class ExactOtoc
                     Complex sum = 0;
                     for (int q = 0; q < 3 * n; q++) sum += xi[q] * StateVector.PauliMatrixElement(g[0], paulis[q], g[1]);
                     acc.Size[s].Add(0.75 * n - 0.25 * sum.Real);
+                    acc.Auto[k].Add(StateVector.Inner(wq[0], g[0], threads).Real);
                 }
                 done++;
                 o.Logger?.LogInformation("sample {S}/{Samples}, mean-size probe: done ({Elapsed:F1} s)", s + 1, o.Samples, clock.Elapsed.TotalSeconds);
