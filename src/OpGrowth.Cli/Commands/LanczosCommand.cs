@@ -50,7 +50,7 @@ internal static class LanczosCommand
         };
         var memory = new Option<long>("--memory")
         {
-            Description = "Memory budget for the recursion, e.g. 20GiB, 512MiB or bytes. The run stops cleanly before a step that would not fit (default: 70% of available memory).",
+            Description = "Memory budget for the recursion, e.g. 20GiB, 512MiB or bytes. The run stops cleanly before a step that would not fit (default: 70% of available memory). Accounted bytes are multiplied by 1.3 for heap overhead before the comparison.",
             CustomParser = ParseMemory,
             DefaultValueFactory = _ => (long)(0.7 * GC.GetGCMemoryInfo().TotalAvailableMemoryBytes),
         };

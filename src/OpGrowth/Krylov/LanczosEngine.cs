@@ -20,6 +20,13 @@ namespace OpGrowth.Krylov;
 internal static class LanczosEngine
 {
 
+    /// <summary>
+    /// Process footprint per accounted byte: garbage awaiting collection, heap fragmentation and the
+    /// runtime. Measured: peak resident set / peak accounted bytes = 1.16 (plain) and 1.30 (reflection
+    /// reduction) for the depth-34 mixed-field Ising runs; the larger value is used.
+    /// </summary>
+    internal const double HeapOverhead = 1.3;
+
     /// <summary>Strings per commutator chunk at least; memory and cancellation are checked between chunks.</summary>
     private const int MinChunk = 1 << 20;
 
@@ -73,10 +80,10 @@ internal static class LanczosEngine
             long emitAllowance = ((long)opt.Threads * opt.Threads * 1024 + (long)(Math.Min(cur.Count, PauliMapper.BlockSize) * products * 2)) * entryBytes;
             long held = cur.AllocatedBytes + (prev?.AllocatedBytes ?? 0) + kept.Sum(v => v.Bytes) + emitAllowance;
             long predictedBytes = held + (long)(predicted * (accBytesPerString + perString));
-            if (predictedBytes > opt.MemoryBudgetBytes)
+            if (predictedBytes * HeapOverhead > opt.MemoryBudgetBytes)
             {
                 stop = LanczosStopReason.MemoryBudget;
-                stopMessage = $"memory budget: step {n} would need about {Gib(predictedBytes)} (about {predicted:N0} strings at {accBytesPerString + perString:F0} B each, plus {Gib(held)} held) > budget {Gib(opt.MemoryBudgetBytes)}";
+                stopMessage = $"memory budget: step {n} would need about {Gib(predictedBytes)} (about {predicted:N0} strings at {accBytesPerString + perString:F0} B each, plus {Gib(held)} held; times {HeapOverhead} for the heap: {Gib((long)(predictedBytes * HeapOverhead))}) > budget {Gib(opt.MemoryBudgetBytes)}";
                 break;
             }
 
@@ -84,7 +91,7 @@ internal static class LanczosEngine
             int stepIndex = n;
             bool completed = Accumulate(basis, cur, prev, coupling, acc, opt.Threads, done =>
             {
-                if (held + acc.AllocatedBytes > opt.MemoryBudgetBytes)
+                if ((held + acc.AllocatedBytes) * HeapOverhead > opt.MemoryBudgetBytes)
                 {
                     stop = LanczosStopReason.MemoryBudget;
                     stopMessage = $"memory budget: step {stepIndex} exceeded {Gib(opt.MemoryBudgetBytes)} while accumulating ({acc.Count:N0} strings after {done:N0} of {cur.Count:N0} inputs); the step was abandoned";
@@ -102,10 +109,10 @@ internal static class LanczosEngine
             long accCount = acc.Count;
             long accBytes = acc.AllocatedBytes;
             long accounted = held + accBytes + accCount * perString;
-            if (accounted > opt.MemoryBudgetBytes)
+            if (accounted * HeapOverhead > opt.MemoryBudgetBytes)
             {
                 stop = LanczosStopReason.MemoryBudget;
-                stopMessage = $"memory budget: step {n} needs {Gib(accounted)} to compact {accCount:N0} strings > budget {Gib(opt.MemoryBudgetBytes)}; the step was abandoned";
+                stopMessage = $"memory budget: step {n} needs {Gib(accounted)} (times {HeapOverhead} for the heap) to compact {accCount:N0} strings > budget {Gib(opt.MemoryBudgetBytes)}; the step was abandoned";
                 break;
             }
             if (accCount > 0) accBytesPerString = (double)accBytes / accCount;
