@@ -615,7 +615,6 @@ public static class ExactOtoc
             var mean = Reduce(avgLists);
             var weight = mean.Mean.Select(f => 0.75 * (1 - f)).ToArray();
             var weightErr = mean.Err.Select(x => 0.75 * x).ToArray();
-            string name = $"site {j}";
             siteResults.Add(new SiteOtoc(j,
                 new OtocSeries($"X_{j}", red[0].Mean, red[0].Err),
                 new OtocSeries($"Y_{j}", red[1].Mean, red[1].Err),
@@ -631,7 +630,6 @@ public static class ExactOtoc
                 }
             }
             fits.Add(GrowthRate.Fit($"mean_{j}", times, mean.Mean, o.Beta, o.FitRange.Low, o.FitRange.High));
-            _ = name;
         }
         var probeResults = new List<OtocSeries>();
         for (int p = 0; p < o.Probes.Count; p++)

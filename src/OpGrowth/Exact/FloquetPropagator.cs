@@ -71,7 +71,6 @@ public sealed class FloquetPropagator
         RotationsApplied++;
         int len = psi.Length;
         ulong x = p.X;
-        Complex ph = p.Phase;
         void Body(int ch)
         {
             var (st, l) = StateVector.Chunk(ch, len);
@@ -91,7 +90,6 @@ public sealed class FloquetPropagator
                 psi[k] = c * a - new Complex(0, s) * fa * b;
                 psi[(int)j] = c * b - new Complex(0, s) * fb * a;
             }
-            _ = ph;
         }
         int chunks = StateVector.ChunkCount(len);
         if (len < StateVector.ParallelThreshold || _threads <= 1)
