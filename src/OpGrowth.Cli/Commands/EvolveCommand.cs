@@ -60,7 +60,7 @@ internal static class EvolveCommand
             "and read off scrambling: autocorrelation, size distribution, OTOCs against every single-site operator, the front and v_B, growth rates, saturation and t*.\n\n" +
             "Truncation biases: --threshold and --max-strings remove small coefficients (late-time size biased low); --max-size suppresses size growth by construction; " +
             "--damping suppresses long strings. Every step records the discarded weight; use --ladder 3 to measure how much each figure depends on the budget.\n\n" +
-            "Examples:\n  opgrowth evolve mixed-field-ising --set n=128 --probe Z_64 --time 12 --max-strings 1000000 --ladder 3\n  opgrowth evolve kicked-ising --time 40 --memory 4GiB --out runs/kicked")
+            "Examples:\n  opgrowth evolve mixed-field-ising --set N=128 --probe Z_64 --time 12 --max-strings 1000000 --ladder 3\n  opgrowth evolve kicked-ising --time 40 --memory 4GiB --out runs/kicked")
         {
             model, set, probe, time, dt, every, method, threshold, maxStrings, memory, maxSize, damping, ladder, front, threads, outDir, resume, ckEvery, noCk, keepCk,
         };

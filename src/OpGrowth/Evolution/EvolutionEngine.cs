@@ -23,15 +23,15 @@ internal sealed class EvolutionEngine<T> where T : unmanaged, IPauliKey<T>
     private readonly ulong _fingerprint;
     private readonly ILogger? _logger;
     private readonly int _n;
-    private readonly int _threads;
+    private int _threads;
     private readonly bool _floquet;
     private readonly double _stepTime;
     private readonly long _totalSteps;
     private readonly List<RotationGroup<T>> _groups = [];
     private readonly List<SplitStage> _periodStages = [];
     private readonly CompiledHamiltonian<T>? _compiled;
-    private readonly PassRunner<T> _runner;
-    private readonly Compactor<T> _compactor;
+    private PassRunner<T> _runner;
+    private Compactor<T> _compactor;
     private readonly Dictionary<(int, int, int, long), (double[] Cos, double[] Sin)> _trig = [];
     private readonly Dictionary<int, List<SplitStage>> _segments = [];
     private readonly Dictionary<int, double[]> _damping = [];
@@ -147,12 +147,10 @@ internal sealed class EvolutionEngine<T> where T : unmanaged, IPauliKey<T>
     {
         var wall = Stopwatch.StartNew();
         double elapsedBefore = 0;
-        bool resumed = false;
         if (_options.Resume && _options.CheckpointDirectory is not null && File.Exists(CheckpointPath))
         {
             Load(CheckpointPath);
             elapsedBefore = _state.ElapsedSeconds;
-            resumed = true;
             _logger?.LogInformation("rung {Rung}: resumed from {Path} at step {Step} of {Total}", _budget.Rung, CheckpointPath, _state.Step, _totalSteps);
         }
         else
@@ -182,7 +180,6 @@ internal sealed class EvolutionEngine<T> where T : unmanaged, IPauliKey<T>
                 if (halt) throw new SimulatedKillException();
             }
             _series.Completed = true;
-            if (_options.CheckpointDirectory is not null && resumed && stepsAtStart == _totalSteps) { /* already final */ }
         }
         catch (ResourceLimitException ex)
         {
@@ -200,6 +197,8 @@ internal sealed class EvolutionEngine<T> where T : unmanaged, IPauliKey<T>
         _series.Steps.AddRange(_state.Steps);
         _series.PeakStrings = _state.PeakStrings;
         _series.PeakTrackedBytes = _state.PeakTrackedBytes;
+        _series.PeakHeapBytes = _state.PeakHeapBytes;
+        _series.PeakWorkingSetBytes = Environment.WorkingSet > 0 ? System.Diagnostics.Process.GetCurrentProcess().PeakWorkingSet64 : 0;
         _series.PassRetries = _state.PassRetries;
         _series.Passes = _state.Passes;
         _series.ElapsedSeconds = _state.ElapsedSeconds;
@@ -222,6 +221,14 @@ internal sealed class EvolutionEngine<T> where T : unmanaged, IPauliKey<T>
     {
         Advance(steps, 0, 1, null, Stopwatch.StartNew(), _state.Step, ct);
         return _cur.Count;
+    }
+
+    /// <summary>Benchmark hook: changes the worker count (results do not depend on it).</summary>
+    internal void SetThreads(int threads)
+    {
+        _threads = threads;
+        _runner = new PassRunner<T>(threads);
+        _compactor = new Compactor<T>(threads);
     }
 
     /// <summary>Bytes held by the engine's arrays now.</summary>
@@ -313,18 +320,60 @@ internal sealed class EvolutionEngine<T> where T : unmanaged, IPauliKey<T>
         var subs = SubGroups(group, blocks);
         double discarded = 0;
         long emitted = 0, inputs = 0;
+        bool overflowed = false;
         for (int b = 0; b < subs.Count; b++)
         {
             var (cos, sin) = Trig(subs[b], group, blocks, b, fraction, dt);
-            inputs += _cur.Count;
-            discarded += RotationPass(subs[b], cos, sin, b == subs.Count - 1 ? damping : null, ct, out long em);
-            emitted += em;
+            discarded += ApplyBlock(subs[b], cos, sin, b == subs.Count - 1 ? damping : null, ct, ref inputs, ref emitted, ref overflowed);
         }
-        if (emitted > SplitEmissions * Math.Max(1, inputs) && blocks < _groups[group].Count)
+        if (overflowed && blocks < _groups[group].Count)
+        {
+            _state.GroupBlocks[group] = Math.Min(4 * blocks, _groups[group].Count);
+        }
+        else if (emitted > SplitEmissions * Math.Max(1, inputs) && blocks < _groups[group].Count)
         {
             _state.GroupBlocks[group] = Math.Min(2 * blocks, _groups[group].Count);
         }
         return discarded;
+    }
+
+    /// <summary>
+    /// One sub-block pass. When a single string's image would exceed <see cref="GroupRotationMap{T}.StringEmissionCap"/>
+    /// contributions, the pass is abandoned (nothing of it is kept) and the sub-block is applied as four
+    /// spatial parts instead: exact, and decided by the strings alone (independent of threads and timing).
+    /// </summary>
+    private double ApplyBlock(RotationGroup<T> g, double[] cos, double[] sin, double[]? damping, CancellationToken ct,
+        ref long inputs, ref long emitted, ref bool overflowed)
+    {
+        inputs += _cur.Count;
+        double d = RotationPass(g, cos, sin, damping, ct, out long em, out bool capped);
+        emitted += em;
+        if (!capped) return d;
+        overflowed = true;
+        var parts = Split(g, cos, sin, 4);
+        double total = 0;
+        for (int i = 0; i < parts.Count; i++)
+        {
+            var (pg, pc, ps) = parts[i];
+            total += ApplyBlock(pg, pc, ps, i == parts.Count - 1 ? damping : null, ct, ref inputs, ref emitted, ref overflowed);
+        }
+        return total;
+    }
+
+    /// <summary>Splits a (sub)group into up to <paramref name="ways"/> spatial parts, with their rotation tables.</summary>
+    private List<(RotationGroup<T>, double[], double[])> Split(RotationGroup<T> g, double[] cos, double[] sin, int ways)
+    {
+        var order = Enumerable.Range(0, g.Count).OrderBy(i => g.Keys[i].FirstSite).ThenBy(i => i).ToArray();
+        var list = new List<(RotationGroup<T>, double[], double[])>();
+        for (int b = 0; b < ways; b++)
+        {
+            int s = (int)((long)order.Length * b / ways), e = (int)((long)order.Length * (b + 1) / ways);
+            if (e <= s) continue;
+            var idx = order[s..e];
+            list.Add((new RotationGroup<T>(_n, idx.Select(i => g.Keys[i]).ToList(), idx.Select(i => g.Weights[i]).ToList()),
+                idx.Select(i => cos[i]).ToArray(), idx.Select(i => sin[i]).ToArray()));
+        }
+        return list;
     }
 
     private readonly Dictionary<(int, int), List<RotationGroup<T>>> _subGroups = [];
@@ -405,8 +454,9 @@ internal sealed class EvolutionEngine<T> where T : unmanaged, IPauliKey<T>
     }
 
     /// <summary>One grouped-rotation pass plus compaction; returns the weight it discarded.</summary>
-    private double RotationPass(RotationGroup<T> group, double[] cos, double[] sin, double[]? damping, CancellationToken ct, out long emitted)
+    private double RotationPass(RotationGroup<T> group, double[] cos, double[] sin, double[]? damping, CancellationToken ct, out long emitted, out bool capped)
     {
+        capped = false;
         double baseCut = Math.Max(_state.Cut, _budget.Threshold);
         double basePrune = _budget.IsTruncating ? _options.Truncation.PassPruneFraction * baseCut : 0;
         double ceiling = Math.Max(baseCut, 1e-6);
@@ -426,8 +476,16 @@ internal sealed class EvolutionEngine<T> where T : unmanaged, IPauliKey<T>
                 _logger?.LogDebug("pass image exceeded the memory budget; retrying with branch pruning below {Prune:g3}", prune);
             }
             acc.Clear();
-            var map = new GroupRotationMap<T>(group, cos, sin, prune);
-            if (_runner.Run(_cur.Keys, _cur.Coeffs, _cur.Count, map, acc, AccumulatorLimit(), ct, out emitted)) break;
+            var flag = new int[1];
+            var map = new GroupRotationMap<T>(group, cos, sin, prune, flag);
+            bool ok = _runner.Run(_cur.Keys, _cur.Coeffs, _cur.Count, map, acc, AccumulatorLimit(), ct, out emitted, flag);
+            if (flag[0] != 0 && group.Count > 1)
+            {
+                capped = true;
+                acc.Clear();
+                return 0;
+            }
+            if (ok) break;
         }
         double before = prune > 0 ? _cur.NormSquared() : 0;
         var stats = CompactInto(acc, Rule(damping), _spare);
@@ -449,8 +507,25 @@ internal sealed class EvolutionEngine<T> where T : unmanaged, IPauliKey<T>
         return stats.DeletedWeight + stats.DampedWeight;
     }
 
+    /// <summary>
+    /// Arrays dropped while the operator grows (resized partitions and buffers) stay on the managed heap
+    /// until the collector runs; when the heap approaches the budget, collect and compact so the process,
+    /// not only the live arrays, stays within it.
+    /// </summary>
+    private void HeapValve()
+    {
+        long heap = GC.GetTotalMemory(false);
+        _state.PeakHeapBytes = Math.Max(_state.PeakHeapBytes, heap);
+        if (heap > 0.7 * (_budget.MemoryBytes - MemoryBudget.RuntimeReserve))
+        {
+            System.Runtime.GCSettings.LargeObjectHeapCompactionMode = System.Runtime.GCLargeObjectHeapCompactionMode.CompactOnce;
+            GC.Collect(2, GCCollectionMode.Forced, blocking: true, compacting: true);
+        }
+    }
+
     private CompactStats CompactInto(PassAccumulator<T> acc, CompactRule rule, OperatorBuffer<T> dest)
     {
+        HeapValve();
         long room = ArrayBudget - _cur.AllocatedBytes - acc.AllocatedBytes - _runner.BufferBytes;
         var stats = _compactor.Compact(acc, rule, dest, room / EntryBytes);
         if (stats.Kept < 0)
@@ -459,6 +534,7 @@ internal sealed class EvolutionEngine<T> where T : unmanaged, IPauliKey<T>
                 $"the operator needs more than {room / EntryBytes} strings to hold the requested accuracy, beyond the memory budget {MemoryBudget.Format(_budget.MemoryBytes)}; raise --threshold or --memory, or set --max-strings");
         }
         _state.PeakTrackedBytes = Math.Max(_state.PeakTrackedBytes, TrackedBytes);
+        HeapValve();
         return stats;
     }
 
@@ -753,6 +829,8 @@ internal sealed class EngineState
     public long PeakStrings { get; set; }
 
     public long PeakTrackedBytes { get; set; }
+
+    public long PeakHeapBytes { get; set; }
 
     public long PassRetries { get; set; }
 

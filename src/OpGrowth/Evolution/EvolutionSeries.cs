@@ -24,6 +24,12 @@ public sealed class EvolutionSeries
     /// <summary>Largest number of bytes held by the engine's arrays (operators, accumulator, buffers).</summary>
     public long PeakTrackedBytes { get; set; }
 
+    /// <summary>Largest managed-heap size seen at a pass boundary (live arrays plus garbage not yet collected).</summary>
+    public long PeakHeapBytes { get; set; }
+
+    /// <summary>Peak working set of the whole process so far (runtime included).</summary>
+    public long PeakWorkingSetBytes { get; set; }
+
     /// <summary>Passes redone with stronger branch pruning because the image did not fit the memory budget.</summary>
     public long PassRetries { get; set; }
 

@@ -25,12 +25,17 @@ internal readonly struct GroupRotationMap<T> : IPauliMap<T> where T : unmanaged,
     private readonly int[] _start;
     private readonly int[] _terms;
     private readonly double _prune;
+    private readonly int[]? _overflow;
+
+    /// <summary>Most contributions one string may emit in one pass; beyond it the pass is abandoned and the group split.</summary>
+    public const int StringEmissionCap = 4096;
 
     [ThreadStatic]
     private static int[]? t_idx;
 
-    public GroupRotationMap(RotationGroup<T> group, double[] cos, double[] sin, double prune)
+    public GroupRotationMap(RotationGroup<T> group, double[] cos, double[] sin, double prune, int[]? overflow = null)
     {
+        _overflow = overflow;
         _keys = group.Keys;
         _cos = cos;
         _sin = sin;
@@ -65,7 +70,9 @@ internal readonly struct GroupRotationMap<T> : IPauliMap<T> where T : unmanaged,
             sink.Emit(key, coefficient);
             return;
         }
-        Branch(0, m, idx, key, coefficient, sink);
+        int budget = StringEmissionCap;
+        Branch(0, m, idx, key, coefficient, sink, ref budget);
+        if (budget < 0 && _overflow is not null) _overflow[0] = 1;
     }
 
     [MethodImpl(MethodImplOptions.NoInlining)]
@@ -78,22 +85,23 @@ internal readonly struct GroupRotationMap<T> : IPauliMap<T> where T : unmanaged,
     }
 
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
-    private void Branch(int i, int m, int[] idx, T key, double amp, EmitBuffer<T> sink)
+    private void Branch(int i, int m, int[] idx, T key, double amp, EmitBuffer<T> sink, ref int budget)
     {
         double prune = _prune;
         while (true)
         {
             if (i == m)
             {
-                sink.Emit(key, amp);
+                if (--budget >= 0) sink.Emit(key, amp);
                 return;
             }
+            if (budget < 0) return;
             int g = idx[i];
             double sa = amp * _sin[g];
             if (sa != 0 && Math.Abs(sa) >= prune)
             {
                 T p = T.Multiply(_keys[g], key, out int k);
-                Branch(i + 1, m, idx, p, k == 1 ? -sa : sa, sink);
+                Branch(i + 1, m, idx, p, k == 1 ? -sa : sa, sink, ref budget);
             }
             amp *= _cos[g];
             if (amp == 0 || Math.Abs(amp) < prune) return;

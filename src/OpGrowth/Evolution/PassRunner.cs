@@ -63,7 +63,7 @@ internal sealed class PassRunner<T> where T : unmanaged, IPauliKey<T>
         => Run(keys, coeffs, count, map, target, byteLimit, ct, out _);
 
     /// <summary>As above; <paramref name="emitted"/> counts the contributions emitted (independent of the thread count).</summary>
-    public bool Run<TMap>(T[] keys, double[] coeffs, int count, TMap map, PassAccumulator<T> target, long byteLimit, CancellationToken ct, out long emitted)
+    public bool Run<TMap>(T[] keys, double[] coeffs, int count, TMap map, PassAccumulator<T> target, long byteLimit, CancellationToken ct, out long emitted, int[]? stop = null)
         where TMap : struct, IPauliMap<T>
     {
         emitted = 0;
@@ -74,14 +74,14 @@ internal sealed class PassRunner<T> where T : unmanaged, IPauliKey<T>
         var options = new ParallelOptions { MaxDegreeOfParallelism = threads, CancellationToken = ct };
         int checkEvery = 1;
         int block = 0;
-        int blockSize = (int)Math.Clamp(TargetBlockEmissions / Math.Max(1.0, _emitPerInput), MinBlock, 1 << 22);
+        int blockSize = (int)Math.Clamp(TargetBlockEmissions / Math.Max(1.0, _emitPerInput), MinBlock, 1 << 16);
         for (int b0 = 0; b0 < count; b0 += blockSize, block++)
         {
             ct.ThrowIfCancellationRequested();
             int b1 = Math.Min(count, b0 + blockSize);
             if (threads == 1 || b1 - b0 < 1024)
             {
-                Produce(keys, coeffs, b0, b1, map, _buffers[0]);
+                Produce(keys, coeffs, b0, b1, map, _buffers[0], stop);
                 for (int t = 1; t < threads; t++) Array.Clear(_buffers[t].Counts);
             }
             else
@@ -92,9 +92,10 @@ internal sealed class PassRunner<T> where T : unmanaged, IPauliKey<T>
                 {
                     int s = start + (int)((long)len * t / threads);
                     int e = start + (int)((long)len * (t + 1) / threads);
-                    Produce(keys, coeffs, s, e, map, buffers[t]);
+                    Produce(keys, coeffs, s, e, map, buffers[t], stop);
                 });
             }
+            if (stop is not null && Volatile.Read(ref stop[0]) != 0) return false;
             for (int t = 0; t < threads; t++)
             {
                 var counts = _buffers[t].Counts;
@@ -115,11 +116,15 @@ internal sealed class PassRunner<T> where T : unmanaged, IPauliKey<T>
     }
 
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
-    private static void Produce<TMap>(T[] keys, double[] coeffs, int start, int end, TMap map, EmitBuffer<T> sink)
+    private static void Produce<TMap>(T[] keys, double[] coeffs, int start, int end, TMap map, EmitBuffer<T> sink, int[]? stop)
         where TMap : struct, IPauliMap<T>
     {
         Array.Clear(sink.Counts);
-        for (int i = start; i < end; i++) map.Apply(keys[i], coeffs[i], sink);
+        for (int i = start; i < end; i++)
+        {
+            map.Apply(keys[i], coeffs[i], sink);
+            if (stop is not null && (i & 63) == 0 && Volatile.Read(ref stop[0]) != 0) return;
+        }
     }
 
     private void Merge(PassAccumulator<T> target, int threads, ParallelOptions options)
