@@ -7,6 +7,7 @@ internal static class CommandRegistry
 {
     public static IEnumerable<Command> All()
     {
-        yield break;
+        yield return SweepCommand.Create();
+        yield return CollectCommand.Create();
     }
 }

@@ -21,17 +21,17 @@ public static class Bootstrap
         int n = values.Count;
         if (n < 2) return null;
         ulong state = seed;
-        double sum = 0, sumSq = 0;
+        var means = new double[resamples];
         for (int r = 0; r < resamples; r++)
         {
             double s = 0;
             for (int i = 0; i < n; i++) s += values[(int)(Next(ref state) % (ulong)n)];
-            double mean = s / n;
-            sum += mean;
-            sumSq += mean * mean;
+            means[r] = s / n;
         }
-        double m = sum / resamples;
-        return Math.Sqrt(Math.Max(0, sumSq / resamples - m * m) * resamples / (resamples - 1.0));
+        double m = means.Average();
+        double ss = 0;
+        foreach (double x in means) ss += (x - m) * (x - m);
+        return Math.Sqrt(ss / (resamples - 1));
     }
 
     // Source: G. L. Steele, D. Lea, C. H. Flood, OOPSLA 2014 (SplitMix64).

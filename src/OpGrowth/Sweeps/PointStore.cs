@@ -18,6 +18,12 @@ public sealed class PointStore
 {
     private readonly ILogger? _logger;
 
+    /// <summary>The shared result settings with readable escaping (quotes inside strings as \").</summary>
+    internal static readonly JsonSerializerOptions JsonOptions = new(AtomicFile.Json)
+    {
+        Encoder = System.Text.Encodings.Web.JavaScriptEncoder.UnsafeRelaxedJsonEscaping,
+    };
+
     public PointStore(string resultsDirectory, ILogger? logger = null)
     {
         Root = Path.GetFullPath(resultsDirectory);
@@ -48,7 +54,8 @@ public sealed class PointStore
     /// <summary>Writes a payload atomically inside its checksummed envelope.</summary>
     public void Save(StoredPoint stored)
     {
-        string payload = JsonSerializer.Serialize(stored, AtomicFile.Json);
+        // Indent the payload as it sits in the envelope; the checksum covers exactly these characters.
+        string payload = JsonSerializer.Serialize(stored, JsonOptions).Replace("\n", "\n  ", StringComparison.Ordinal);
         string checksum = PointIdentity.Sha256Hex(Encoding.UTF8.GetBytes(payload));
         var sb = new StringBuilder();
         sb.Append("{\n  \"schema\": \"").Append(PointIdentity.SchemaVersion).Append("\",\n");
@@ -93,7 +100,7 @@ public sealed class PointStore
             string raw = payload.GetRawText();
             string actual = "sha256:" + PointIdentity.Sha256Hex(Encoding.UTF8.GetBytes(raw));
             if (!string.Equals(actual, sum.GetString(), StringComparison.Ordinal)) return Fail("fails its checksum (content changed after writing)", out problem);
-            var stored = payload.Deserialize<StoredPoint>(AtomicFile.Json);
+            var stored = payload.Deserialize<StoredPoint>(JsonOptions);
             if (stored is null || stored.Result is null) return Fail("has an empty payload", out problem);
             if (stored.Id != expectedId) return Fail($"holds point {stored.Id}, not {expectedId}", out problem);
             string idOfIdentity = PointIdentity.Sha256Hex(Encoding.UTF8.GetBytes(stored.Identity))[..PointIdentity.IdLength];

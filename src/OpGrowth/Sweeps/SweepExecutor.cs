@@ -122,7 +122,8 @@ public sealed class SweepExecutor
     internal static string FormatTStar(PointResult r)
         => r.TStar is double t ? t.ToString("0.###", CultureInfo.InvariantCulture) : $"> {r.FinalTime.ToString("0.##", CultureInfo.InvariantCulture)} (not reached)";
 
-    internal static string FormatBytes(long bytes)
+    /// <summary>Bytes as MiB or GiB.</summary>
+    public static string FormatBytes(long bytes)
         => bytes >= 1L << 30 ? $"{(bytes / (double)(1L << 30)).ToString("0.##", CultureInfo.InvariantCulture)} GiB"
             : $"{(bytes / (double)(1L << 20)).ToString("0.#", CultureInfo.InvariantCulture)} MiB";
 

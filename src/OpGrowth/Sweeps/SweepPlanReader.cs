@@ -16,7 +16,7 @@ public static partial class SweepPlanReader
     internal static readonly string[] EngineKeys =
         ["engine", "exact_max_n", "time", "dt", "record_every", "method", "max_strings", "threshold", "ladder", "samples", "sample_seed", "front_fraction"];
     internal static readonly string[] SyntheticKeys = ["law", "a", "b", "noise", "truncation_fraction", "delay", "memory"];
-    internal static readonly string[] Engines = ["auto", "pauli", "exact", "synthetic"];
+    public static readonly IReadOnlyList<string> Engines = ["auto", "pauli", "exact", "synthetic"];
     internal static readonly string[] Methods = ["trotter2", "trotter4", "rk4"];
     internal static readonly string[] Laws = ["linear", "log"];
 
@@ -317,7 +317,7 @@ public static partial class SweepPlanReader
             return s;
         }
 
-        public string Choice(PlanValue v, string key, string[] options)
+        public string Choice(PlanValue v, string key, IReadOnlyList<string> options)
         {
             string s = String(v, key);
             if (!options.Contains(s)) throw new InputException(file, v.Line, $"found {v.Describe()} for '{key}'{Closest(s, options)}; expected one of {string.Join(", ", options.Select(o => $"\"{o}\""))}");
@@ -408,7 +408,7 @@ public static partial class SweepPlanReader
             }
         }
 
-        private static string Closest(string found, string[] options)
+        private static string Closest(string found, IEnumerable<string> options)
         {
             string? best = null;
             int bestD = int.MaxValue;
