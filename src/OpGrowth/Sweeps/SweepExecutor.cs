@@ -124,7 +124,7 @@ public sealed class SweepExecutor
 
     /// <summary>Bytes as MiB or GiB.</summary>
     public static string FormatBytes(long bytes)
-        => bytes >= 1L << 30 ? $"{(bytes / (double)(1L << 30)).ToString("0.##", CultureInfo.InvariantCulture)} GiB"
+        => bytes >= 1L << 60 ? "unlimited" : bytes >= 1L << 30 ? $"{(bytes / (double)(1L << 30)).ToString("0.##", CultureInfo.InvariantCulture)} GiB"
             : $"{(bytes / (double)(1L << 20)).ToString("0.#", CultureInfo.InvariantCulture)} MiB";
 
     internal static string FormatDuration(double seconds)
