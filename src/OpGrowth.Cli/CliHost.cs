@@ -9,6 +9,22 @@ namespace OpGrowth.Cli;
 /// </summary>
 internal static class CliHost
 {
+    private static readonly AsyncLocal<TextWriter?> OutWriter = new();
+    private static readonly AsyncLocal<TextWriter?> ErrWriter = new();
+
+    /// <summary>Where commands write data (stdout unless a caller such as a test redirected it with <see cref="UseWriters"/>).</summary>
+    public static TextWriter Out => OutWriter.Value ?? Console.Out;
+
+    /// <summary>Where commands write error lines (stderr unless redirected).</summary>
+    public static TextWriter Err => ErrWriter.Value ?? Console.Error;
+
+    /// <summary>Redirects <see cref="Out"/> and <see cref="Err"/> for the current call flow only (parallel-safe, unlike Console.SetOut).</summary>
+    public static void UseWriters(TextWriter output, TextWriter error)
+    {
+        OutWriter.Value = output;
+        ErrWriter.Value = error;
+    }
+
     /// <summary>Creates the logger factory: console logger on stderr, plain single lines.</summary>
     public static ILoggerFactory CreateLoggerFactory(LogLevel level)
         => LoggerFactory.Create(b =>
@@ -39,33 +55,33 @@ internal static class CliHost
         }
         catch (InputException ex)
         {
-            Console.Error.WriteLine($"error: {ex.Message}");
+            Err.WriteLine($"error: {ex.Message}");
             return ExitCodes.InvalidInput;
         }
         catch (ResourceLimitException ex)
         {
-            Console.Error.WriteLine($"resource limit: {ex.Message}");
+            Err.WriteLine($"resource limit: {ex.Message}");
             return ExitCodes.ResourceLimit;
         }
         catch (OperationCanceledException)
         {
-            Console.Error.WriteLine("interrupted: finished results were kept");
+            Err.WriteLine("interrupted: finished results were kept");
             return ExitCodes.Interrupted;
         }
         catch (OutOfMemoryException ex)
         {
-            Console.Error.WriteLine($"resource limit: out of memory ({ex.Message}); lower the budget with --memory");
+            Err.WriteLine($"resource limit: out of memory ({ex.Message}); lower the budget with --memory");
             return ExitCodes.ResourceLimit;
         }
         catch (Exception ex) when (ex is IOException or UnauthorizedAccessException)
         {
-            Console.Error.WriteLine($"error: {ex.Message}");
+            Err.WriteLine($"error: {ex.Message}");
             return ExitCodes.InvalidInput;
         }
         catch (Exception ex)
         {
-            Console.Error.WriteLine($"internal error: {ex.GetType().Name}: {ex.Message} (this is a bug; rerun with OPGROWTH_DEBUG=1 for the stack trace)");
-            if (Environment.GetEnvironmentVariable("OPGROWTH_DEBUG") == "1") Console.Error.WriteLine(ex);
+            Err.WriteLine($"internal error: {ex.GetType().Name}: {ex.Message} (this is a bug; rerun with OPGROWTH_DEBUG=1 for the stack trace)");
+            if (Environment.GetEnvironmentVariable("OPGROWTH_DEBUG") == "1") Err.WriteLine(ex);
             return ExitCodes.Internal;
         }
         finally

@@ -7,6 +7,8 @@ internal static class CommandRegistry
 {
     public static IEnumerable<Command> All()
     {
+        yield return ModelsCommand.Create();
+        yield return CheckCommand.Create();
         yield return SweepCommand.Create();
         yield return CollectCommand.Create();
     }
