@@ -97,9 +97,7 @@ internal static class SweepCommand
             var files = new List<string>();
             foreach (string m in models)
             {
-                string full = Path.GetFullPath(m);
-                if (!File.Exists(full)) throw new InputException(m, 0, "found no such model file; expected an existing model file for --model");
-                files.Add(full);
+                files.Add(Path.GetFullPath(Models.ShippedModels.Resolve(m)));
             }
             p = p with { ModelFiles = files };
         }

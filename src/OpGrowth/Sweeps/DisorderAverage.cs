@@ -46,6 +46,12 @@ public sealed record DisorderAverage
     /// <summary>Seed-to-seed standard deviation of t* (null for one seed).</summary>
     public double? TStarSpread { get; init; }
 
+    /// <summary>Error of the mean from the points' own sampling (typicality) errors, sqrt(sum sigma_i^2)/n; null when none has one.</summary>
+    public double? TStarSamplingError { get; init; }
+
+    /// <summary>Kind of the growth rate ("exponential" or "linear"); null when points disagree or have none.</summary>
+    public string? GrowthKind { get; init; }
+
     /// <summary>Mean growth rate (null when any point lacks one).</summary>
     public double? GrowthRate { get; init; }
 
@@ -64,13 +70,13 @@ public sealed record DisorderAverage
     /// <summary>False when any point was flagged as not converged.</summary>
     public bool Converged { get; init; } = true;
 
-    /// <summary>Total uncertainty of t* for fits: statistical, truncation and grid in quadrature.</summary>
+    /// <summary>Total uncertainty of t* for fits: statistical, truncation, grid and sampling in quadrature.</summary>
     public double TStarTotalError
     {
         get
         {
-            double s = TStarStatError ?? 0, t = TStarTruncationError ?? 0, g = TStarGridError;
-            return Math.Sqrt(s * s + t * t + g * g);
+            double s = TStarStatError ?? 0, t = TStarTruncationError ?? 0, g = TStarGridError, q = TStarSamplingError ?? 0;
+            return Math.Sqrt(s * s + t * t + g * g + q * q);
         }
     }
 }

@@ -18,10 +18,20 @@ public sealed record PointResult
     /// <summary>Uncertainty of t* from truncation (ladder); null when not estimated.</summary>
     public double? TStarTruncationError { get; init; }
 
-    /// <summary>Early growth rate from ln(n(t) - n(0)) against t; null when no straight window was found.</summary>
+    /// <summary>Statistical error of t* from the exact engine's random-state (typicality) traces; null for other engines.</summary>
+    public double? TStarSamplingError { get; init; }
+
+    /// <summary>
+    /// Early growth rate of the mean size: exponential rate lambda of n(t) - n(0) ~ e^{lambda t} (per unit time)
+    /// when <see cref="GrowthKind"/> is "exponential", slope dn/dt (sites per unit time) when "linear"
+    /// (one-dimensional lattices); null when no window was found.
+    /// </summary>
     public double? GrowthRate { get; init; }
 
-    /// <summary>Fit error of the growth rate (window sensitivity included).</summary>
+    /// <summary>"exponential" or "linear" (see <see cref="GrowthRate"/>).</summary>
+    public string? GrowthKind { get; init; }
+
+    /// <summary>Fit error of the growth rate.</summary>
     public double? GrowthRateError { get; init; }
 
     /// <summary>Truncation uncertainty of the growth rate (ladder); null when not estimated.</summary>

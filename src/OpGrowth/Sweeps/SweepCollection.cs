@@ -75,7 +75,7 @@ public sealed record SweepCollection
         var paramNames = Points.SelectMany(p => p.Parameters.Keys).Distinct().Order(StringComparer.Ordinal).ToList();
         var tail = new[]
         {
-            "seed", "probe", "engine", "t_star", "t_star_grid_err", "t_star_trunc_err", "growth_rate", "growth_rate_err",
+            "seed", "probe", "engine", "t_star", "t_star_grid_err", "t_star_trunc_err", "t_star_sampling_err", "growth_kind", "growth_rate", "growth_rate_err",
             "growth_rate_trunc_err", "growth_window", "v_b", "v_b_err", "v_b_trunc_err", "discarded_weight", "final_size_fraction",
             "final_time", "converged", "note",
         };
@@ -90,7 +90,7 @@ public sealed record SweepCollection
             cells.AddRange(paramNames.Select(n => p.Parameters.TryGetValue(n, out double v) ? v : (object?)null));
             cells.AddRange(new object?[]
             {
-                p.Seed, r.ProbeResolved ?? p.Probe, r.Engine, r.TStar, r.TStarGridError, r.TStarTruncationError, r.GrowthRate, r.GrowthRateError,
+                p.Seed, r.ProbeResolved ?? p.Probe, r.Engine, r.TStar, r.TStarGridError, r.TStarTruncationError, r.TStarSamplingError, r.GrowthKind, r.GrowthRate, r.GrowthRateError,
                 r.GrowthRateTruncationError, r.GrowthWindow, r.VB, r.VBError, r.VBTruncationError, r.DiscardedWeight, r.FinalSizeFraction,
                 r.FinalTime, r.Converged, r.Note,
             });
@@ -105,13 +105,13 @@ public sealed record SweepCollection
         var header = new List<string> { "model" };
         header.AddRange(paramNames);
         header.AddRange(["probe", "engine", "N", "seeds", "reached", "t_star", "t_star_stat_err", "t_star_trunc_err", "t_star_grid_err",
-            "t_star_seed_spread", "growth_rate", "growth_rate_stat_err", "v_b", "v_b_stat_err", "max_discarded_weight", "converged"]);
+            "t_star_seed_spread", "t_star_sampling_err", "growth_kind", "growth_rate", "growth_rate_stat_err", "v_b", "v_b_stat_err", "max_discarded_weight", "converged"]);
         var rows = Averages.Select(a =>
         {
             var c = new List<object?> { a.Model };
             c.AddRange(paramNames.Select(n => a.Parameters.TryGetValue(n, out double v) ? v : (object?)null));
             c.AddRange(new object?[] { a.Probe, a.Engine, a.N, a.Seeds, a.Reached, a.TStar, a.TStarStatError, a.TStarTruncationError, a.TStarGridError,
-                a.TStarSpread, a.GrowthRate, a.GrowthRateStatError, a.VB, a.VBStatError, a.MaxDiscardedWeight, a.Converged });
+                a.TStarSpread, a.TStarSamplingError, a.GrowthKind, a.GrowthRate, a.GrowthRateStatError, a.VB, a.VBStatError, a.MaxDiscardedWeight, a.Converged });
             return c.ToArray();
         }).ToList();
         return Csv(header, rows);

@@ -74,6 +74,8 @@ public static class SweepCollector
                 double? spread = all && t.Length > 1 ? Math.Sqrt(t.Sum(x => (x - mean!.Value) * (x - mean.Value)) / (t.Length - 1)) : null;
                 double? trunc = all && list.All(p => p.Result.TStarTruncationError is not null) ? list.Average(p => p.Result.TStarTruncationError!.Value) : null;
                 var rates = list.Select(p => p.Result.GrowthRate).ToArray();
+                var kinds = list.Select(p => p.Result.GrowthKind).Distinct().ToArray();
+                var sampling = list.Where(p => p.Result.TStarSamplingError is not null).Select(p => p.Result.TStarSamplingError!.Value).ToArray();
                 var vbs = list.Select(p => p.Result.VB).ToArray();
                 result.Add(new DisorderAverage
                 {
@@ -90,6 +92,8 @@ public static class SweepCollector
                     TStarTruncationError = trunc,
                     TStarGridError = list.Average(p => p.Result.TStarGridError),
                     TStarSpread = spread,
+                    TStarSamplingError = sampling.Length > 0 ? Math.Sqrt(sampling.Sum(x => x * x)) / list.Count : null,
+                    GrowthKind = kinds.Length == 1 ? kinds[0] : null,
                     GrowthRate = rates.All(r => r is not null) ? rates.Average(r => r!.Value) : null,
                     GrowthRateStatError = rates.All(r => r is not null) ? Bootstrap.StandardError(rates.Select(r => r!.Value).ToArray()) : null,
                     VB = vbs.All(v => v is not null) ? vbs.Average(v => v!.Value) : null,

@@ -70,7 +70,24 @@ public static partial class SweepPlanReader
         {
             if (f.Trim().Length == 0) throw new InputException(file, fileLine, "found an empty model path; expected a model file path");
             string full = Path.GetFullPath(Path.IsPathRooted(f) ? f : Path.Combine(baseDirectory, f));
-            if (!File.Exists(full)) throw new InputException(file, fileLine, $"found model file '{f}', which does not exist (looked at {full}); expected an existing model file, relative to the plan's folder");
+            if (!File.Exists(full))
+            {
+                // Not a file next to the plan: perhaps the name of a shipped model ("mixed-field-ising", "demo/tilted-chain").
+                bool pathLike = f.Contains('/', StringComparison.Ordinal) && f.EndsWith(".toml", StringComparison.OrdinalIgnoreCase);
+                string? shipped = null;
+                if (!pathLike && Models.ShippedModels.IsAvailable)
+                {
+                    try
+                    {
+                        shipped = Path.GetFullPath(Models.ShippedModels.Resolve(f));
+                    }
+                    catch (InputException)
+                    {
+                        shipped = null;
+                    }
+                }
+                full = shipped ?? throw new InputException(file, fileLine, $"found model file '{f}', which does not exist (looked at {full}); expected an existing model file, relative to the plan's folder, or the name of a shipped model");
+            }
             if (resolved.Contains(full)) throw new InputException(file, fileLine, $"found model file '{f}' twice; expected each model once");
             resolved.Add(full);
         }

@@ -30,6 +30,7 @@ public sealed class SyntheticPointRunner : IPointRunner
             TStarGridError = point.Engine.Dt * point.Engine.RecordEvery / 10,
             TStarTruncationError = Math.Abs(t) * s.TruncationFraction,
             GrowthRate = rate,
+            GrowthKind = rate is null ? null : "exponential",
             GrowthRateError = rate * 0.05,
             GrowthRateTruncationError = rate is null ? null : 0,
             VB = vb,
