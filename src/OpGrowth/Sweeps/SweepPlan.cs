@@ -42,7 +42,7 @@ public sealed record SweepPlan
     /// <summary>Engine options.</summary>
     public EngineSettings Engine { get; init; } = new();
 
-    /// <summary>Number of points the plan expands to.</summary>
+    /// <summary>Number of points the plan expands to at most (seeds counted for every model).</summary>
     public int PointCount => ModelFiles.Count * Combinations().Count * Probes.Count * Sizes.Count * Math.Max(1, Seeds.Count);
 
     /// <summary>
@@ -68,6 +68,8 @@ public sealed record SweepPlan
                 throw new InputException(SourceFile, 0, $"found model file '{file}' unreadable ({ex.Message}); expected an existing model file");
             }
             string label = Path.GetFileNameWithoutExtension(file);
+            // Seeds go to models that have the seed parameter; a clean model in the same plan gets one point per size.
+            var modelSeeds = Seeds.Count == 0 || UsesSeed(file) ? seeds : [(long?)null];
             foreach (var combo in combos)
             {
                 foreach (string probe in Probes)
@@ -78,7 +80,7 @@ public sealed record SweepPlan
                         {
                             throw new InputException(SourceFile, 0, error!);
                         }
-                        foreach (long? seed in seeds)
+                        foreach (long? seed in modelSeeds)
                         {
                             string id = PointIdentity.Compute(sha, n, combo, seed, SeedParameter, resolved, Engine);
                             points.Add(new SweepPoint
@@ -108,6 +110,13 @@ public sealed record SweepPlan
         }
         return points;
     }
+
+    /// <summary>
+    /// True when the model file declares <see cref="SeedParameter"/> (read with its default values). The
+    /// synthetic engine never reads models, so there every model takes the seeds.
+    /// </summary>
+    private bool UsesSeed(string file)
+        => Engine.Engine == EngineChoice.Synthetic || Models.ModelLoader.Load(file).Parameters.ContainsKey(SeedParameter);
 
     /// <summary>Cartesian product of the parameter grids, each combination sorted by name.</summary>
     public IReadOnlyList<IReadOnlyList<KeyValuePair<string, double>>> Combinations()

@@ -90,7 +90,7 @@ public class ResultsStoreTests
         Assert.Equal(2, c.Corrupt.Count);
         Assert.Equal(points.Count - 2, c.Points.Count);
         Assert.DoesNotContain(c.Points, sp => sp.Id == points[3].Id || sp.Id == points[7].Id);
-        Assert.Equal([points[3].Id, points[7].Id], c.Missing.Select(m => m.Id).Order());
+        Assert.Equal(new[] { points[3].Id, points[7].Id }.Order(), c.Missing.Select(m => m.Id).Order());
         Assert.Contains("corrupt", c.Summary(), StringComparison.Ordinal);
 
         // Rerun: only the two are recomputed, with the same results as before.

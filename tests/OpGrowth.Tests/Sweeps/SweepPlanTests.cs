@@ -121,6 +121,34 @@ public class SweepPlanTests
         Assert.DoesNotContain('\n', ex.Message);
     }
 
+    [Fact]
+    public void Expand_CleanModelBesideDisorderedOne_SeedsOnlyWhereDeclared()
+    {
+        using var kit = new SweepTestKit();
+        File.WriteAllText(kit.Path("clean.toml"), SweepTestKit.ModelText.Replace("seed = 1\n", "", StringComparison.Ordinal)
+            .Replace("coupling = \"normal(1, 0.1)\"\nseed = \"seed\"", "coupling = 1.0", StringComparison.Ordinal));
+        var plan = kit.LoadPlan("[model]\nfiles = [\"model.toml\", \"clean.toml\"]\nsizes = [8, 12]\nseeds = [1, 2, 3]\n[engine]\nengine = \"pauli\"");
+        var points = plan.Expand();
+        Assert.Equal(6, points.Count(p => p.ModelLabel == "model"));
+        Assert.Equal(2, points.Count(p => p.ModelLabel == "clean"));
+        Assert.All(points.Where(p => p.ModelLabel == "clean"), p => Assert.Null(p.Seed));
+    }
+
+    [Fact]
+    public void PointModel_Load_AppliesSizeParametersSeedAndProbe()
+    {
+        using var kit = new SweepTestKit();
+        var plan = kit.LoadPlan("[model]\nfile = \"model.toml\"\nsizes = [10]\nseeds = [5]\nprobes = [\"X_{N-1}\", \"model\"]\n[parameters]\nh = 0.25\n[engine]\nengine = \"pauli\"");
+        var points = plan.Expand();
+        var pm = PointModel.Load(points[0]);
+        Assert.Equal(10, pm.Model.N);
+        Assert.Equal(0.25, pm.Model.Parameters["h"]);
+        Assert.Equal(5, pm.Model.Parameters["seed"]);
+        Assert.Equal("X_9", pm.Probe.ToString());
+        Assert.Equal("Z_0", PointModel.Load(points[1]).Probe.ToString());
+        Assert.Equal(7.5, pm.SaturationSize);
+    }
+
     [Theory]
     [InlineData("8:16:4", new long[] { 8, 12, 16 })]
     [InlineData("1:3", new long[] { 1, 2, 3 })]

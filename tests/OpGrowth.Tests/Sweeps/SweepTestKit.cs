@@ -11,12 +11,47 @@ internal sealed class SweepTestKit : IDisposable
         Root = System.IO.Path.Combine(System.IO.Path.GetTempPath(), "opgrowth-sweep-tests", Guid.NewGuid().ToString("N")[..12]);
         Directory.CreateDirectory(Root);
         ModelFile = System.IO.Path.Combine(Root, "model.toml");
-        File.WriteAllText(ModelFile, "# placeholder model for synthetic sweeps\nname = \"placeholder\"\n");
+        File.WriteAllText(ModelFile, ModelText);
     }
+
+    /// <summary>A small disordered Ising chain with parameters N, g, h and seed.</summary>
+    public const string ModelText = """
+        # Small disordered Ising chain for sweep tests.
+        name = "kit-chain"
+        description = "Ising chain with random bonds and fields g, h (sweep tests)"
+        probes = ["Z_0"]
+
+        [parameters]
+        N = 8
+        g = 1.05
+        h = 0.5
+        seed = 1
+
+        [lattice]
+        kind = "chain"
+        sites = "N"
+
+        [[term]]
+        pauli = "ZZ"
+        on = "bonds"
+        coupling = "normal(1, 0.1)"
+        seed = "seed"
+
+        [[term]]
+        pauli = "X"
+        on = "sites"
+        coupling = "g"
+
+        [[term]]
+        pauli = "Z"
+        on = "sites"
+        coupling = "h"
+
+        """;
 
     public string Root { get; }
 
-    /// <summary>A model file (its content is hashed; the synthetic runner never loads it).</summary>
+    /// <summary>A model file (its content is hashed; the synthetic runner never loads it, the real engines do).</summary>
     public string ModelFile { get; }
 
     public string Path(string name) => System.IO.Path.Combine(Root, name);
