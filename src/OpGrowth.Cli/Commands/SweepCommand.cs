@@ -262,6 +262,7 @@ internal static class SweepCommand
     {
         var store = new PointStore(dir);
         Directory.CreateDirectory(store.PointsDirectory);
+        store.RemoveStaleTemporaryFiles(TimeSpan.FromMinutes(10));
         AtomicFile.WriteAllText(store.PlanPath, plan.ToToml());
         SweepManifest.From(plan, points).Save(store.ManifestPath);
         return store;

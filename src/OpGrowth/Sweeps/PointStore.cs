@@ -48,6 +48,34 @@ public sealed class PointStore
     /// <summary>Path of a point's file.</summary>
     public string PathOf(string id) => Path.Combine(PointsDirectory, id + ".json");
 
+    /// <summary>
+    /// Deletes temporary files that killed writers left in the points folder (never read as results) once
+    /// they are older than <paramref name="age"/>, so that writers still running elsewhere are not disturbed.
+    /// </summary>
+    public int RemoveStaleTemporaryFiles(TimeSpan age)
+    {
+        if (!Directory.Exists(PointsDirectory)) return 0;
+        int removed = 0;
+        foreach (string f in Directory.EnumerateFiles(PointsDirectory, ".*.tmp"))
+        {
+            try
+            {
+                if (DateTime.UtcNow - File.GetLastWriteTimeUtc(f) > age)
+                {
+                    File.Delete(f);
+                    removed++;
+                }
+            }
+            catch (IOException)
+            {
+            }
+            catch (UnauthorizedAccessException)
+            {
+            }
+        }
+        return removed;
+    }
+
     /// <summary>Writes a finished point atomically.</summary>
     public void Save(SweepPoint point, PointResult result) => Save(StoredPoint.From(point, result));
 
