@@ -206,6 +206,3 @@ public sealed class PointStore
         return (nl >= 0 ? s[..nl] : s).Trim();
     }
 }
-
-/// <summary>A point file found corrupt: its id, where it was, where it was moved and why.</summary>
-public sealed record CorruptPoint(string Id, string Path, string MovedTo, string Problem);

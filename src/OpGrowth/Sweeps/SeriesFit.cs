@@ -39,6 +39,3 @@ public sealed record SeriesFit
     /// <summary>Human-readable label: model, parameters, probe.</summary>
     public string Label => string.Join(' ', new[] { Model }.Concat(Parameters.Select(kv => $"{kv.Key}={EngineSettings.F(kv.Value)}")).Append(Probe));
 }
-
-/// <summary>A sample of both fitted laws at size N.</summary>
-public sealed record CurvePoint(double N, double LogFit, double LinearFit);

@@ -130,14 +130,3 @@ public sealed class SweepExecutor
     internal static string FormatDuration(double seconds)
         => seconds < 120 ? $"{seconds:0} s" : seconds < 7200 ? $"{seconds / 60:0} min" : $"{seconds / 3600:0.#} h";
 }
-
-/// <summary>How a local sweep may use the machine.</summary>
-/// <param name="Jobs">Points run at the same time.</param>
-/// <param name="MemoryBytes">Total memory the points running at once may declare.</param>
-public sealed record SweepExecution(int Jobs, long MemoryBytes);
-
-/// <summary>What a sweep did.</summary>
-public sealed record SweepOutcome(int Total, int Skipped, int Computed, IReadOnlyList<CorruptPoint> Corrupt, IReadOnlyList<PointFailure> Failed);
-
-/// <summary>A point that failed (resource limit or error); it has no result file and is retried next time.</summary>
-public sealed record PointFailure(int Index, string Id, string Point, string Kind, string Message);

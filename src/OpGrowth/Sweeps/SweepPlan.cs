@@ -210,6 +210,3 @@ public sealed record SweepPlan
         return sb.Append('"').ToString();
     }
 }
-
-/// <summary>One swept parameter and its values.</summary>
-public sealed record ParameterAxis(string Name, IReadOnlyList<double> Values);

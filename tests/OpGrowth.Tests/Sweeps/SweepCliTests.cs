@@ -5,11 +5,11 @@ using Xunit.Abstractions;
 namespace OpGrowth.Tests.Sweeps;
 
 /// <summary>
-/// A sweep killed with SIGKILL loses only its points in flight: rerunning finishes the rest and the
-/// merged table is byte-identical to the table of an uninterrupted sweep. Runs the real CLI as a child
-/// process with the synthetic runner (0.25 s per point).
+/// The sweep and collect commands, run as child processes with the synthetic engine. A sweep killed with
+/// SIGKILL loses only its points in flight: rerunning finishes the rest and the merged table is
+/// byte-identical to the table of an uninterrupted sweep.
 /// </summary>
-public class ResumeTests(ITestOutputHelper output)
+public class SweepCliTests(ITestOutputHelper output)
 {
     [Fact]
     public void Sweep_KilledMidway_RerunGivesIdenticalTable()
@@ -84,5 +84,50 @@ public class ResumeTests(ITestOutputHelper output)
         var r = SweepTestKit.RunCli(TimeSpan.FromMinutes(1), "sweep", plan, "--results", kit.Path("out"));
         Assert.Equal(2, r.Code);
         Assert.Equal($"error: {plan}:4: found unknown key 'sizez' in [model] (did you mean 'sizes'?); expected one of file, files, sizes, seeds, seed_parameter, probes", r.Stderr.Trim());
+    }
+
+    [Fact]
+    public void Sweep_CommandLineRanges_WithoutPlanFile_RunAndDryRun()
+    {
+        using var kit = new SweepTestKit();
+        string dir = kit.Path("cli");
+        var dry = SweepTestKit.RunCli(TimeSpan.FromMinutes(1), "sweep", "--model", kit.ModelFile, "--sizes", "8:16:4", "--seeds", "1,2",
+            "--grid", "h=0.3,0.6", "--probe", "Z_{N-1}", "--engine", "synthetic", "--results", dir, "--dry-run");
+        Assert.True(dry.Code == 0, dry.Stderr);
+        var lines = dry.Stdout.Split('\n', StringSplitOptions.RemoveEmptyEntries);
+        Assert.Equal(1 + 3 * 2 * 2, lines.Length);
+        Assert.Contains("model N=16 h=0.6 seed=2 Z_15 synthetic", dry.Stdout, StringComparison.Ordinal);
+        Assert.All(lines.Skip(1), l => Assert.Contains(" todo ", l, StringComparison.Ordinal));
+        var run = SweepTestKit.RunCli(TimeSpan.FromMinutes(1), "sweep", "--model", kit.ModelFile, "--sizes", "8:16:4", "--seeds", "1,2",
+            "--grid", "h=0.3,0.6", "--probe", "Z_{N-1}", "--engine", "synthetic", "--results", dir);
+        Assert.True(run.Code == 0, run.Stderr);
+        Assert.Equal(13, File.ReadAllLines(Path.Combine(dir, "table.csv")).Length);
+        // Two series (h = 0.3 and 0.6), each fitted over three sizes.
+        Assert.Equal(2, CountOccurrences(run.Stdout, "the data prefer"));
+        // The resolved plan in the results folder expands to the same points (array tasks use it).
+        var saved = SweepPlanReader.Load(Path.Combine(dir, "plan.toml"));
+        var manifest = SweepManifest.Load(Path.Combine(dir, "sweep.json"))!;
+        Assert.Equal(manifest.Points.Select(p => p.Id), saved.Expand().Select(p => p.Id));
+        var task = SweepTestKit.RunCli(TimeSpan.FromMinutes(1), "sweep", Path.Combine(dir, "plan.toml"), "--results", dir, "--task-index", "99");
+        Assert.Equal(2, task.Code);
+        Assert.Contains("expected 0..11", task.Stderr, StringComparison.Ordinal);
+    }
+
+#if !OPGROWTH_EVOLUTION
+    [Fact]
+    public void Sweep_EngineNotInThisBuild_IsInputErrorBeforeRunning()
+    {
+        using var kit = new SweepTestKit();
+        var r = SweepTestKit.RunCli(TimeSpan.FromMinutes(1), "sweep", "--model", kit.ModelFile, "--sizes", "8", "--engine", "pauli", "--results", kit.Path("x"));
+        Assert.Equal(2, r.Code);
+        Assert.Contains("needs the Pauli engine, which this build does not include", r.Stderr, StringComparison.Ordinal);
+    }
+#endif
+
+    private static int CountOccurrences(string s, string what)
+    {
+        int n = 0;
+        for (int i = s.IndexOf(what, StringComparison.Ordinal); i >= 0; i = s.IndexOf(what, i + 1, StringComparison.Ordinal)) n++;
+        return n;
     }
 }
