@@ -269,11 +269,12 @@ internal static class SweepCommand
     }
 
     /// <summary>Collects and prints the summary; returns the exit code.</summary>
-    internal static int Collect(string dir, ILogger log)
+    internal static int Collect(string dir, ILogger log, bool figures = true)
     {
         var c = SweepCollector.Collect(dir, log);
-        var files = c.Write(dir);
-        log.LogInformation("wrote {Files}", string.Join(", ", files.Select(Path.GetFileName)));
+        var files = c.Write(dir).ToList();
+        if (figures) files.AddRange(SweepFigures.Write(c, dir));
+        log.LogInformation("wrote {Files}", string.Join(", ", files.Select(f => Path.GetRelativePath(dir, f))));
         Console.Out.Write(c.Summary());
         return ExitCodes.Ok;
     }
