@@ -44,7 +44,7 @@ public sealed record EngineSettings
     public long SampleSeed { get; init; } = 1;
 
     /// <summary>Front threshold for v_B as a fraction of the scrambled site weight 3/4.</summary>
-    public double FrontFraction { get; init; } = 0.25;
+    public double FrontFraction { get; init; } = 0.5;
 
     /// <summary>Synthetic law (engine = synthetic only).</summary>
     public SyntheticSettings Synthetic { get; init; } = new();
