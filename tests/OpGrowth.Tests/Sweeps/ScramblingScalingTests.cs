@@ -51,7 +51,7 @@ public class ScramblingScalingTests(ITestOutputHelper output)
         Assert.NotEmpty(vbs);
         double vb = vbs.Average();
         double ratio = cmp.Linear.Slope * 2 * vb;
-        output.WriteLine(CultureInfo.InvariantCulture, $"v_B = {vb:0.###} (mean over converged N >= 12); slope 1/v = {cmp.Linear.Slope:0.####} +- {cmp.Linear.SlopeError:0.####}; slope x 2 v_B = {ratio:0.###}");
+        output.WriteLine(FormattableString.Invariant($"v_B = {vb:0.###} (mean over converged N >= 12); slope 1/v = {cmp.Linear.Slope:0.####} +- {cmp.Linear.SlopeError:0.####}; slope x 2 v_B = {ratio:0.###}"));
         Assert.InRange(ratio, 1 / 1.6, 1.6);
     }
 
@@ -87,7 +87,7 @@ public class ScramblingScalingTests(ITestOutputHelper output)
         Report(s);
         Assert.All(s.Data, a => Assert.NotNull(a.TStar));
         Assert.NotNull(s.TStarRatio);
-        output.WriteLine(CultureInfo.InvariantCulture, $"t*(N_max)/t*(N_min) = {s.TStarRatio:0.###} against N_max/N_min = {s.SizeRatio:0.###}");
+        output.WriteLine(FormattableString.Invariant($"t*(N_max)/t*(N_min) = {s.TStarRatio:0.###} against N_max/N_min = {s.SizeRatio:0.###}"));
         Assert.True(s.TStarRatio!.Value < 0.5 * s.SizeRatio!.Value, $"t* ratio {s.TStarRatio} is not well below the size ratio {s.SizeRatio}");
     }
 
@@ -106,8 +106,8 @@ public class ScramblingScalingTests(ITestOutputHelper output)
         foreach (var p in c.Points)
         {
             var r = p.Result;
-            output.WriteLine(CultureInfo.InvariantCulture,
-                $"N={p.N,3} seed={p.Seed?.ToString(CultureInfo.InvariantCulture) ?? "-",3} t*={r.TStar:0.####} grid={r.TStarGridError:0.####} trunc={r.TStarTruncationError:0.####} v_B={r.VB:0.###} rate={r.GrowthRate:0.###} ({r.GrowthKind}) discarded={r.DiscardedWeight:g3} converged={r.Converged} {r.WallSeconds:0.0}s {r.Note}");
+            output.WriteLine(FormattableString.Invariant(
+                $"N={p.N,3} seed={p.Seed?.ToString(CultureInfo.InvariantCulture) ?? "-",3} t*={r.TStar:0.####} grid={r.TStarGridError:0.####} trunc={r.TStarTruncationError:0.####} v_B={r.VB:0.###} rate={r.GrowthRate:0.###} ({r.GrowthKind}) discarded={r.DiscardedWeight:g3} converged={r.Converged} {r.WallSeconds:0.0}s {r.Note}"));
         }
         return c;
     }
@@ -115,8 +115,8 @@ public class ScramblingScalingTests(ITestOutputHelper output)
     private void Report(SeriesFit s)
     {
         if (s.Comparison is not { } c) return;
-        output.WriteLine(CultureInfo.InvariantCulture, $"log fit: a = {c.Log.A:0.###} +- {c.Log.AError:0.###}, b = {c.Log.Slope:0.###} +- {c.Log.SlopeError:0.###}, chi2/dof = {c.Log.ReducedChiSquared:0.##}");
-        output.WriteLine(CultureInfo.InvariantCulture, $"linear fit: a = {c.Linear.A:0.###} +- {c.Linear.AError:0.###}, 1/v = {c.Linear.Slope:0.####} +- {c.Linear.SlopeError:0.####}, chi2/dof = {c.Linear.ReducedChiSquared:0.##}");
+        output.WriteLine(FormattableString.Invariant($"log fit: a = {c.Log.A:0.###} +- {c.Log.AError:0.###}, b = {c.Log.Slope:0.###} +- {c.Log.SlopeError:0.###}, chi2/dof = {c.Log.ReducedChiSquared:0.##}"));
+        output.WriteLine(FormattableString.Invariant($"linear fit: a = {c.Linear.A:0.###} +- {c.Linear.AError:0.###}, 1/v = {c.Linear.Slope:0.####} +- {c.Linear.SlopeError:0.####}, chi2/dof = {c.Linear.ReducedChiSquared:0.##}"));
         output.WriteLine(c.Verdict);
     }
 }
