@@ -31,6 +31,7 @@ internal static class SweepCommand
         var maxStrings = new Option<long?>("--max-strings") { Description = "String budget of the Pauli engine." };
         var ladder = new Option<int?>("--ladder") { Description = "Rungs of the convergence ladder (1-3)." };
         var taskIndex = new Option<int?>("--task-index") { Description = "Run only the point with this index (0-based, plan order): what each Slurm array task does." };
+        var noFigures = new Option<bool>("--no-figures") { Description = "Do not draw the t*(N) figures when collecting at the end." };
         var dryRun = new Option<bool>("--dry-run") { Description = "List the points (index, id, state, memory estimate) and stop." };
         var slurmScript = new Option<string?>("--slurm-script") { Description = "Write a Slurm job-array script (one task per point) to this file instead of running locally." };
         var submit = new Option<bool>("--submit") { Description = "Submit the script with sbatch." };
@@ -50,7 +51,7 @@ internal static class SweepCommand
             "  opgrowth sweep plan.toml --slurm-script sweep.sbatch --submit --wait\n" +
             "  opgrowth sweep plan.toml --results /shared/run1 --task-index 7")
         {
-            plan, results, jobs, memory, threads, model, sizes, seeds, probe, grid, engine, time, dt, maxStrings, ladder, taskIndex, dryRun,
+            plan, results, jobs, memory, threads, model, sizes, seeds, probe, grid, engine, time, dt, maxStrings, ladder, taskIndex, dryRun, noFigures,
             slurmScript, submit, wait, waitMinutes, slurmTime, slurmPartition, slurmCpus, slurmMaxRunning, slurmOption,
         };
         cmd.SetAction(pr => CliHost.Run(ct =>
@@ -60,6 +61,7 @@ internal static class SweepCommand
             string dir = Path.GetFullPath(pr.GetValue(results) ?? Path.Combine("results", p.Name));
             using var lf = CliHost.CreateLoggerFactory(LogLevel.Information);
             var log = lf.CreateLogger("sweep");
+            bool figures = !pr.GetValue(noFigures);
             if (pr.GetValue(taskIndex) is int k) return RunTask(p, dir, k, pr.GetValue(threads), log, ct);
             if (pr.GetValue(dryRun)) return DryRun(p, dir, pr.GetValue(jobs), pr.GetValue(threads), log);
             if (pr.GetValue(slurmScript) is string script)
@@ -73,10 +75,10 @@ internal static class SweepCommand
                     MaxConcurrent = pr.GetValue(slurmMaxRunning),
                     ExtraDirectives = pr.GetValue(slurmOption) ?? [],
                 };
-                return Slurm(p, dir, script, so, pr.GetValue(submit), pr.GetValue(wait), pr.GetValue(waitMinutes), log, ct);
+                return Slurm(p, dir, script, so, pr.GetValue(submit), pr.GetValue(wait), pr.GetValue(waitMinutes), figures, log, ct);
             }
             if (pr.GetValue(submit) || pr.GetValue(wait)) throw new InputException("found --submit or --wait without --slurm-script; expected --slurm-script FILE --submit [--wait]");
-            return RunLocal(p, dir, pr.GetValue(jobs), pr.GetValue(memory), pr.GetValue(threads), log, ct);
+            return RunLocal(p, dir, pr.GetValue(jobs), pr.GetValue(memory), pr.GetValue(threads), figures, log, ct);
         }));
         return cmd;
     }
@@ -160,7 +162,7 @@ internal static class SweepCommand
         return p with { Engine = e };
     }
 
-    private static int RunLocal(SweepPlan plan, string dir, int? jobs, string? memory, int? threads, ILogger log, CancellationToken ct)
+    private static int RunLocal(SweepPlan plan, string dir, int? jobs, string? memory, int? threads, bool figures, ILogger log, CancellationToken ct)
     {
         var points = plan.Expand();
         var store = Prepare(plan, points, dir);
@@ -172,7 +174,7 @@ internal static class SweepCommand
         long budget = memory is null ? (long)(0.8 * GC.GetGCMemoryInfo().TotalAvailableMemoryBytes) : ParseMemory(memory);
         var runner = PointRunners.Create(th, log);
         var outcome = new SweepExecutor(store, runner, log).Run(points, new SweepExecution(j, budget), ct);
-        int code = Collect(dir, log);
+        int code = Collect(dir, log, figures);
         if (outcome.Failed.Count > 0)
         {
             foreach (var f in outcome.Failed) Console.Error.WriteLine($"point {f.Index} ({f.Point}) failed: {f.Message}");
@@ -222,7 +224,7 @@ internal static class SweepCommand
     }
 
     private static int Slurm(SweepPlan plan, string dir, string scriptPath, SlurmOptions so, bool submit, bool wait, double waitMinutes,
-        ILogger log, CancellationToken ct)
+        bool figures, ILogger log, CancellationToken ct)
     {
         var points = plan.Expand();
         var store = Prepare(plan, points, dir);
@@ -247,7 +249,7 @@ internal static class SweepCommand
             Console.Error.WriteLine($"job {job} still running after {waitMinutes} minutes; collect later with: opgrowth collect {dir}");
             return ExitCodes.CheckFailed;
         }
-        int code = Collect(dir, log);
+        int code = Collect(dir, log, figures);
         int missing = points.Count(p => !File.Exists(store.PathOf(p.Id)));
         if (missing > 0)
         {
