@@ -91,6 +91,44 @@ public class ScramblingScalingTests(ITestOutputHelper output)
         Assert.True(s.TStarRatio!.Value < 0.5 * s.SizeRatio!.Value, $"t* ratio {s.TStarRatio} is not well below the size ratio {s.SizeRatio}");
     }
 
+#if OPGROWTH_EXACT
+    /// <summary>
+    /// The two engines through the same sweep: the untruncated Pauli engine (4^6 strings fit the budget) and
+    /// the exact engine (dense traces at N = 6) give the same t* for the mixed-field Ising chain. Tolerance
+    /// 0.01: the second-order Trotter error at dt = 0.02 (O(dt^2), about 1e-3 here) plus the interpolation
+    /// between records (grid errors about 1e-3).
+    /// </summary>
+    [Fact]
+    [Trait("Category", "Slow")]
+    public void Sweep_PauliAndExactRunners_AgreeAtSmallN()
+    {
+        using var kit = new SweepTestKit();
+        string model = Path.GetFullPath(ShippedModels.Resolve("mixed-field-ising"));
+        string plan = $$"""
+            name = "engines"
+            [model]
+            file = "{{model}}"
+            sizes = [6]
+            probes = ["Z_0"]
+            [engine]
+            engine = "ENGINE"
+            time = 2.5
+            dt = 0.02
+            record_every = 2
+            max_strings = 100000
+            ladder = 1
+            """;
+        var pauli = RunSweep(kit, plan.Replace("ENGINE", "pauli", StringComparison.Ordinal)).Points.Single().Result;
+        using var kit2 = new SweepTestKit();
+        var exact = RunSweep(kit2, plan.Replace("ENGINE", "exact", StringComparison.Ordinal)).Points.Single().Result;
+        Assert.Equal("pauli", pauli.Engine);
+        Assert.Equal("exact", exact.Engine);
+        Assert.Equal(0, pauli.DiscardedWeight);
+        Assert.Equal(0, pauli.TStarTruncationError);
+        Assert.Equal(exact.TStar!.Value, pauli.TStar!.Value, 0.01);
+    }
+#endif
+
     private SweepCollection RunSweep(SweepTestKit kit, string planText)
     {
         var plan = SweepPlanReader.Parse(planText, kit.Path("plan.toml"), kit.Root);
