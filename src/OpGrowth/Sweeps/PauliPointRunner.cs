@@ -105,12 +105,13 @@ public sealed class PauliPointRunner : IPointRunner
         var notes = new List<string>();
         if (ts.Value is null) notes.Add($"t* not reached by t = {last.Time:0.###}: mean size {size:0.###} < {ts.Target:0.###}");
         if (tsConv is { Converged: false, Note: { } n }) notes.Add("t* " + n);
+        if (ts.Value is double tv && TStarTruncation(tsConv, tv, last.Time) is double lb) notes.Add($"the half budget did not reach t* by t = {last.Time:0.###}: truncation error set to the lower bound {lb:0.###}");
         if (majorana) notes.Add("size counted in Majoranas (t*: mean Majorana size N/2)");
         return new PointResult
         {
             TStar = ts.Value,
             TStarGridError = ts.GridUncertainty ?? 0,
-            TStarTruncationError = ts.Value is null ? null : Trunc(majorana ? "majoranaScramblingTime" : "scramblingTime"),
+            TStarTruncationError = ts.Value is null ? null : TStarTruncation(tsConv, ts.Value.Value, last.Time) ?? Trunc(majorana ? "majoranaScramblingTime" : "scramblingTime"),
             GrowthRate = growth.Rate,
             GrowthKind = growth.Rate is null ? null : oneD ? "linear" : "exponential",
             GrowthRateError = growth.RateError,
@@ -130,6 +131,13 @@ public sealed class PauliPointRunner : IPointRunner
             Note = notes.Count > 0 ? string.Join("; ", notes) : null,
         };
     }
+
+    /// <summary>
+    /// When the half budget never reached the level by the final time T, its t* lies beyond T: the movement is
+    /// at least T - t*, which is reported as the (lower-bound) truncation error instead of leaving it unknown.
+    /// </summary>
+    private static double? TStarTruncation(FigureConvergence? c, double tstar, double finalTime)
+        => c is { Movement: null, Values.Length: > 1 } && c.Values[0] is not null && c.Values[1] is null ? Math.Max(0, finalTime - tstar) : null;
 
     private static double Sq(double x) => x * x;
 }

@@ -30,13 +30,13 @@ public class ScramblingScalingTests(ITestOutputHelper output)
             name = "ising-end"
             [model]
             file = "{{model}}"
-            sizes = [8, 12, 16, 20, 24]
+            sizes = [8, 10, 12, 14, 16]
             probes = ["Z_0"]
             [engine]
             engine = "pauli"
-            time = 10
-            dt = 0.05
-            record_every = 2
+            time = 6.5
+            dt = 0.1
+            record_every = 1
             max_strings = 100000
             ladder = 2
             """;
