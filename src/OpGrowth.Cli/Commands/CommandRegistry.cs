@@ -12,5 +12,7 @@ internal static class CommandRegistry
         yield return LanczosCommand.Create();
         yield return EvolveCommand.Create();
         yield return ExactCommand.Create();
+        yield return SweepCommand.Create();
+        yield return CollectCommand.Create();
     }
 }
