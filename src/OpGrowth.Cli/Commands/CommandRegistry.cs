@@ -12,5 +12,6 @@ internal static class CommandRegistry
         yield return LanczosCommand.Create();
         yield return EvolveCommand.Create();
         yield return ExactCommand.Create();
+        yield return RunCommand.Create();
     }
 }
