@@ -20,9 +20,9 @@ public sealed record EffortPreset(
     /// <summary>The preset of an effort level.</summary>
     public static EffortPreset For(RunEffort effort) => effort switch
     {
-        RunEffort.Quick => new(3, 0.1, 2, 20_000, 12, [4_000, 16_000], 8, 2),
-        RunEffort.Thorough => new(14, 0.05, 3, 2_000_000, 40, [250_000, 1_000_000], 10, 6),
-        _ => new(8, 0.05, 3, 200_000, 24, [25_000, 100_000], 10, 4),
+        RunEffort.Quick => new(3, 0.1, 2, 20_000, 12, [4_000, 16_000], 6, 2),
+        RunEffort.Thorough => new(14, 0.05, 3, 2_000_000, 40, [250_000, 1_000_000], 10, 4),
+        _ => new(8, 0.05, 3, 200_000, 24, [25_000, 100_000], 8, 3),
     };
 }
 
