@@ -133,7 +133,7 @@ public static class RunReport
         foreach (var v in verdicts) doc.Verdicts.Add(v);
         foreach (var c in checks) doc.Checks.Add(c);
         foreach (var c in cautions) doc.Cautions.Add(c);
-        foreach (var f in RunFigures.All(r)) doc.Figures.Add(f);
+        foreach (var f in RunFigures.All(r with { Headlines = headlines })) doc.Figures.Add(f);
         foreach (var d in dataFiles) doc.DataFiles.Add(new DataFileEntry(d, Describe(d)));
         doc.DataFiles.Add(new DataFileEntry(ResultsFileName, "every headline figure, window, uncertainty, option and seed"));
         doc.DataFiles.Add(new DataFileEntry(ManifestWriter.FileName, "tool version, model file SHA-256, options, seeds, threads, timings, file hashes"));
