@@ -14,5 +14,6 @@ internal static class CommandRegistry
         yield return ExactCommand.Create();
         yield return SweepCommand.Create();
         yield return CollectCommand.Create();
+        yield return RunCommand.Create();
     }
 }
