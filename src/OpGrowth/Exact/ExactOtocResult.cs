@@ -21,7 +21,7 @@ public sealed record SiteOtoc(int Site, OtocSeries X, OtocSeries Y, OtocSeries Z
 /// <param name="Points">Points in the window.</param>
 /// <param name="RSquared">Coefficient of determination of the straight line (a low value: no exponential regime).</param>
 /// <param name="BoundRatio">lambda / (2 pi T) = lambda beta / (2 pi) (chaos bound: &lt;= 1); NaN at beta = 0.</param>
-public sealed record GrowthFit(string Probe, double Lambda, double LambdaError, double WindowStart, double WindowEnd, int Points, double RSquared, double BoundRatio);
+public sealed record OtocGrowthFit(string Probe, double Lambda, double LambdaError, double WindowStart, double WindowEnd, int Points, double RSquared, double BoundRatio);
 
 /// <summary>Work and resources of a run.</summary>
 public sealed record OtocCost(long RealTimePropagations, long ImaginaryTimePropagations, long MatrixVectorProducts, double WallSeconds, long PeakWorkingSetBytes, double PropagationErrorBound);
@@ -61,7 +61,7 @@ public sealed record ExactOtocResult
     public string MeanSizeMethod { get; init; } = "none";
 
     /// <summary>Growth-rate fits (one per probe, and per site letter average).</summary>
-    public required IReadOnlyList<GrowthFit> Fits { get; init; }
+    public required IReadOnlyList<OtocGrowthFit> Fits { get; init; }
 
     /// <summary>Work done.</summary>
     public required OtocCost Cost { get; init; }
