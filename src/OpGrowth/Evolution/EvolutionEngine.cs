@@ -526,12 +526,12 @@ internal sealed class EvolutionEngine<T> where T : unmanaged, IPauliKey<T>
     private CompactStats CompactInto(PassAccumulator<T> acc, CompactRule rule, OperatorBuffer<T> dest)
     {
         HeapValve();
-        long room = ArrayBudget - _cur.AllocatedBytes - acc.AllocatedBytes - _runner.BufferBytes;
+        long room = Math.Max(0, ArrayBudget - _cur.AllocatedBytes - acc.AllocatedBytes - _runner.BufferBytes);
         var stats = _compactor.Compact(acc, rule, dest, room / EntryBytes);
         if (stats.Kept < 0)
         {
             throw new ResourceLimitException(
-                $"the operator needs more than {room / EntryBytes} strings to hold the requested accuracy, beyond the memory budget {MemoryBudget.Format(_budget.MemoryBytes)}; raise --threshold or --memory, or set --max-strings");
+                $"the image of one step ({stats.Distinct} distinct strings) does not fit the memory budget {MemoryBudget.Format(_budget.MemoryBytes)} at the requested accuracy; raise --threshold or --memory, or set --max-strings");
         }
         _state.PeakTrackedBytes = Math.Max(_state.PeakTrackedBytes, TrackedBytes);
         HeapValve();
@@ -734,6 +734,7 @@ internal sealed class EvolutionEngine<T> where T : unmanaged, IPauliKey<T>
     /// </summary>
     private void Save(string path)
     {
+        _state.EmitPerInput = _runner.EmitPerInput;
         var stateJson = System.Text.Json.JsonSerializer.SerializeToUtf8Bytes(_state, AtomicFile.Json);
         var header = new byte[8 + 4 * 4 + 8 + 8 + 4];
         System.Text.Encoding.ASCII.GetBytes(Magic).CopyTo(header, 0);
@@ -804,6 +805,7 @@ internal sealed class EvolutionEngine<T> where T : unmanaged, IPauliKey<T>
         _cur.Count = (int)count;
         _state = System.Text.Json.JsonSerializer.Deserialize<EngineState>(stateJson, AtomicFile.Json)
             ?? throw Bad(path, "found an empty state record");
+        _runner.EmitPerInput = _state.EmitPerInput;
     }
 
     private static InputException Bad(string path, string problem) => new(path, 0, $"checkpoint: {problem}");
@@ -831,6 +833,9 @@ internal sealed class EngineState
     public long PeakTrackedBytes { get; set; }
 
     public long PeakHeapBytes { get; set; }
+
+    /// <summary>Block sizing of the pass driver (only matters when a pass meets the memory limit).</summary>
+    public double EmitPerInput { get; set; } = 4;
 
     public long PassRetries { get; set; }
 

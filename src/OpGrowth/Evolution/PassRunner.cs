@@ -27,6 +27,13 @@ internal sealed class PassRunner<T> where T : unmanaged, IPauliKey<T>
 
     private double _emitPerInput = 4;
 
+    /// <summary>Contributions per input string in the last pass (sets the block size; checkpointed so a resumed run blocks the same way).</summary>
+    public double EmitPerInput
+    {
+        get => _emitPerInput;
+        set => _emitPerInput = value;
+    }
+
     private readonly int _threads;
     private EmitBuffer<T>[] _buffers = [];
 
@@ -74,7 +81,11 @@ internal sealed class PassRunner<T> where T : unmanaged, IPauliKey<T>
         var options = new ParallelOptions { MaxDegreeOfParallelism = threads, CancellationToken = ct };
         int checkEvery = 1;
         int block = 0;
-        int blockSize = (int)Math.Clamp(TargetBlockEmissions / Math.Max(1.0, _emitPerInput), MinBlock, 1 << 16);
+        // Block size from the previous pass's emissions per input; never so large that one block could
+        // overshoot the byte limit by much (the limit is checked between blocks).
+        long perEntry = Unsafe.SizeOf<PassAccumulator<T>.Entry>() + 16;
+        long byBytes = Math.Max(1024, byteLimit / 4 / perEntry);
+        int blockSize = (int)Math.Clamp(Math.Min(TargetBlockEmissions, byBytes) / Math.Max(1.0, _emitPerInput), 1024, 1 << 16);
         for (int b0 = 0; b0 < count; b0 += blockSize, block++)
         {
             ct.ThrowIfCancellationRequested();
