@@ -9,5 +9,6 @@ internal static class CommandRegistry
     {
         yield return ModelsCommand.Create();
         yield return CheckCommand.Create();
+        yield return ExactCommand.Create();
     }
 }
