@@ -63,7 +63,10 @@ internal static class ExactCommand
         string path = ShippedModels.Resolve(s.Model);
         var overrides = ModelLoader.ParseOverrides(s.Sets, path);
         var model = ModelLoader.Load(path, overrides);
-        if (model.IsDriven) throw new InputException(path, 0, "found a driven (Floquet) model; expected a Hamiltonian model (the exact command evolves with a time-independent H)");
+        if (model.IsDriven && s.Mode != "otoc")
+        {
+            throw new InputException(path, 0, $"found a driven (Floquet) model with --mode {s.Mode}; expected --mode otoc (a drive has no thermal state and no energy levels)");
+        }
         string outDir = s.Out ?? $"exact-{model.Name}";
         using var lf = CliHost.CreateLoggerFactory(LogLevel.Information);
         var log = lf.CreateLogger("exact");
@@ -114,7 +117,16 @@ internal static class ExactCommand
         {
             ct.ThrowIfCancellationRequested();
             log.LogInformation("{Model}: OTOC of {W}, beta = {Beta}, {Times} times", model.Name, w, b, times.Length);
-            results.Add(ExactOtoc.Run(model.Hamiltonian, baseOptions with { Beta = b }, ct));
+            if (model.Drive is not null)
+            {
+                var bad = times.FirstOrDefault(t => Math.Abs(t / model.Drive.Period - Math.Round(t / model.Drive.Period)) > 1e-9 * Math.Max(1, t / model.Drive.Period), -1);
+                if (bad >= 0) throw new InputException($"--times: found {bad.ToString(Inv)}; expected whole numbers of drive periods (period {model.Drive.Period.ToString(Inv)})");
+                results.Add(ExactOtoc.Run(model.Drive, n, baseOptions, ct));
+            }
+            else
+            {
+                results.Add(ExactOtoc.Run(model.Hamiltonian, baseOptions with { Beta = b }, ct));
+            }
         }
         string stem = thermal ? "exact-thermal" : "exact-otoc";
         var doc = new { model = model.Name, source = model.SourceFile, n, parameters = model.Parameters, mode = thermal ? "thermal" : "otoc", results };
@@ -206,7 +218,7 @@ internal static class ExactCommand
         AtomicFile.WriteAllText(Path.Combine(outDir, "exact-levels.csv"), sb.ToString());
         var o = CliHost.Out;
         o.WriteLine(FormattableString.Invariant($"{model.Name} N={model.N}: <r> = {r.MeanRatio:F4} +- {r.StandardError:F4} over {r.Gaps} gap ratios, {r.Realizations} realisation(s) ({r.WallSeconds:F1} s)"));
-        o.WriteLine(FormattableString.Invariant($"  reference: Poisson {r.Poisson:F4}, GOE {r.Goe:F4}, GUE {r.Gue:F4}; closest: {r.Closest}; blocks {(r.RealBlocks ? "real (GOE class)" : "complex (GUE class)")}"));
+        o.WriteLine(FormattableString.Invariant($"  reference: Poisson {r.Poisson:F4}, GOE {r.Goe:F4}, GUE {r.Gue:F4}; closest: {r.Closest}; blocks {(r.RealBlocks ? "real (GOE class)" : "complex (GUE class)")}; eigensolver {(NativeLapack.IsAvailable ? "LAPACK" : "managed")}"));
         o.WriteLine($"  detected: {(r.Detected.Count == 0 ? "none" : string.Join(", ", r.Detected))}; resolved: {(r.Resolved.Count == 0 ? "none" : string.Join(", ", r.Resolved))}");
         foreach (var sec in r.Sectors) o.WriteLine(FormattableString.Invariant($"  {sec.Label,-24} dim {sec.Dimension,6}  <r> {sec.MeanRatio:F4} +- {sec.StandardError:F4}"));
         foreach (var wn in r.Warnings) o.WriteLine($"  warning: {wn}");

@@ -2,6 +2,7 @@ using System.Diagnostics;
 using System.Numerics;
 using MathNet.Numerics.LinearAlgebra;
 using Microsoft.Extensions.Logging;
+using OpGrowth.Models;
 using OpGrowth.Pauli;
 
 namespace OpGrowth.Exact;
@@ -49,6 +50,27 @@ public static class ExactOtoc
     public static ExactOtocResult Run(Hamiltonian h, ExactOtocOptions options, CancellationToken cancellationToken = default)
     {
         ArgumentNullException.ThrowIfNull(h);
+        return RunCore(h, null, options, cancellationToken);
+    }
+
+    /// <summary>
+    /// Runs the OTOC calculation for a periodic drive of Pauli rotations on <paramref name="n"/> qubits
+    /// (times must be whole periods; infinite temperature only: a drive has no thermal state).
+    /// </summary>
+    public static ExactOtocResult Run(FloquetDrive drive, int n, ExactOtocOptions options, CancellationToken cancellationToken = default)
+    {
+        ArgumentNullException.ThrowIfNull(drive);
+        ArgumentNullException.ThrowIfNull(options);
+        if (options.Beta != 0) throw new ArgumentException("A periodic drive has no thermal state: beta must be 0.", nameof(options));
+        var fp = new FloquetPropagator(n, drive);
+        foreach (double t in options.Times) fp.Periods(t);
+        // The Hamiltonian slot only carries N for validation; the dynamics come from the drive.
+        var carrier = new Hamiltonian(n, [new PauliTerm(PauliString.Identity(n), 1.0)]);
+        return RunCore(carrier, drive, options, cancellationToken);
+    }
+
+    private static ExactOtocResult RunCore(Hamiltonian h, FloquetDrive? drive, ExactOtocOptions options, CancellationToken cancellationToken)
+    {
         ArgumentNullException.ThrowIfNull(options);
         Validate(h, options);
         var method = options.Method == OtocMethod.Auto ? (h.N <= 8 ? OtocMethod.Dense : OtocMethod.Typicality) : options.Method;
@@ -63,12 +85,13 @@ public static class ExactOtoc
         if (method == OtocMethod.Dense)
         {
             samples = 1;
-            RunDense(h, options, sites, times, acc, cancellationToken);
+            if (drive is null) RunDense(h, options, sites, times, acc, cancellationToken);
+            else RunDenseFloquet(drive, h.N, options, sites, times, acc, cancellationToken);
         }
         else
         {
             samples = options.Samples;
-            (realProps, imagProps, matvecs, propError) = RunTypicality(h, options, sites, times, acc, cancellationToken);
+            (realProps, imagProps, matvecs, propError) = RunTypicality(h, drive, options, sites, times, acc, cancellationToken);
         }
         var proc = Process.GetCurrentProcess();
         proc.Refresh();
@@ -106,12 +129,14 @@ public static class ExactOtoc
 
     // ---------------- typicality ----------------
 
-    private static (long Real, long Imag, long MatVecs, double Error) RunTypicality(Hamiltonian h, ExactOtocOptions o, int[] sites, double[] times, Accumulator acc, CancellationToken ct)
+    private static (long Real, long Imag, long MatVecs, double Error) RunTypicality(Hamiltonian h, FloquetDrive? drive, ExactOtocOptions o, int[] sites, double[] times, Accumulator acc, CancellationToken ct)
     {
         int n = h.N;
         int threads = o.Threads > 0 ? o.Threads : Environment.ProcessorCount;
         var app = new PauliHamiltonianApplier(h, threads);
-        var cheb = new ChebyshevPropagator(app, o.Tolerance);
+        var cheb = drive is null ? new ChebyshevPropagator(app, o.Tolerance) : null;
+        var floquet = drive is null ? null : new FloquetPropagator(n, drive, threads);
+        var evolver = new Evolver(cheb, floquet);
         var imag = o.Beta > 0 ? new KrylovPropagator(app, new KrylovOptions { Tolerance = o.Tolerance }) : null;
         long realProps = 0, imagProps = 0;
         void Q(Complex[] x)
@@ -123,8 +148,8 @@ public static class ExactOtoc
         var w = PauliMask.From(o.Operator);
         int dim = 1 << n;
         var clock = Stopwatch.StartNew();
-        o.Logger?.LogInformation("exact OTOC by typicality: N = {N}, {Sites} sites, {Probes} probes, {Times} times, {Samples} samples, beta = {Beta}, spectrum in [{Lo:F3}, {Hi:F3}]",
-            n, sites.Length, o.Probes.Count, times.Length, o.Samples, o.Beta, cheb.Bounds.Min, cheb.Bounds.Max);
+        o.Logger?.LogInformation("exact OTOC by typicality: N = {N}, {Sites} sites, {Probes} probes, {Times} times, {Samples} samples, beta = {Beta}, {Dynamics}",
+            n, sites.Length, o.Probes.Count, times.Length, o.Samples, o.Beta, cheb is null ? "periodic drive" : FormattableString.Invariant($"spectrum in [{cheb.Bounds.Min:F3}, {cheb.Bounds.Max:F3}]"));
 
         // Vectors reused across blocks.
         var u = new[] { new Complex[dim], new Complex[dim] };
@@ -173,13 +198,13 @@ public static class ExactOtoc
                     {
                         if (t > tPrev)
                         {
-                            cheb.Evolve(u[e], t - tPrev);      // U(t) q psi_e, carried forward
+                            evolver.Evolve(u[e], t - tPrev);      // U(t) q psi_e, carried forward
                             realProps++;
                         }
                         StateVector.ApplyPauli(w, u[e], g[e]);
                         if (t > 0)
                         {
-                            cheb.Evolve(g[e], -t);             // U(t)^dagger W U(t) q psi_e
+                            evolver.Evolve(g[e], -t);             // U(t)^dagger W U(t) q psi_e
                             realProps++;
                         }
                         Q(g[e]);                               // g_e = q W(t) q psi_e
@@ -243,13 +268,13 @@ public static class ExactOtoc
                     {
                         if (t > tPrev)
                         {
-                            cheb.Evolve(u[e], t - tPrev);
+                            evolver.Evolve(u[e], t - tPrev);
                             realProps++;
                         }
                         StateVector.ApplyPauli(w, u[e], g[e]);
                         if (t > 0)
                         {
-                            cheb.Evolve(g[e], -t);
+                            evolver.Evolve(g[e], -t);
                             realProps++;
                         }
                         Q(g[e]);
@@ -265,9 +290,18 @@ public static class ExactOtoc
             }
         }
         acc.RandomDimension = sites.Length > 0 ? dim / 2 : dim;
-        long mv = cheb.MatrixVectorProducts + (imag?.MatrixVectorProducts ?? 0);
-        double err = cheb.EstimatedError + (imag?.EstimatedError ?? 0);
+        long mv = (cheb?.MatrixVectorProducts ?? 0) + (imag?.MatrixVectorProducts ?? 0);
+        double err = (cheb?.EstimatedError ?? 0) + (imag?.EstimatedError ?? 0);
         return (realProps, imagProps, mv, err);
+    }
+
+    private sealed class Evolver(ChebyshevPropagator? cheb, FloquetPropagator? floquet)
+    {
+        public void Evolve(Complex[] psi, double t)
+        {
+            if (cheb is not null) cheb.Evolve(psi, t);
+            else floquet!.Evolve(psi, t);
+        }
     }
 
     /// <summary>G[e',e,f,f'] = sum over the other sites of conj(g_e'[.., f]) g_e[.., f'] (f = value of site j's bit).</summary>
@@ -354,12 +388,9 @@ public static class ExactOtoc
             for (int a = 0; a < 3; a++) letters.Add((si, a, PauliMask.From(PauliString.Single(n, sites[si], "XYZ"[a]))));
         }
         var probes = o.Probes.Select(PauliMask.From).ToArray();
-        Complex[]? b0 = null;
         var be = new Complex[(long)d * d];
-        for (int k = 0; k < times.Length; k++)
+        Complex[] ComputeB(double t)
         {
-            ct.ThrowIfCancellationRequested();
-            double t = times[k];
             for (int col = 0; col < d; col++)
             {
                 for (int m = 0; m < d; m++)
@@ -368,7 +399,14 @@ public static class ExactOtoc
                 }
             }
             var bm = q * Matrix<Complex>.Build.Dense(d, d, be);
-            var b = bm.ConjugateTransposeAndMultiply(q).ToColumnMajorArray(); // B = y W(t) y in the computational basis
+            return bm.ConjugateTransposeAndMultiply(q).ToColumnMajorArray(); // B = y W(t) y in the computational basis
+        }
+        Complex[]? b0 = times[0] == 0 ? null : ComputeB(0);
+        for (int k = 0; k < times.Length; k++)
+        {
+            ct.ThrowIfCancellationRequested();
+            double t = times[k];
+            var b = ComputeB(t);
             b0 ??= b;
             foreach (var (si, a, mask) in letters) acc.Site[si][a][0].Add(TraceBVBV(b, mask, d));
             for (int p = 0; p < probes.Length; p++) acc.Probe[p][0].Add(TraceBVBV(b, probes[p], d));
@@ -379,6 +417,53 @@ public static class ExactOtoc
             }
             acc.Auto[k].Add(ac.Real);
             o.Logger?.LogDebug("dense OTOC: t = {T} done", t);
+        }
+        acc.RandomDimension = 0;
+    }
+
+    private static void RunDenseFloquet(FloquetDrive drive, int n, ExactOtocOptions o, int[] sites, double[] times, Accumulator acc, CancellationToken ct)
+    {
+        int d = 1 << n;
+        if (n > (o.AllowLargeDense ? DenseSpectrum.HardMaxQubits : DenseSpectrum.DefaultMaxQubits)) throw new ArgumentOutOfRangeException(nameof(n), n, "Dense traces are limited to small N.");
+        o.Logger?.LogInformation("exact OTOC by dense period unitary: N = {N}, dimension {D}", n, d);
+        var fp = new FloquetPropagator(n, drive, o.Threads);
+        // U of one period, column by column.
+        var u = Matrix<Complex>.Build.Dense(d, d);
+        var col = new Complex[d];
+        for (int c = 0; c < d; c++)
+        {
+            Array.Clear(col);
+            col[c] = 1;
+            fp.Evolve(col, fp.Period);
+            for (int r = 0; r < d; r++) u[r, c] = col[r];
+        }
+        var wMask = PauliMask.From(o.Operator);
+        var w = Matrix<Complex>.Build.Dense(d, d);
+        for (int k = 0; k < d; k++) w[(int)((ulong)k ^ wMask.X), k] = wMask.Factor((ulong)k);
+        var letters = new List<(int SiteIndex, int Letter, PauliMask Mask)>();
+        for (int si = 0; si < sites.Length; si++)
+        {
+            for (int a = 0; a < 3; a++) letters.Add((si, a, PauliMask.From(PauliString.Single(n, sites[si], "XYZ"[a]))));
+        }
+        var probes = o.Probes.Select(PauliMask.From).ToArray();
+        double scale = 1 / Math.Sqrt(d); // B = W(t)/sqrt(D) so that Tr(BVBV) = Tr(W(t)VW(t)V)/D
+        var wt = w;
+        int m = 0;
+        var b0 = (w * scale).ToColumnMajorArray();
+        for (int k = 0; k < times.Length; k++)
+        {
+            ct.ThrowIfCancellationRequested();
+            int target = fp.Periods(times[k]);
+            for (; m < target; m++) wt = u.ConjugateTransposeThisAndMultiply(wt * u); // W(m+1) = U^dagger W(m) U
+            var b = (wt * scale).ToColumnMajorArray();
+            foreach (var (si, a, mask) in letters) acc.Site[si][a][0].Add(TraceBVBV(b, mask, d));
+            for (int p = 0; p < probes.Length; p++) acc.Probe[p][0].Add(TraceBVBV(b, probes[p], d));
+            Complex ac = 0;
+            for (int i = 0; i < d; i++)
+            {
+                for (int kk = 0; kk < d; kk++) ac += b[(long)kk * d + i] * b0[(long)i * d + kk];
+            }
+            acc.Auto[k].Add(ac.Real);
         }
         acc.RandomDimension = 0;
     }
