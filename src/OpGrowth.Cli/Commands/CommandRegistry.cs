@@ -10,5 +10,6 @@ internal static class CommandRegistry
         yield return ModelsCommand.Create();
         yield return CheckCommand.Create();
         yield return ExactCommand.Create();
+        yield return LanczosCommand.Create();
     }
 }
