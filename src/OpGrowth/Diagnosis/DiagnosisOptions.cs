@@ -26,10 +26,13 @@ public sealed record DiagnosisOptions
     public int LanczosDepth { get; init; } = 24;
 
     /// <summary>Largest string budget per Krylov vector; a second run at a quarter of it gives the truncation uncertainty.</summary>
-    public long LanczosMaxStrings { get; init; } = 300_000;
+    public long LanczosMaxStrings { get; init; } = 200_000;
 
     /// <summary>Memory budget of one Lanczos run in bytes.</summary>
-    public long LanczosMemoryBytes { get; init; } = 4L << 30;
+    public long LanczosMemoryBytes { get; init; } = 1L << 30;
+
+    /// <summary>Wall-time limit of the Lanczos recursion per probe, in seconds (the coefficients finished by then are used).</summary>
+    public double LanczosSeconds { get; init; } = 60;
 
     /// <summary>String budget of the Heisenberg evolution (tests 3 and 4).</summary>
     public long EvolutionMaxStrings { get; init; } = 1L << 18;
@@ -91,6 +94,8 @@ public sealed record DiagnosisOptions
             ThermalN = Math.Clamp(ThermalN + grow, 6, 18),
             LanczosDepth = Math.Max(8, (int)Math.Round(LanczosDepth * root)),
             LanczosMaxStrings = Math.Max(1000, (long)(LanczosMaxStrings * effort)),
+            LanczosMemoryBytes = Math.Max(64L << 20, (long)(LanczosMemoryBytes * effort)),
+            LanczosSeconds = LanczosSeconds * effort,
             EvolutionMaxStrings = Math.Max(1000, (long)(EvolutionMaxStrings * effort)),
             EvolutionTime = EvolutionTime * root,
             ThermalSamples = Math.Max(1, (int)Math.Round(ThermalSamples * effort)),
