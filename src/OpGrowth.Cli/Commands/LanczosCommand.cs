@@ -63,6 +63,7 @@ internal static class LanczosCommand
         var window = new Option<int>("--reorth-window") { Description = "Vectors kept for partial re-orthogonalization.", DefaultValueFactory = _ => 8 };
         var threads = new Option<int>("--threads") { Description = "Worker threads.", DefaultValueFactory = _ => Environment.ProcessorCount };
         var sites = new Option<int?>("--sites") { Description = "Infinite-chain mode: chain length to use instead of the light-cone choice (still checked at run time)." };
+        var reflection = new Option<bool>("--use-reflection") { Description = "Infinite-chain mode: store one string per mirror pair (about half the memory and time); needs a mirror-symmetric model and probe." };
         var fitFrom = new Option<int?>("--fit-from") { Description = "First n of the growth-fit window (default: a third of the depth, at least 3)." };
         var fitTo = new Option<int?>("--fit-to") { Description = "Last n of the growth-fit window (default: the last trusted coefficient)." };
         var contClass = new Option<string?>("--continue-with") { Description = "Growth form used beyond the computed b_n: linear, n-over-log-n, sqrt or bounded (default: the best fit)." };
@@ -75,7 +76,7 @@ internal static class LanczosCommand
 
         var cmd = new Command("lanczos", "Lanczos coefficients b_n of an operator at infinite temperature (recursion method), their growth class and the bound lambda_L <= 2 alpha, and the autocorrelation C(t) and Krylov complexity K(t) they imply.")
         {
-            model, set, probe, mode, depth, maxStrings, memory, reorth, window, threads, sites,
+            model, set, probe, mode, depth, maxStrings, memory, reorth, window, threads, sites, reflection,
             fitFrom, fitTo, contClass, contFrom, sensitivity, tMax, points, outDir,
         };
         cmd.SetAction(pr => CliHost.Run(ct => Execute(new Settings
@@ -91,6 +92,7 @@ internal static class LanczosCommand
             ReorthWindow = pr.GetValue(window),
             Threads = pr.GetValue(threads),
             Sites = pr.GetValue(sites),
+            UseReflection = pr.GetValue(reflection),
             FitFrom = pr.GetValue(fitFrom),
             FitTo = pr.GetValue(fitTo),
             ContinueWith = pr.GetValue(contClass),
@@ -117,6 +119,7 @@ internal static class LanczosCommand
         public int ReorthWindow { get; init; }
         public int Threads { get; init; }
         public int? Sites { get; init; }
+        public bool UseReflection { get; init; }
         public int? FitFrom { get; init; }
         public int? FitTo { get; init; }
         public string? ContinueWith { get; init; }
@@ -209,7 +212,7 @@ internal static class LanczosCommand
             Logger = log,
             Cancellation = ct,
         };
-        var est = LanczosStudy.Run(m, probe, mode, options, s.MaxStrings, s.Sites);
+        var est = LanczosStudy.Run(m, probe, mode, options, s.MaxStrings, s.Sites, s.UseReflection);
         var analysisOptions = new KrylovAnalysisOptions
         {
             FitFrom = s.FitFrom,
@@ -347,7 +350,7 @@ internal static class LanczosCommand
             conventions = "L = [H, .], O_0 = O/||O||, A_n = i[H, O_{n-1}] + b_{n-1} O_{n-2}, b_n = ||A_n||, (A|B) = Tr(A^dagger B)/2^N, b_1^2 = mu_2",
             representation = r.Representation,
             sites = r.Sites,
-            options = new { depth = s.Depth, memoryBudgetBytes = s.Memory, budgets = est.Budgets, reorthogonalize = s.Reorthogonalize, reorthogonalizationWindow = s.ReorthWindow, threads = s.Threads },
+            options = new { useReflection = s.UseReflection, depth = s.Depth, memoryBudgetBytes = s.Memory, budgets = est.Budgets, reorthogonalize = s.Reorthogonalize, reorthogonalizationWindow = s.ReorthWindow, threads = s.Threads },
             stop = new { reason = r.StopReason.ToString(), message = r.StopMessage },
             exact = est.IsExact,
             verifiedDepth = r.VerifiedDepth,

@@ -33,9 +33,11 @@ public static class InfiniteChainLanczos
     /// <summary>
     /// Runs the recursion for the probe (dense letters from its first site, e.g. "Z" or "XZX") on an open
     /// chain. <paramref name="sites"/> overrides the chosen length (the probe is then centred); the run-time
-    /// check still decides which coefficients are infinite-chain values.
+    /// check still decides which coefficients are infinite-chain values. With <paramref name="useReflection"/>
+    /// one key is stored per mirror pair of strings (about half the memory and work); this needs a cell that
+    /// is its own mirror image and a palindromic probe.
     /// </summary>
-    public static LanczosResult Run(TranslationCell cell, string probeLetters, LanczosOptions options, int? sites = null)
+    public static LanczosResult Run(TranslationCell cell, string probeLetters, LanczosOptions options, int? sites = null, bool useReflection = false)
     {
         ArgumentNullException.ThrowIfNull(cell);
         ArgumentNullException.ThrowIfNull(options);
@@ -49,6 +51,11 @@ public static class InfiniteChainLanczos
             ArgumentOutOfRangeException.ThrowIfLessThan(s, probeLetters.Length + 2 * cell.Range, nameof(sites));
             n = s;
             offset = (s - probeLetters.Length) / 2;
+        }
+        if (useReflection)
+        {
+            string why = ReflectionProblem(cell, probeLetters, n);
+            if (why.Length > 0) throw new ArgumentException($"Reflection reduction is not possible: {why}.", nameof(useReflection));
         }
         if (n > PauliWidth.MaxQubits) throw new ArgumentOutOfRangeException(nameof(sites), n, $"The chain would need {n} sites; at most {PauliWidth.MaxQubits} are supported (lower the depth).");
         var h = cell.OpenChain(n);
@@ -71,7 +78,8 @@ public static class InfiniteChainLanczos
             }
         }
         var result = PauliWidth.Dispatch<LanczosResult, ChainRun>(n, new ChainRun(h, probe, options, Check,
-            $"infinite chain (open chain of {n} sites, probe at site {offset}; light-cone length, generic bound {layout.GenericSites})"));
+            $"infinite chain (open chain of {n} sites, probe at site {offset}; light-cone length, generic bound {layout.GenericSites}{(useReflection ? "; one key per mirror pair" : "")})",
+            useReflection));
         return result with
         {
             VerifiedDepth = verified < 0 ? result.B.Count : Math.Min(verified, result.B.Count),
@@ -79,12 +87,31 @@ public static class InfiniteChainLanczos
         };
     }
 
-    private readonly struct ChainRun(Hamiltonian h, PauliString probe, LanczosOptions options, Action<LanczosStep> check, string representation) : IWidthFunc<LanczosResult>
+    /// <summary>Empty when reflection reduction applies; otherwise why not.</summary>
+    public static string ReflectionProblem(TranslationCell cell, string probeLetters, int sites)
+    {
+        ArgumentNullException.ThrowIfNull(cell);
+        string rev = new(probeLetters.Reverse().ToArray());
+        if (rev != probeLetters) return $"the probe {probeLetters} is not its own mirror image";
+        var terms = cell.Terms.Select(t => (t.Letters, t.Coefficient)).ToHashSet();
+        if (!cell.Reflected().Terms.All(t => terms.Contains((t.Letters, t.Coefficient)))) return $"the Hamiltonian cell ({cell}) is not its own mirror image";
+        if ((sites - probeLetters.Length) % 2 != 0) return $"the probe cannot sit at the centre of {sites} sites";
+        return "";
+    }
+
+    private readonly struct ChainRun(Hamiltonian h, PauliString probe, LanczosOptions options, Action<LanczosStep> check, string representation, bool reflect) : IWidthFunc<LanczosResult>
     {
         public LanczosResult Invoke<T>() where T : unmanaged, IPauliKey<T>
         {
             var c = check;
-            return LanczosEngine.Run(new PlainBasis<T>(h.Compile<T>()), PauliOperator<T>.Single(probe), options, representation, h.N,
+            var hc = h.Compile<T>();
+            if (reflect)
+            {
+                var basis = new ReflectionBasis<T>(hc);
+                var o0 = new PauliOperator<T>(h.N, [basis.Canonical(T.From(probe), out _)], [1.0], 1);
+                return LanczosEngine.Run(basis, o0, options, representation, h.N, (step, _) => c(step));
+            }
+            return LanczosEngine.Run(new PlainBasis<T>(hc), PauliOperator<T>.Single(probe), options, representation, h.N,
                 (step, _) => c(step));
         }
     }

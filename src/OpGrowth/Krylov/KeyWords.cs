@@ -86,6 +86,13 @@ internal static class KeyWords<T> where T : unmanaged, IPauliKey<T>
     {
         // Reverse all Capacity bits (j -> Capacity-1-j), then shift so that j -> m - j.
         int cap = T.Capacity;
+        if (typeof(T) == typeof(Pauli64))
+        {
+            var p = Unsafe.As<T, Pauli64>(ref Unsafe.AsRef(in key));
+            int d64 = 63 - m; // m <= 63 for a site of a 64-site key
+            var r = new Pauli64(ReverseBits(p.X) >> d64, ReverseBits(p.Z) >> d64);
+            return Unsafe.As<Pauli64, T>(ref r);
+        }
         Span<ulong> xz = stackalloc ulong[2 * Words];
         key.CopyWords(xz[..Words], xz[Words..]);
         ReverseWords(xz[..Words]);

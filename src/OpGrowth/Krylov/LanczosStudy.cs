@@ -25,15 +25,18 @@ public static class LanczosStudy
 
     /// <summary>
     /// Runs the recursion. <paramref name="budgets"/> are string budgets per Krylov vector (ignored in exact
-    /// mode); <paramref name="sites"/> overrides the infinite-chain length.
+    /// mode); <paramref name="sites"/> overrides the infinite-chain length; <paramref name="useReflection"/>
+    /// stores one key per mirror pair in infinite-chain mode (mirror-symmetric cell and probe only).
     /// </summary>
-    public static LanczosEstimate Run(Model model, PauliString probe, LanczosMode mode, LanczosOptions options, IReadOnlyList<long> budgets, int? sites = null)
+    public static LanczosEstimate Run(Model model, PauliString probe, LanczosMode mode, LanczosOptions options, IReadOnlyList<long> budgets, int? sites = null, bool useReflection = false)
     {
         ArgumentNullException.ThrowIfNull(model);
         ArgumentNullException.ThrowIfNull(probe);
         ArgumentNullException.ThrowIfNull(options);
         if (probe.N != model.N) throw new InputException(model.SourceFile, 0, $"found a probe on {probe.N} qubits; expected {model.N}");
         if (probe.IsIdentity) throw new InputException(model.SourceFile, 0, "found the identity as probe; expected a non-identity Pauli string");
+        if (useReflection && mode != LanczosMode.InfiniteChain)
+            throw new InputException(model.SourceFile, 0, "found the reflection reduction outside infinite-chain mode; expected --mode infinite-chain");
         var use = EffectiveBudgets(mode, budgets);
         if (use.Count > 1 || use[0] > 0) options.Logger?.LogInformation("string budgets per Krylov vector: {Budgets}", string.Join(", ", use));
         Func<long, LanczosResult> run;
@@ -50,7 +53,13 @@ public static class LanczosStudy
                 var (_, letters) = TranslationCell.LocalPattern(probe, periodic);
                 if (mode == LanczosMode.InfiniteChain)
                 {
-                    run = m => InfiniteChainLanczos.Run(cell, letters, options with { MaxStrings = m }, sites);
+                    if (useReflection)
+                    {
+                        int n = sites ?? InfiniteChainLanczos.Layout(cell, letters, options.Depth).Sites;
+                        string why = InfiniteChainLanczos.ReflectionProblem(cell, letters, n);
+                        if (why.Length > 0) throw new InputException(model.SourceFile, 0, $"found {why}; expected a mirror-symmetric model and probe for the reflection reduction");
+                    }
+                    run = m => InfiniteChainLanczos.Run(cell, letters, options with { MaxStrings = m }, sites, useReflection);
                 }
                 else if (periodic)
                 {

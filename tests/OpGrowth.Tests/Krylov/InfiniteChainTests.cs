@@ -64,3 +64,34 @@ public class InfiniteChainTests
         for (int n = 0; n < 4; n++) Assert.Equal(ok.B[n], r.B[n], 12);
     }
 }
+
+/// <summary>Reflection-reduced storage against plain storage (same chain, same b_n).</summary>
+public class ReflectionReductionTests
+{
+    [Theory]
+    [InlineData("mfim", "Z", 18)]
+    [InlineData("tfim", "XZX", 12)]
+    [InlineData("xx", "ZZ", 14)]
+    public void Run_WithReflection_MatchesPlainAndHalvesStrings(string model, string probe, int depth)
+    {
+        var cell = model switch
+        {
+            "mfim" => KrylovTestModels.MixedIsing(1, 1.05, 0.5),
+            "tfim" => KrylovTestModels.Tfim(1, 0.6),
+            _ => KrylovTestModels.XX(0.5),
+        };
+        var plain = InfiniteChainLanczos.Run(cell, probe, KrylovTestModels.Options(depth));
+        var mirrored = InfiniteChainLanczos.Run(cell, probe, KrylovTestModels.Options(depth), useReflection: true);
+        Assert.Equal(plain.Sites, mirrored.Sites);
+        Assert.Equal(depth, mirrored.VerifiedDepth);
+        // Different storage, same mathematics: rounding only.
+        for (int n = 0; n < depth; n++) Assert.True(Math.Abs(plain.B[n] - mirrored.B[n]) <= KrylovTestModels.RoundingTolerance * plain.B[n], $"b_{n + 1}: {plain.B[n]} vs {mirrored.B[n]}");
+        // A pair of mirror images is stored once: between half and (half + symmetric strings).
+        long p = plain.Steps[^1].Strings, m = mirrored.Steps[^1].Strings;
+        Assert.InRange(m, p / 2, p / 2 + p / 10 + 2);
+    }
+
+    [Fact]
+    public void Run_WithReflectionAndAsymmetricProbe_Throws()
+        => Assert.Throws<ArgumentException>(() => InfiniteChainLanczos.Run(KrylovTestModels.MixedIsing(1, 1.05, 0.5), "ZX", KrylovTestModels.Options(4), useReflection: true));
+}

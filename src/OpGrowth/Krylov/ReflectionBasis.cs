@@ -1,0 +1,84 @@
+using OpGrowth.Pauli;
+
+namespace OpGrowth.Krylov;
+
+/// <summary>
+/// Reflection-reduced representation on an open chain of L sites whose Hamiltonian is symmetric under
+/// R: j -> L-1-j, for an operator that is itself symmetric (a palindromic probe at the centre: every
+/// Krylov vector then is). One key per pair {S, R(S)}: the representative is the smaller of the two (by
+/// words); its coefficient c stands for c (S + R(S)), or c S when S = R(S), so (A|B) = sum w a b with
+/// w = 2 or 1. With i[H, S] = sum_P v_P P, the image of the class of S adds v_P f to the class of P with
+/// f = (P symmetric ? 2 : 1) (S symmetric ? 1/2 : 1): a symmetric S meets each asymmetric pair twice
+/// (as P and R(P)), an asymmetric class meets a symmetric P as P + R(P) = 2P. About halves memory and work.
+/// </summary>
+internal readonly struct ReflectionBasis<T> : IKrylovBasis<T> where T : unmanaged, IPauliKey<T>
+{
+    private readonly CompiledHamiltonian<T> _h;
+    private readonly int _mirror;
+
+    public ReflectionBasis(CompiledHamiltonian<T> h)
+    {
+        _h = h;
+        _mirror = h.N - 1;
+    }
+
+    public bool IsWeighted => true;
+
+    public double Weight(in T key) => KeyWords<T>.Reflect(key, _mirror).Equals(key) ? 1 : 2;
+
+    /// <summary>The representative of a key's pair and whether the key is symmetric.</summary>
+    public T Canonical(in T key, out bool symmetric)
+    {
+        T r = KeyWords<T>.Reflect(key, _mirror);
+        symmetric = r.Equals(key);
+        return Less(r, key) ? r : key;
+    }
+
+    public void Apply(in T key, double coefficient, EmitBuffer<T> sink)
+    {
+        bool sSym = KeyWords<T>.Reflect(key, _mirror).Equals(key);
+        double scale = sSym ? 0.5 : 1.0;
+        var sites = sink.Sites;
+        int m = T.SupportSites(key, sites);
+        var hk = _h.Keys;
+        var hc = _h.Coefficients;
+        var start = _h.SiteStart;
+        var rows = _h.SiteTerms;
+        double c2 = 2.0 * coefficient * scale;
+        for (int a = 0; a < m; a++)
+        {
+            int j = sites[a];
+            for (int q = start[j], end = start[j + 1]; q < end; q++)
+            {
+                int t = rows[q];
+                ref readonly T term = ref hk[t];
+                if (!T.Anticommute(term, key)) continue;
+                if (a > 0 && T.OverlapBelow(term, key, j)) continue;
+                T p = T.Multiply(term, key, out int k);
+                T cp = Canonical(p, out bool pSym);
+                double v = k == 1 ? -c2 * hc[t] : c2 * hc[t];
+                sink.Emit(cp, pSym ? 2 * v : v);
+            }
+        }
+    }
+
+    private static bool Less(in T a, in T b)
+    {
+        if (typeof(T) == typeof(Pauli64))
+        {
+            var pa = System.Runtime.CompilerServices.Unsafe.As<T, Pauli64>(ref System.Runtime.CompilerServices.Unsafe.AsRef(in a));
+            var pb = System.Runtime.CompilerServices.Unsafe.As<T, Pauli64>(ref System.Runtime.CompilerServices.Unsafe.AsRef(in b));
+            return pa.Z != pb.Z ? pa.Z < pb.Z : pa.X < pb.X;
+        }
+        int w = KeyWords<T>.Words;
+        Span<ulong> wa = stackalloc ulong[2 * w];
+        Span<ulong> wb = stackalloc ulong[2 * w];
+        a.CopyWords(wa[..w], wa[w..]);
+        b.CopyWords(wb[..w], wb[w..]);
+        for (int i = 2 * w - 1; i >= 0; i--)
+        {
+            if (wa[i] != wb[i]) return wa[i] < wb[i];
+        }
+        return false;
+    }
+}
