@@ -11,5 +11,6 @@ internal static class CommandRegistry
         yield return CheckCommand.Create();
         yield return ExactCommand.Create();
         yield return LanczosCommand.Create();
+        yield return EvolveCommand.Create();
     }
 }
