@@ -35,13 +35,16 @@ public sealed record DiagnosisOptions
     public double LanczosSeconds { get; init; } = 60;
 
     /// <summary>String budget of the Heisenberg evolution (tests 3 and 4).</summary>
-    public long EvolutionMaxStrings { get; init; } = 1L << 18;
+    public long EvolutionMaxStrings { get; init; } = 1L << 16;
 
     /// <summary>Final time of the Heisenberg evolution, in units of 1/epsilon.</summary>
     public double EvolutionTime { get; init; } = 24;
 
     /// <summary>Time step of the Heisenberg evolution, in units of 1/epsilon (second-order Trotter).</summary>
-    public double EvolutionStep { get; init; } = 0.05;
+    public double EvolutionStep { get; init; } = 0.1;
+
+    /// <summary>Wall-time limit of the main probe's evolution in seconds (the other probes get a quarter); the records finished by then are used.</summary>
+    public double EvolutionSeconds { get; init; } = 150;
 
     /// <summary>Size of the smaller member used at finite temperature (test 6).</summary>
     public int ThermalN { get; init; } = 12;
@@ -98,6 +101,7 @@ public sealed record DiagnosisOptions
             LanczosSeconds = LanczosSeconds * effort,
             EvolutionMaxStrings = Math.Max(1000, (long)(EvolutionMaxStrings * effort)),
             EvolutionTime = EvolutionTime * root,
+            EvolutionSeconds = EvolutionSeconds * effort,
             ThermalSamples = Math.Max(1, (int)Math.Round(ThermalSamples * effort)),
         };
     }
