@@ -12,5 +12,6 @@ internal static class CommandRegistry
         yield return ExactCommand.Create();
         yield return LanczosCommand.Create();
         yield return EvolveCommand.Create();
+        yield return DiagnoseCommand.Create();
     }
 }

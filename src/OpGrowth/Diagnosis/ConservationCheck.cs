@@ -44,8 +44,8 @@ public static class ConservationCheck
         foreach (var p in full.Probes)
         {
             var probe = new[] { new PauliTerm(p, 1.0) };
-            var shares = used.Select(u => (u.Label, ConservedQuantitySearch.MazurBound([u.Q], probe))).ToArray();
-            mazur.Add(new MazurEntry(p.ToString(), shares.Sum(s => s.Item2), shares));
+            var shares = used.Select(u => new MazurShare(u.Label, ConservedQuantitySearch.MazurBound([u.Q], probe))).ToArray();
+            mazur.Add(new MazurEntry(p.ToString(), shares.Sum(s => s.Share), shares));
         }
         var findings = new ConservedFindings
         {

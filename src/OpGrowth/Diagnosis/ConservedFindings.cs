@@ -4,7 +4,12 @@ namespace OpGrowth.Diagnosis;
 /// <param name="Probe">The probe (Pauli string).</param>
 /// <param name="Bound">lim avg (A(t)|A)/(A|A) &gt;= Bound.</param>
 /// <param name="Contributions">Per conserved operator: its label and its share of the bound.</param>
-public sealed record MazurEntry(string Probe, double Bound, IReadOnlyList<(string Label, double Share)> Contributions);
+public sealed record MazurEntry(string Probe, double Bound, IReadOnlyList<MazurShare> Contributions);
+
+/// <summary>One conserved operator's share of a Mazur bound.</summary>
+/// <param name="Label">"H", "total Z", ...</param>
+/// <param name="Share">(Q|A)^2 / ((Q|Q)(A|A)).</param>
+public sealed record MazurShare(string Label, double Share);
 
 /// <summary>What test 5 (conserved quantities) measured.</summary>
 public sealed record ConservedFindings

@@ -33,8 +33,11 @@ public sealed record LanczosProbeFindings
     /// <summary>Standard error of alpha.</summary>
     public double AlphaError { get; init; }
 
-    /// <summary>Fit window (first and last n).</summary>
-    public (int Start, int End) Window { get; init; }
+    /// <summary>First n of the fit window.</summary>
+    public int WindowStart { get; init; }
+
+    /// <summary>Last n of the fit window.</summary>
+    public int WindowEnd { get; init; }
 
     /// <summary>Why the recursion stopped.</summary>
     public string StopMessage { get; init; } = string.Empty;

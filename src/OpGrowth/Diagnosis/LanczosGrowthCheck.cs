@@ -110,7 +110,8 @@ public static class LanczosGrowthCheck
             DeltaAic = delta,
             Alpha = alpha,
             AlphaError = alphaErr,
-            Window = window,
+            WindowStart = window.Item1,
+            WindowEnd = window.Item2,
             StopMessage = stop,
             DiscardedWeight = est.Reference.TotalDiscardedWeight,
             Seconds = sw.Elapsed.TotalSeconds,
@@ -156,7 +157,7 @@ public static class LanczosGrowthCheck
         ArgumentNullException.ThrowIfNull(f);
         var inv = System.Globalization.CultureInfo.InvariantCulture;
         string figure = string.Join("; ", f.Probes.Select(p => string.Create(inv,
-            $"{p.Probe}: {p.Kind}{(p.BestFormula is null ? string.Empty : $" ({p.BestFormula}, n = {p.Window.Start}..{p.Window.End}, dAIC {p.DeltaAic:0.0})")}")));
+            $"{p.Probe}: {p.Kind}{(p.BestFormula is null ? string.Empty : $" ({p.BestFormula}, n = {p.WindowStart}..{p.WindowEnd}, dAIC {p.DeltaAic:0.0})")}")));
         string threshold = string.Create(inv,
             $"best class by AIC, decided when the best fit of another kind trails by >= {DiagnosisThresholds.LanczosDeltaAic}; bounded when the slope alpha is below 3 standard errors");
         const string source = "Parker, Cao, Avdoshkin, Scaffidi, Altman, PRX 9, 041017 (2019); AIC margin and 3 sigma: common practice";
