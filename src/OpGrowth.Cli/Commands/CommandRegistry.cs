@@ -15,9 +15,6 @@ internal static class CommandRegistry
         yield return SweepCommand.Create();
         yield return CollectCommand.Create();
         yield return RunCommand.Create();
-        yield return ExactCommand.Create();
-        yield return LanczosCommand.Create();
-        yield return EvolveCommand.Create();
         yield return DiagnoseCommand.Create();
     }
 }
