@@ -30,23 +30,9 @@ public static class ConservationCheck
         int k = options.MaxWeight;
         log?.LogInformation("conserved quantities: strings of weight <= {K} on a cluster of {N} sites", k, cluster.N);
         var search = ConservedQuantitySearch.Run(cluster.Hamiltonian, new ConservedSearchOptions(MaxWeight: k));
-        // Full size: H itself and every recognised total that still commutes with the full H.
-        var used = new List<(string Label, IReadOnlyList<PauliTerm> Q)>();
-        foreach (char a in "XYZ")
-        {
-            var q = OperatorAlgebra.Total(full.N, a);
-            if (search.Recognised.Contains($"total {a}") && OperatorAlgebra.Commutes(full.Hamiltonian, q)) used.Add(($"total {a}", q));
-        }
-        var h = OperatorAlgebra.Traceless(full.Hamiltonian);
-        var hOrth = Orthogonalise(h, used.Select(u => u.Q));
-        if (hOrth.Count > 0) used.Insert(0, ("H", hOrth));
-        var mazur = new List<MazurEntry>();
-        foreach (var p in full.Probes)
-        {
-            var probe = new[] { new PauliTerm(p, 1.0) };
-            var shares = used.Select(u => new MazurShare(u.Label, ConservedQuantitySearch.MazurBound([u.Q], probe))).ToArray();
-            mazur.Add(new MazurEntry(p.ToString(), shares.Sum(s => s.Share), shares));
-        }
+        // Full size: H itself and every total that commutes with the full H.
+        var used = KnownConserved(full);
+        var mazur = full.Probes.Select(p => MazurOf(used, p)).ToList();
         var findings = new ConservedFindings
         {
             ClusterN = cluster.N,
@@ -65,6 +51,35 @@ public static class ConservationCheck
         log?.LogInformation("conserved quantities: {Dim} found ({Rec}; {Unexp} unexplained); largest Mazur bound {B:F4} ({S:F1} s)",
             search.NullDimension, string.Join(", ", search.Recognised), search.Unexplained, findings.LargestBound, sw.Elapsed.TotalSeconds);
         return (verdict, findings);
+    }
+
+    /// <summary>
+    /// The conserved operators known without a search: total X, Y, Z when they commute with H, and H itself
+    /// (traceless, orthogonalised against those totals so the Mazur bound may add their shares).
+    /// </summary>
+    public static IReadOnlyList<(string Label, IReadOnlyList<PauliTerm> Q)> KnownConserved(Model model)
+    {
+        ArgumentNullException.ThrowIfNull(model);
+        var used = new List<(string Label, IReadOnlyList<PauliTerm> Q)>();
+        if (model.IsDriven) return used;
+        foreach (char a in "XYZ")
+        {
+            var q = OperatorAlgebra.Total(model.N, a);
+            if (OperatorAlgebra.Commutes(model.Hamiltonian, q)) used.Add(($"total {a}", q));
+        }
+        var hOrth = Orthogonalise(OperatorAlgebra.Traceless(model.Hamiltonian), used.Select(u => u.Q));
+        if (hOrth.Count > 0) used.Insert(0, ("H", hOrth));
+        return used;
+    }
+
+    /// <summary>Mazur bound of one probe from mutually orthogonal conserved operators, with each share.</summary>
+    public static MazurEntry MazurOf(IReadOnlyList<(string Label, IReadOnlyList<PauliTerm> Q)> conserved, PauliString probe)
+    {
+        ArgumentNullException.ThrowIfNull(conserved);
+        ArgumentNullException.ThrowIfNull(probe);
+        var a = new[] { new PauliTerm(probe, 1.0) };
+        var shares = conserved.Select(u => new MazurShare(u.Label, ConservedQuantitySearch.MazurBound([u.Q], a))).ToArray();
+        return new MazurEntry(probe.ToString(), shares.Sum(x => x.Share), shares);
     }
 
     /// <summary>Q minus its projections on the (mutually orthogonal) operators <paramref name="others"/>.</summary>

@@ -96,7 +96,13 @@ public static class DiagnosisBattery
             log?.LogInformation("tests 3-4/6: operator size and front");
             try
             {
-                var (vs, vf, f) = SpreadingCheck.Run(model, p => conserved?.BoundOf(p) ?? 0, options, ct);
+                var smallSize = Small(options.SizeN);
+                var fullConserved = ConservationCheck.KnownConserved(model);
+                var smallConserved = smallSize is null ? [] : ConservationCheck.KnownConserved(smallSize);
+                double Bound(IReadOnlyList<(string Label, IReadOnlyList<Pauli.PauliTerm> Q)> cq, Model m, string p)
+                    => ConservationCheck.MazurOf(cq, Pauli.PauliString.Parse(p, m.N)).Bound;
+                var (vs, vf, f) = SpreadingCheck.Run(model, smallSize,
+                    p => Bound(fullConserved, model, p), p => Bound(smallConserved, smallSize!, p), options, ct);
                 tests.Add(Skip(3) ? TestVerdict.NotRun(3, SpreadingCheck.SizeName, "skipped") : vs);
                 tests.Add(Skip(4) ? TestVerdict.NotRun(4, SpreadingCheck.FrontName, "skipped") : vf);
                 spreading = f;
@@ -128,7 +134,7 @@ public static class DiagnosisBattery
         tests.Sort((a, b) => a.Number.CompareTo(b.Number));
         var overall = VerdictRules.Decide(tests, spreading);
         if (model.IsDisordered) caveats.Add("random couplings: one disorder realisation per size, and the smaller members draw their own couplings");
-        caveats.Add($"tests 1, 5 and 6 use smaller members of the family (N = {options.LevelN}, {options.ClusterN}, {options.ThermalN}); finite-size effects are strong there");
+        caveats.Add($"tests 1, 5 and 6 and the operator-size saturation of test 3 use smaller members of the family (N = {options.LevelN}, {options.ClusterN}, {options.ThermalN}, {options.SizeN}); finite-size effects are strong there");
         if (spreading is not null && spreading.Runs.Any(r => r.Discarded[^1] > 0)) caveats.Add("tests 3 and 4 keep the top strings of the evolving operator; the discarded weight is reported per probe");
         if (lanczos is not null && lanczos.Probes.Any(p => p.DiscardedWeight > 0)) caveats.Add("test 2 truncated the Krylov vectors; coefficients whose budget spread exceeds 10% were not used");
         if (model.Lattice.Kind == "all-to-all") caveats.Add("all-to-all model: there is no front; fast-scrambling signatures (exponential size growth, t* ~ ln N) need several N to confirm");
@@ -143,7 +149,7 @@ public static class DiagnosisBattery
             Tests = tests,
             Overall = overall,
             Caveats = caveats,
-            Settings = new DiagnosisSettings(options.LevelN, options.ClusterN, options.MaxWeight, options.ThermalN, options.BetaEpsilon,
+            Settings = new DiagnosisSettings(options.LevelN, options.ClusterN, options.MaxWeight, options.SizeN, options.ThermalN, options.BetaEpsilon,
                 options.LanczosDepth, options.LanczosMaxStrings, options.EvolutionMaxStrings, options.EvolutionTime, options.EffectiveThreads),
             Seconds = sw.Elapsed.TotalSeconds,
             Levels = levels,

@@ -46,6 +46,12 @@ public sealed record DiagnosisOptions
     /// <summary>Wall-time limit of the main probe's evolution in seconds (the other probes get a quarter); the records finished by then are used.</summary>
     public double EvolutionSeconds { get; init; } = 150;
 
+    /// <summary>Size of the smaller member whose operator size is computed exactly (test 3).</summary>
+    public int SizeN { get; init; } = 12;
+
+    /// <summary>Time points of the exact operator-size series.</summary>
+    public int SizeTimePoints { get; init; } = 25;
+
     /// <summary>Size of the smaller member used at finite temperature (test 6).</summary>
     public int ThermalN { get; init; } = 12;
 
@@ -94,6 +100,7 @@ public sealed record DiagnosisOptions
         {
             LevelN = Math.Clamp(LevelN + grow, 6, 16),
             ClusterN = Math.Clamp(ClusterN + grow, 6, 14),
+            SizeN = Math.Clamp(SizeN + grow, 6, 16),
             ThermalN = Math.Clamp(ThermalN + grow, 6, 18),
             LanczosDepth = Math.Max(8, (int)Math.Round(LanczosDepth * root)),
             LanczosMaxStrings = Math.Max(1000, (long)(LanczosMaxStrings * effort)),
@@ -111,6 +118,7 @@ public sealed record DiagnosisOptions
     {
         LevelN = 10,
         ClusterN = 8,
+        SizeN = 8,
         LanczosDepth = 16,
         LanczosMaxStrings = 20_000,
         EvolutionMaxStrings = 20_000,

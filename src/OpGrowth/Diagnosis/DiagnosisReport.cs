@@ -74,7 +74,7 @@ public sealed record DiagnosisReport
         var inv = CultureInfo.InvariantCulture;
         var sb = new StringBuilder();
         sb.Append(inv, $"diagnosis of {Model}: N = {N} ({Lattice}), probes {string.Join(", ", Probes)}, epsilon = {Epsilon:0.###} (time unit 1/epsilon), {Seconds:0} s").AppendLine();
-        sb.Append(inv, $"small members: level statistics N = {Settings.LevelN}, conserved quantities N = {Settings.ClusterN}, finite temperature N = {Settings.ThermalN}").AppendLine();
+        sb.Append(inv, $"small members: level statistics N = {Settings.LevelN}, conserved quantities N = {Settings.ClusterN}, operator size N = {Settings.SizeN}, finite temperature N = {Settings.ThermalN}").AppendLine();
         sb.AppendLine();
         int wNum = 2, wName = 20, wVerdict = 12;
         int rest = Math.Max(40, width - wNum - wName - wVerdict - 8);
@@ -127,6 +127,7 @@ public sealed record DiagnosisReport
 /// <param name="LevelN">Small size for level statistics.</param>
 /// <param name="ClusterN">Cluster size of the conserved-quantity search.</param>
 /// <param name="MaxWeight">Largest string weight of that search.</param>
+/// <param name="SizeN">Small size of the exact operator-size run.</param>
 /// <param name="ThermalN">Small size at finite temperature.</param>
 /// <param name="BetaEpsilon">Temperatures as beta epsilon.</param>
 /// <param name="LanczosDepth">Lanczos depth requested.</param>
@@ -134,5 +135,5 @@ public sealed record DiagnosisReport
 /// <param name="EvolutionMaxStrings">Evolution string budget of the main probe.</param>
 /// <param name="EvolutionTime">Evolution time in units of 1/epsilon.</param>
 /// <param name="Threads">Threads.</param>
-public sealed record DiagnosisSettings(int LevelN, int ClusterN, int MaxWeight, int ThermalN, IReadOnlyList<double> BetaEpsilon,
+public sealed record DiagnosisSettings(int LevelN, int ClusterN, int MaxWeight, int SizeN, int ThermalN, IReadOnlyList<double> BetaEpsilon,
     int LanczosDepth, long LanczosMaxStrings, long EvolutionMaxStrings, double EvolutionTime, int Threads);

@@ -24,36 +24,86 @@ public static class SpreadingCheck
     /// <summary>Name of test 4.</summary>
     public const string FrontName = "front";
 
-    /// <summary>Probes evolved: the model's first probe (main, full budget) and, for a one-site probe, X and Z on its site (a quarter of the budget).</summary>
-    public static IReadOnlyList<PauliString> ProbesOf(Model model) => LanczosGrowthCheck.ProbesOf(model);
-
-    /// <summary>Runs the evolutions and both tests. <paramref name="mazur"/> gives the Mazur bound of a probe (0 when unknown).</summary>
-    public static (TestVerdict Size, TestVerdict Front, SpreadingFindings? Findings) Run(Model model, Func<string, double> mazur, DiagnosisOptions options, CancellationToken ct = default)
+    /// <summary>
+    /// Runs the full-size Pauli evolution of the main probe (front and autocorrelation) and exact evolutions
+    /// of the probes at the smaller size <paramref name="small"/> (unbiased operator size and autocorrelation),
+    /// then both tests. <paramref name="mazurFull"/> and <paramref name="mazurSmall"/> give the Mazur bound
+    /// of a probe at each size.
+    /// </summary>
+    public static (TestVerdict Size, TestVerdict Front, SpreadingFindings? Findings) Run(Model model, Model? small, Func<string, double> mazurFull, Func<string, double> mazurSmall, DiagnosisOptions options, CancellationToken ct = default)
     {
         ArgumentNullException.ThrowIfNull(model);
-        ArgumentNullException.ThrowIfNull(mazur);
+        ArgumentNullException.ThrowIfNull(mazurFull);
+        ArgumentNullException.ThrowIfNull(mazurSmall);
         ArgumentNullException.ThrowIfNull(options);
         var sw = Stopwatch.StartNew();
         var log = options.Logger;
-        var runs = new List<ProbeEvolution>();
-        var probes = ProbesOf(model);
-        for (int i = 0; i < probes.Count; i++)
+        var sizes = new List<SizeFigures>();
+        if (small is not null && small.N <= Exact.PauliMask.MaxQubits)
         {
-            ct.ThrowIfCancellationRequested();
-            long budget = i == 0 ? options.EvolutionMaxStrings : Math.Max(1000, options.EvolutionMaxStrings / 4);
-            double seconds = i == 0 ? options.EvolutionSeconds : options.EvolutionSeconds / 4;
-            var run = Evolve(model, probes[i], budget, seconds, options, ct);
-            runs.Add(run);
-            log?.LogInformation("operator size: {Probe} evolved to t = {T:0.##} ({Steps} records, peak {Peak} strings, discarded {D:G3}, {S:F1} s{Stop})",
-                run.Probe, run.Times[^1], run.Times.Length, run.PeakStrings, run.Discarded[^1], run.Seconds, run.Completed ? string.Empty : $", stopped: {run.StopReason}");
+            foreach (var p in LanczosGrowthCheck.ProbesOf(small))
+            {
+                ct.ThrowIfCancellationRequested();
+                var f = ExactSize(small, p, mazurSmall(p.ToString()), options, ct);
+                sizes.Add(f);
+                log?.LogInformation("operator size: {Probe} at N = {N} (exact): size {S:0.00} = {F:0.00} x 3N/4, autocorrelation {A:0.000} (Mazur {M:0.000})",
+                    f.Probe, f.N, f.LateSize, f.Fraction, f.LateAutocorrelation, f.Mazur);
+            }
         }
-        var sizes = runs.Select(r => SizeOf(model, r, mazur(r.Probe))).ToArray();
-        var front = FrontOf(model, runs[0], options);
-        var findings = new SpreadingFindings(runs, sizes, front);
-        double secs = sw.Elapsed.TotalSeconds;
-        var sizeVerdict = JudgeSize(sizes) with { Seconds = secs };
-        var frontVerdict = JudgeFront(front, model) with { Seconds = 0 };
+        var main = model.Probes[0];
+        var run = Evolve(model, main, options.EvolutionMaxStrings, options.EvolutionSeconds, options, ct);
+        log?.LogInformation("operator size: {Probe} at N = {N} evolved to t = {T:0.##} ({Recs} records, peak {Peak} strings, discarded {D:G3}, {S:F1} s{Stop})",
+            run.Probe, model.N, run.Times[^1], run.Times.Length, run.PeakStrings, run.Discarded[^1], run.Seconds, run.Completed ? string.Empty : $", stopped: {run.StopReason}");
+        var full = SizeOf(model, run, mazurFull(run.Probe));
+        sizes.Add(full);
+        var front = FrontOf(model, run, options);
+        var findings = new SpreadingFindings([run], sizes, front);
+        var sizeVerdict = JudgeSize(sizes) with { Seconds = sw.Elapsed.TotalSeconds };
+        var frontVerdict = JudgeFront(front, model);
         return (sizeVerdict, frontVerdict, findings);
+    }
+
+    /// <summary>
+    /// Exact mean size and autocorrelation of <paramref name="probe"/> on the (small) model, by quantum
+    /// typicality: n(t) = (3/4) sum_x (1 - Fbar_x(t)) (the OTOC-size identity of conventions.md).
+    /// </summary>
+    public static SizeFigures ExactSize(Model model, PauliString probe, double mazur, DiagnosisOptions o, CancellationToken ct)
+    {
+        ArgumentNullException.ThrowIfNull(model);
+        ArgumentNullException.ThrowIfNull(probe);
+        ArgumentNullException.ThrowIfNull(o);
+        double eps = OperatorAlgebra.EnergyScale(model.Hamiltonian);
+        bool driven = model.Drive is not null;
+        int points = Math.Max(8, o.SizeTimePoints);
+        double tMax = driven ? Math.Ceiling(o.EvolutionTime) : o.EvolutionTime / eps;
+        var times = Enumerable.Range(0, points).Select(i => driven ? Math.Round(tMax * i / (points - 1)) : tMax * i / (points - 1)).Distinct().ToArray();
+        var opt = new Exact.ExactOtocOptions
+        {
+            Operator = probe,
+            Times = times,
+            Sites = null,
+            Method = model.N <= 8 ? Exact.OtocMethod.Dense : Exact.OtocMethod.Typicality,
+            Samples = 1,
+            Seed = o.Seed,
+            Threads = o.EffectiveThreads,
+        };
+        var res = driven ? Exact.ExactOtoc.Run(model.Drive!, model.N, opt, ct) : Exact.ExactOtoc.Run(model.Hamiltonian, opt, ct);
+        var run = new ProbeEvolution
+        {
+            Probe = probe.ToString(),
+            ProbeSite = probe.Support().FirstOrDefault(),
+            Times = times.Select(t => driven ? t * model.Drive!.Period : t).ToArray(),
+            MeanSize = res.MeanSize!.Values,
+            Autocorrelation = res.Autocorrelation.Values,
+            SiteWeights = res.Sites.Count == model.N ? Enumerable.Range(0, times.Length).Select(k => res.Sites.OrderBy(s => s.Site).Select(s => s.Weight.Values[k]).ToArray()).ToArray() : [],
+            Discarded = new double[times.Length],
+            MaxStrings = 0,
+            Completed = true,
+            Seconds = res.Cost.WallSeconds,
+        };
+        // Qubit size from the exact engine also for Majorana models: a random operator has 3N/4 in either reading.
+        var f = SizeOf(model, run, mazur, qubitSize: true);
+        return f with { Engine = $"exact ({res.Method}), N = {model.N}", SizeTrusted = true };
     }
 
     /// <summary>One evolution of <paramref name="probe"/> to the battery's final time (or the time limit).</summary>
@@ -115,11 +165,11 @@ public static class SpreadingCheck
     }
 
     /// <summary>Size and autocorrelation figures of one run.</summary>
-    public static SizeFigures SizeOf(Model model, ProbeEvolution run, double mazur)
+    public static SizeFigures SizeOf(Model model, ProbeEvolution run, double mazur, bool qubitSize = false)
     {
         ArgumentNullException.ThrowIfNull(model);
         ArgumentNullException.ThrowIfNull(run);
-        bool maj = model.SizeMeasure == SizeMeasure.Majoranas;
+        bool maj = model.SizeMeasure == SizeMeasure.Majoranas && !qubitSize;
         int n = model.N;
         // Random-operator values (conventions.md): 3N/4 qubits (traceless: times 4^N/(4^N-1)); half of 2N Majoranas.
         double sat = maj ? n : 0.75 * n * (n < 30 ? Math.Pow(4, n) / (Math.Pow(4, n) - 1) : 1);
@@ -137,9 +187,13 @@ public static class SpreadingCheck
         }
         var excess = size.Select(v => (v - size[0]) / (sat - size[0])).ToArray();
         var early = ExponentialRegime.Fit(t, excess, 0.02, 0.3);
+        bool truncated = run.Discarded.Length > 0 && run.Discarded[^1] > 1e-6;
         return new SizeFigures
         {
             Probe = run.Probe,
+            N = n,
+            Engine = string.Create(System.Globalization.CultureInfo.InvariantCulture, $"Pauli strings, N = {n}, top-M truncation (M = {run.MaxStrings})"),
+            SizeTrusted = !truncated,
             Saturation = sat,
             Measure = maj ? "Majoranas" : "qubits",
             LateSize = late,
@@ -202,7 +256,9 @@ public static class SpreadingCheck
         if (reached <= DiagnosisThresholds.StalledFrontDistance) return F("none");
         var rs = new List<double>();
         var ts = new List<double>();
-        for (int r = 1; r <= Math.Min(reached, rmax - 1); r++)
+        // Skip distance 1 (the onset) when enough later arrivals exist, as the v_B fit of conventions.md does.
+        int first = Enumerable.Range(2, Math.Max(0, Math.Min(reached, rmax - 1) - 1)).Count(r => !double.IsNaN(arrival[r])) >= 4 ? 2 : 1;
+        for (int r = first; r <= Math.Min(reached, rmax - 1); r++)
         {
             if (double.IsNaN(arrival[r]) || arrival[r] <= 0) continue;
             rs.Add(r);
@@ -212,29 +268,36 @@ public static class SpreadingCheck
         var lin = LineFit.Of(ts, rs);
         var lg = LineFit.Of(ts.Select(x => Math.Log(x)).ToArray(), rs);
         bool significant = lin.Slope > DiagnosisThresholds.VelocitySigmas * lin.SlopeError;
-        if (significant && lin.Rss <= lg.Rss) return F("ballistic", lin, lg);
-        if (lg.Rss < lin.Rss && reached < rmax) return F("logarithmic", lin, lg);
-        if (significant && reached >= rmax - 1) return F("ballistic", lin, lg);
+        bool crossed = reached >= rmax - 1;
+        if (significant && (crossed || lin.Rss <= lg.Rss)) return F("ballistic", lin, lg);
+        if (!crossed && lg.Rss < lin.Rss) return F("logarithmic", lin, lg);
         return F("undetermined", lin, lg);
     }
 
-    /// <summary>Verdict of test 3 from the size figures (the first entry is the main probe; pure).</summary>
+    /// <summary>
+    /// Verdict of test 3 (pure). The size verdict uses the unbiased entries (exact or untruncated runs; the
+    /// truncated full-size run only when there is no other); an autocorrelation plateau counts from any
+    /// entry; conservation laws count only at the full size (at small N the Mazur bound 1/N of a total is large).
+    /// </summary>
     public static TestVerdict JudgeSize(IReadOnlyList<SizeFigures> sizes)
     {
         ArgumentNullException.ThrowIfNull(sizes);
         var inv = System.Globalization.CultureInfo.InvariantCulture;
-        var main = sizes[0];
+        var trusted = sizes.Where(s => s.SizeTrusted).ToList();
+        var sizeBasis = trusted.Count > 0 ? trusted : sizes.ToList();
+        int fullN = sizes.Max(s => s.N);
+        var main = sizeBasis[0];
         string figure = string.Join("; ", sizes.Select(s => string.Create(inv,
-            $"{s.Probe}: size {s.LateSize:0.0} = {s.Fraction:0.00} x {(s.Measure == "qubits" ? "3N/4" : "saturation")}, autocorrelation {s.LateAutocorrelation:0.000} (Mazur {s.Mazur:0.000}) at t = {s.TimeReached:0.#}")));
+            $"{s.Probe} (N = {s.N}{(s.SizeTrusted ? string.Empty : ", truncated")}): size {s.LateSize:0.0} = {s.Fraction:0.00} x {(s.Measure == "qubits" ? "3N/4" : "saturation")}, autocorrelation {s.LateAutocorrelation:0.000} (Mazur {s.Mazur:0.000})")));
         string threshold = string.Create(inv,
-            $"saturated >= {DiagnosisThresholds.SaturatedFraction} x 3N/4, far below <= {DiagnosisThresholds.FarBelowFraction} x 3N/4 with growth stalled (< {DiagnosisThresholds.StalledGrowthFraction} over the last quarter); autocorrelation decayed within {DiagnosisThresholds.DecayTolerance} of the Mazur bound, plateau above it by >= {DiagnosisThresholds.PlateauExcess}");
+            $"saturated >= {DiagnosisThresholds.SaturatedFraction} x 3N/4, far below <= {DiagnosisThresholds.FarBelowFraction} x 3N/4 with growth stalled (< {DiagnosisThresholds.StalledGrowthFraction} over the last quarter); late-time autocorrelation within {DiagnosisThresholds.DecayTolerance} of the Mazur bound (decayed) or above it by >= {DiagnosisThresholds.PlateauExcess} (plateau)");
         const string source = "random-operator size 3N/4 (conventions.md); Mazur, Physica 43, 533 (1969); fractions: common practice";
         var notes = new List<string>();
         foreach (var s in sizes)
         {
-            if (s.Discarded > 0.05) notes.Add(string.Create(inv, $"{s.Probe}: truncation discarded {s.Discarded:0.###} of the weight: late-time size is biased low"));
-            if (s.EarlyGrowth.IsExponential) notes.Add(string.Create(inv, $"{s.Probe}: size grows exponentially at early times, rate {s.EarlyGrowth.Rate:0.###} +- {s.EarlyGrowth.RateError:0.###} (t = {s.EarlyGrowth.WindowStart:0.##}..{s.EarlyGrowth.WindowEnd:0.##}): fast-scrambler growth"));
-            if (double.IsFinite(s.HalfTime)) notes.Add(string.Create(inv, $"{s.Probe}: t* (size = half of saturation) = {s.HalfTime:0.##}"));
+            notes.Add(string.Create(inv, $"{s.Probe}, N = {s.N}: {s.Engine}, run to t = {s.TimeReached:0.##}{(double.IsFinite(s.HalfTime) ? $", t* (half of saturation) = {s.HalfTime:0.##}" : string.Empty)}"));
+            if (!s.SizeTrusted) notes.Add(string.Create(inv, $"{s.Probe}, N = {s.N}: truncation discarded {s.Discarded:0.###} of the weight; its late-time size is biased low and is not used for the size verdict{(trusted.Count == 0 ? " (used anyway: no exact run)" : string.Empty)}"));
+            if (s.EarlyGrowth.IsExponential) notes.Add(string.Create(inv, $"{s.Probe}, N = {s.N}: size grows exponentially at early times, rate {s.EarlyGrowth.Rate:0.###} +- {s.EarlyGrowth.RateError:0.###} (t = {s.EarlyGrowth.WindowStart:0.##}..{s.EarlyGrowth.WindowEnd:0.##})"));
         }
         TestVerdict V(TestOutcome o, string reason, params Mechanism[] ev) => new()
         {
@@ -252,35 +315,37 @@ public static class SpreadingCheck
         if (plateau is not null)
         {
             return V(TestOutcome.Fails, string.Create(inv,
-                $"the autocorrelation of {plateau.Probe} stays at {plateau.LateAutocorrelation:0.00}, {plateau.LateAutocorrelation - plateau.Mazur:0.00} above what conservation laws explain (Mazur {plateau.Mazur:0.000}): the operator keeps a memory of its start"),
+                $"the autocorrelation of {plateau.Probe} (N = {plateau.N}) stays at {plateau.LateAutocorrelation:0.00}, {plateau.LateAutocorrelation - plateau.Mazur:0.00} above what conservation laws explain (Mazur {plateau.Mazur:0.000}): the operator keeps a memory of its start"),
                 Mechanism.Frozen, Mechanism.Localized);
         }
-        var conserved = sizes.FirstOrDefault(s => s.Mazur >= DiagnosisThresholds.MazurSignificant && s.LateAutocorrelation - s.Mazur < DiagnosisThresholds.PlateauExcess);
-        var below = sizes.Where(s => s.Fraction <= DiagnosisThresholds.FarBelowFraction && Math.Abs(s.LateGrowth) < DiagnosisThresholds.StalledGrowthFraction).MinBy(s => s.Fraction);
+        var conserved = sizes.FirstOrDefault(s => s.N == fullN && s.Mazur >= DiagnosisThresholds.MazurSignificant);
+        var below = sizeBasis.Where(s => s.Fraction <= DiagnosisThresholds.FarBelowFraction && Math.Abs(s.LateGrowth) < DiagnosisThresholds.StalledGrowthFraction).MinBy(s => s.Fraction);
         if (below is not null)
         {
             return V(TestOutcome.Fails, string.Create(inv,
-                $"the size of {below.Probe} plateaus at {below.LateSize:0.0} = {below.Fraction:0.00} x 3N/4, far below a random operator, while its autocorrelation decays: the operator spreads into a restricted space"),
+                $"the size of {below.Probe} (N = {below.N}) plateaus at {below.LateSize:0.0} = {below.Fraction:0.00} x 3N/4, far below a random operator, while its autocorrelation decays: the operator spreads into a restricted space"),
                 Mechanism.FreeFermions, Mechanism.InteractingIntegrable, Mechanism.Localized);
         }
         if (conserved is not null)
         {
             return V(TestOutcome.Fails, string.Create(inv,
-                $"the autocorrelation of {conserved.Probe} stops at {conserved.LateAutocorrelation:0.00}, the Mazur bound {conserved.Mazur:0.00} of its conserved part"), Mechanism.ConservationLaws);
+                $"the autocorrelation of {conserved.Probe} stops at {conserved.LateAutocorrelation:0.00}, held up by the Mazur bound {conserved.Mazur:0.00} of its conserved part"), Mechanism.ConservationLaws);
         }
         bool decays = sizes.All(s => s.LateAutocorrelation - s.Mazur <= DiagnosisThresholds.DecayTolerance);
-        if (main.Fraction >= DiagnosisThresholds.SaturatedFraction && decays)
+        bool saturated = sizeBasis.All(s => s.Fraction >= DiagnosisThresholds.SaturatedFraction);
+        if (saturated && decays)
         {
             return V(TestOutcome.Scrambles, string.Create(inv,
-                $"the size of {main.Probe} saturates at {main.Fraction:0.00} x 3N/4 and the autocorrelations decay to the Mazur bound: the operator fills the system like a random operator"), Mechanism.Scrambles);
+                $"the size of every probe saturates (at least {sizeBasis.Min(s => s.Fraction):0.00} x 3N/4, N = {main.N}) and the autocorrelations decay to the Mazur bound: operators fill the system like random operators"), Mechanism.Scrambles);
         }
-        if (main.Fraction >= DiagnosisThresholds.SaturatedFraction)
+        if (saturated)
         {
             return V(TestOutcome.Inconclusive, string.Create(inv,
-                $"the size saturates ({main.Fraction:0.00} x 3N/4) but an autocorrelation decays only slowly toward the Mazur bound"));
+                $"the size saturates (at least {sizeBasis.Min(s => s.Fraction):0.00} x 3N/4) but an autocorrelation decays only slowly toward the Mazur bound"));
         }
+        var low = sizeBasis.MinBy(s => s.Fraction)!;
         return V(TestOutcome.Inconclusive, string.Create(inv,
-            $"the size of {main.Probe} reaches {main.Fraction:0.00} x 3N/4{(main.LateGrowth >= DiagnosisThresholds.StalledGrowthFraction ? " and is still growing at the end of the run" : ", between saturation and a clear plateau")}"));
+            $"the size of {low.Probe} (N = {low.N}) reaches {low.Fraction:0.00} x 3N/4{(low.LateGrowth >= DiagnosisThresholds.StalledGrowthFraction ? " and is still growing at the end of the run" : ", between saturation and a clear plateau")}"));
     }
 
     /// <summary>Verdict of test 4 from the front figures (pure).</summary>

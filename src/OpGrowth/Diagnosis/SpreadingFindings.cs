@@ -46,6 +46,15 @@ public sealed record SizeFigures
     /// <summary>The probe.</summary>
     public required string Probe { get; init; }
 
+    /// <summary>System size of the run.</summary>
+    public required int N { get; init; }
+
+    /// <summary>How the series was computed ("exact (typicality)", "Pauli strings, top-M truncation").</summary>
+    public required string Engine { get; init; }
+
+    /// <summary>True when the size is unbiased (exact or untruncated); a truncated run's late-time size is biased low.</summary>
+    public required bool SizeTrusted { get; init; }
+
     /// <summary>Random-operator saturation value (3N/4 qubits, or half the Majoranas).</summary>
     public required double Saturation { get; init; }
 
@@ -115,7 +124,7 @@ public sealed record FrontFigures
 }
 
 /// <summary>What tests 3 and 4 measured.</summary>
-/// <param name="Runs">One evolution per probe (the first is the main probe).</param>
-/// <param name="Sizes">Size and autocorrelation figures per probe.</param>
-/// <param name="Front">Front of the main probe (null on lattices without distances).</param>
+/// <param name="Runs">Pauli-string evolutions at the full size (the main probe).</param>
+/// <param name="Sizes">Size and autocorrelation figures: exact runs at the smaller size first, then the full-size Pauli run.</param>
+/// <param name="Front">Front of the main probe at the full size (null when not measured).</param>
 public sealed record SpreadingFindings(IReadOnlyList<ProbeEvolution> Runs, IReadOnlyList<SizeFigures> Sizes, FrontFigures? Front);
