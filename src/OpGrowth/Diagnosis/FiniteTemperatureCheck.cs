@@ -96,7 +96,7 @@ public static class FiniteTemperatureCheck
             Times = times,
             Sites = withOtoc ? [partner] : [],
             Beta = beta,
-            Method = OtocMethod.Typicality,
+            Method = m.N <= 8 ? OtocMethod.Dense : OtocMethod.Typicality,
             Samples = Math.Max(1, options.ThermalSamples),
             Seed = options.Seed,
             Threads = options.EffectiveThreads,
@@ -106,7 +106,8 @@ public static class FiniteTemperatureCheck
         var ae = res.Autocorrelation.Errors;
         double den = a[0] - wMean * wMean;
         var conn = a.Select(v => (v - wMean * wMean) / den).ToArray();
-        int from = (int)Math.Floor(0.7 * times.Length);
+        // The long-time value: mean over the second half of the window (oscillations at low T are slow).
+        int from = times.Length / 2;
         var tail = conn.Skip(from).ToArray();
         double plateau = tail.Average();
         double spread = tail.Length > 1 ? Math.Sqrt(tail.Sum(v => (v - plateau) * (v - plateau)) / (tail.Length - 1)) : 0;

@@ -269,6 +269,9 @@ public static class SpreadingCheck
         var lg = LineFit.Of(ts.Select(x => Math.Log(x)).ToArray(), rs);
         bool significant = lin.Slope > DiagnosisThresholds.VelocitySigmas * lin.SlopeError;
         bool crossed = reached >= rmax - 1;
+        // A front that has not crossed and made no progress during the second half of the run has stopped.
+        bool stalled = !crossed && arrival[reached] < 0.5 * t[^1];
+        if (stalled) return F("stalled", lin, lg);
         if (significant && (crossed || lin.Rss <= lg.Rss)) return F("ballistic", lin, lg);
         if (!crossed && lg.Rss < lin.Rss) return F("logarithmic", lin, lg);
         return F("undetermined", lin, lg);
@@ -363,7 +366,7 @@ public static class SpreadingCheck
         string v = f.Linear is { } l && double.IsFinite(l.Slope) ? string.Create(inv, $"v_B = {l.Slope:0.###} +- {l.SlopeError:0.###} sites per unit time") : "no v_B";
         string figure = string.Create(inv, $"front reached distance {f.Reached} of {f.MaxDistance} by t = {f.TimeReached:0.#} ({f.TimeInLocalUnits:0} / epsilon); {v}{(f.Logarithmic is { } g && double.IsFinite(g.Slope) ? $"; log fit r = {g.Intercept:0.##} + {g.Slope:0.##} ln t (rss {g.Rss:G2} vs linear {f.Linear!.Rss:G2})" : string.Empty)}");
         string threshold = string.Create(inv,
-            $"front at rho_j >= {f.Threshold:0.###} ({DiagnosisThresholds.FrontFraction} x 3/4); ballistic when v_B > {DiagnosisThresholds.VelocitySigmas:0} standard errors and r = v t + c fits at least as well as r = a + b ln t; no front when it never passes distance {DiagnosisThresholds.StalledFrontDistance}");
+            $"front at rho_j >= {f.Threshold:0.###} ({DiagnosisThresholds.FrontFraction} x 3/4); ballistic when v_B > {DiagnosisThresholds.VelocitySigmas:0} standard errors and r = v t + c fits at least as well as r = a + b ln t (or the front crossed the system); stalled when it has not crossed and did not advance in the second half of the run; no front when it never passes distance {DiagnosisThresholds.StalledFrontDistance}");
         const string source = "conventions.md (front and v_B fit); v_B = 0 for the disordered XX chain (check-values.md); thresholds: common practice";
         TestVerdict V(TestOutcome o, string reason, params Mechanism[] ev) => new()
         {
@@ -382,6 +385,7 @@ public static class SpreadingCheck
                 Mechanism.Scrambles, Mechanism.FreeFermions, Mechanism.InteractingIntegrable),
             "logarithmic" => V(TestOutcome.Fails, "the front creeps like a + b ln t: a logarithmic light cone, the mark of many-body localization", Mechanism.Localized),
             "none" => V(TestOutcome.Fails, string.Create(inv, $"the front never passes distance {f.Reached} in {f.TimeInLocalUnits:0} local time units: v_B = 0, the operator is localized"), Mechanism.Localized, Mechanism.Frozen),
+            "stalled" => V(TestOutcome.Fails, string.Create(inv, $"the front stops at distance {f.Reached} of {f.MaxDistance}: it made no progress in the second half of the run (t = {f.ArrivalTimes[f.Reached]:0.#} to {f.TimeReached:0.#}), so v_B = 0 at long times: localization"), Mechanism.Localized),
             _ => V(TestOutcome.Inconclusive, "the front neither moves at a clear constant speed nor follows a logarithm over the run"),
         };
     }

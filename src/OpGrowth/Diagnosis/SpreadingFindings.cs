@@ -113,7 +113,7 @@ public sealed record FrontFigures
     /// <summary>Fit r = a + b ln t over the same arrivals.</summary>
     public LineFit? Logarithmic { get; init; }
 
-    /// <summary>"ballistic", "logarithmic", "none", "undetermined" or "not applicable".</summary>
+    /// <summary>"ballistic", "logarithmic", "stalled", "none", "undetermined" or "not applicable".</summary>
     public required string Kind { get; init; }
 
     /// <summary>Final time of the run.</summary>

@@ -27,7 +27,7 @@ public static class VerdictRules
         bool Is(int n, TestOutcome o) => T(n)?.Outcome == o;
         bool Has(int n, TestOutcome o, Mechanism m) => T(n) is { } t && t.Outcome == o && t.Evidence.Contains(m);
         string frontKind = spreading?.Front?.Kind ?? "not measured";
-        bool noFront = frontKind is "none" or "logarithmic";
+        bool noFront = frontKind is "none" or "logarithmic" or "stalled";
         bool ballistic = frontKind == "ballistic";
         bool plateau3 = Has(3, TestOutcome.Fails, Mechanism.Frozen);
         bool frozen6 = Has(6, TestOutcome.Fails, Mechanism.Frozen);
@@ -50,7 +50,7 @@ public static class VerdictRules
 
         if (noFront && (plateau3 || poisson || bounded))
         {
-            var why = new List<string> { frontKind == "none" ? "the operator front does not move (v_B = 0)" : "the front spreads only logarithmically" };
+            var why = new List<string> { frontKind switch { "none" => "the operator front does not move (v_B = 0)", "stalled" => "the operator front stops (v_B = 0 at long times)", _ => "the front spreads only logarithmically" } };
             var sup = new List<int> { 4 };
             if (plateau3) { why.Add("the autocorrelation keeps a plateau"); sup.Add(3); }
             if (poisson) { why.Add("levels are Poisson"); sup.Add(1); }
