@@ -10,5 +10,12 @@ internal static class CommandRegistry
         yield return ModelsCommand.Create();
         yield return CheckCommand.Create();
         yield return LanczosCommand.Create();
+        yield return EvolveCommand.Create();
+        yield return ExactCommand.Create();
+        yield return SweepCommand.Create();
+        yield return CollectCommand.Create();
+        yield return RunCommand.Create();
+        yield return DiagnoseCommand.Create();
+        yield return CompareCommand.Create();
     }
 }

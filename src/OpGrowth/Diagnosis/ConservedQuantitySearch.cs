@@ -28,7 +28,7 @@ public sealed record ConservedOperator(IReadOnlyList<PauliTerm> Terms, string? L
 /// <param name="NullDimension">Dimension of the space of conserved operators found.</param>
 /// <param name="Operators">An orthonormal basis of that space; recognised operators (H, totals) first.</param>
 /// <param name="ContainsHamiltonian">True when H (traceless part, restricted to weight &lt;= k) lies in the space.</param>
-/// <param name="Recognised">Labels of recognised conserved operators ("H", "total Z", ...).</param>
+/// <param name="Recognised">Labels of recognised conserved operators ("H", "total Z", "total Z^2" (weight-2 part of the square of a total), ...).</param>
 /// <param name="Unexplained">Dimension left after removing the recognised operators.</param>
 /// <param name="SmallestNonZero">The smallest singular value above the cut, relative to the largest (the gap that makes the count trustworthy).</param>
 public sealed record ConservedSearchResult(
@@ -44,7 +44,8 @@ public sealed record ConservedSearchResult(
 /// Finds local conserved quantities: the null space of the linear map c -> i[H, sum_S c_S S] over
 /// all strings S of weight &lt;= k on the given (small) cluster. The map is assembled column by
 /// column with the Pauli commutator, then the null space is read off the eigen-decomposition of
-/// the Gram matrix M^T M (MathNet, symmetric). Recognised operators (H itself, total X/Y/Z) are
+/// the Gram matrix M^T M (MathNet, symmetric). Recognised operators (H itself, total X/Y/Z and the
+/// weight-2 parts of products of conserved totals) are
 /// projected out first so the remainder counts what is not explained.
 /// Mazur bound on the long-time autocorrelation of a probe A from these Q_k:
 /// lim avg (A(t)|A)/(A|A) &gt;= sum_k |(Q_k|A)|^2 / ((Q_k|Q_k)(A|A)).
@@ -135,18 +136,45 @@ public static class ConservedQuantitySearch
             candidates.Add(($"total {a}", v));
         }
         bool containsH = false;
-        foreach (var (label, v) in candidates)
+        void Recognise(string label, Vector<double> v)
         {
             var u = v / v.L2Norm();
             var proj = nullBasis * (nullBasis.TransposeThisAndMultiply(u));
-            if ((proj - u).L2Norm() > 1e-7) continue;
+            if ((proj - u).L2Norm() > 1e-7) return;
             // Orthogonalise against the ones already recognised.
             foreach (var q in recognised) u -= q.DotProduct(u) * q;
-            if (u.L2Norm() < 1e-7) continue;
+            if (u.L2Norm() < 1e-7) return;
             u /= u.L2Norm();
             recognised.Add(u);
             labels.Add(label);
             if (label == "H" && hInSpan) containsH = true;
+        }
+        foreach (var (label, v) in candidates) Recognise(label, v);
+        // Products of conserved totals are conserved too: the weight-2 part of {S_a, S_b}/2 is
+        // sum_{i != j} a_i b_j (the on-site part has weight <= 1 and is a total or the identity).
+        if (options.MaxWeight >= 2 && n >= 2)
+        {
+            var totals = labels.Where(l => l.StartsWith("total ", StringComparison.Ordinal)).Select(l => l[^1]).ToList();
+            for (int x = 0; x < totals.Count; x++)
+            {
+                for (int y = x; y < totals.Count; y++)
+                {
+                    char a = totals[x], b = totals[y];
+                    var v = Vector<double>.Build.Dense(d);
+                    for (int i = 0; i < n; i++)
+                    {
+                        for (int j = 0; j < n; j++)
+                        {
+                            if (i == j) continue;
+                            var pb = new PauliString.Builder(n);
+                            pb.Set(i, a);
+                            pb.Set(j, b);
+                            v[index[Pauli64.From(pb.Build())]] += 1;
+                        }
+                    }
+                    Recognise(a == b ? $"total {a}^2" : $"total {a} total {b}", v);
+                }
+            }
         }
         // Remaining null directions: orthogonal complement of the recognised ones inside the null space.
         var ops = new List<ConservedOperator>();

@@ -107,6 +107,19 @@ public static class JordanWigner
         return weight;
     }
 
+    /// <summary>
+    /// Majorana weight of a fixed-width key on <paramref name="n"/> qubits (for the engines' size
+    /// histograms): copies the words to the stack, no heap allocation.
+    /// </summary>
+    public static int MajoranaWeight<T>(in T key, int n) where T : unmanaged, IPauliKey<T>
+    {
+        int words = PauliString.WordCount(T.Capacity);
+        Span<ulong> x = stackalloc ulong[words];
+        Span<ulong> z = stackalloc ulong[words];
+        key.CopyWords(x, z);
+        return MajoranaWeight(x, z, n);
+    }
+
     /// <summary>Majorana weight of a string (see the span overload).</summary>
     public static int MajoranaWeight(PauliString s)
     {

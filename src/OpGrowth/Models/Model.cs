@@ -71,5 +71,39 @@ public sealed class Model
         return SizeMeasure == SizeMeasure.Majoranas ? JordanWigner.MajoranaWeight(s) : s.Weight;
     }
 
+    /// <summary>
+    /// A model built in code (no file): defaults to an open chain of H.N sites, Z on the central
+    /// site as probe, no declared symmetries. Flags (disorder, translation invariance) are derived
+    /// from the terms; pass <paramref name="disordered"/> for random couplings.
+    /// </summary>
+    public static Model Of(
+        Hamiltonian hamiltonian,
+        Lattice? lattice = null,
+        string name = "in-code",
+        IReadOnlyList<PauliString>? probes = null,
+        FloquetDrive? drive = null,
+        SizeMeasure sizeMeasure = SizeMeasure.Qubits,
+        bool disordered = false)
+    {
+        ArgumentNullException.ThrowIfNull(hamiltonian);
+        lattice ??= Lattice.Chain(hamiltonian.N);
+        if (lattice.N != hamiltonian.N) throw new ArgumentException($"Lattice has {lattice.N} sites but the Hamiltonian acts on {hamiltonian.N} qubits.", nameof(lattice));
+        probes ??= sizeMeasure == SizeMeasure.Majoranas
+            ? [JordanWigner.Majorana(hamiltonian.N, 0).String]
+            : [PauliString.Single(hamiltonian.N, lattice.Center, 'Z')];
+        return new Model
+        {
+            Name = name,
+            Description = "built in code",
+            Lattice = lattice,
+            Hamiltonian = hamiltonian,
+            Probes = probes,
+            Drive = drive,
+            SizeMeasure = sizeMeasure,
+            IsDisordered = disordered,
+            IsTranslationInvariant = drive is null && !disordered && SymmetryCheck.IsTranslationInvariant(hamiltonian.Terms, lattice),
+        };
+    }
+
     public override string ToString() => $"{Name} (N={N}, {Hamiltonian.Terms.Count} terms)";
 }

@@ -33,8 +33,11 @@ public static partial class ModelLoader
         private bool _majorana;
         private int _count;
 
-        public Builder(string file, TomlTableNode root, IReadOnlyDictionary<string, string> overrides)
+        private readonly int _lastLine;
+
+        public Builder(string file, TomlTableNode root, IReadOnlyDictionary<string, string> overrides, int lastLine)
         {
+            _lastLine = lastLine;
             _file = file;
             _root = root;
             _overrides = overrides;
@@ -113,12 +116,8 @@ public static partial class ModelLoader
             };
         }
 
-        private int LastLine()
-        {
-            int line = 1;
-            foreach (var e in _root.Entries) line = Math.Max(line, e.KeyLine);
-            return line;
-        }
+        /// <summary>The last non-blank line: where something missing from the file would have gone.</summary>
+        private int LastLine() => _lastLine;
 
         // ---------------------------------------------------------------- keys and scalars
 
@@ -329,7 +328,7 @@ public static partial class ModelLoader
                 case "ring":
                     return Lattice.Chain(Need("sites", max), true);
                 case "all-to-all":
-                    return Lattice.AllToAll(Need("sites", 4096));
+                    return Lattice.AllToAll(Need("sites", 2048));
                 case "ladder":
                     return Lattice.Ladder(Need("length", max / 2), periodic);
                 case "square":
@@ -344,15 +343,15 @@ public static partial class ModelLoader
                     var en = t.Get("edges") ?? throw Err(t.Line, "found an edge-list lattice without 'edges'; expected edges = [[0, 1], [1, 2], ...]");
                     if (en is not TomlList { IsTableArray: false } list || list.Items.Count == 0) throw Err(en.Line, $"found {en.Describe()} for edges; expected a non-empty array of site pairs such as [[0, 1], [1, 2]]");
                     var edges = new List<(int, int)>();
-                    var seen = new Dictionary<(int, int), int>();
+                    var seen = new Dictionary<(int, int), string>();
                     foreach (var item in list.Items)
                     {
                         if (item is not TomlList { Items.Count: 2 } pair) throw Err(item.Line, $"found {item.Describe()} in edges; expected a pair of sites such as [0, 1]");
                         int a = ReadSite(pair.Items[0], n, "edge site"), b = ReadSite(pair.Items[1], n, "edge site");
                         if (a == b) throw Err(item.Line, $"found the edge [{a}, {b}] joining a site to itself; expected two different sites");
                         var k = (Math.Min(a, b), Math.Max(a, b));
-                        if (seen.TryGetValue(k, out int firstLine)) throw Err(item.Line, $"found the edge [{a}, {b}] twice (first at line {firstLine}); expected each edge once");
-                        seen[k] = item.Line;
+                        if (seen.TryGetValue(k, out string? first)) throw Err(item.Line, $"found the edge [{a}, {b}] twice (first as {first}); expected each edge once");
+                        seen[k] = $"[{a}, {b}]";
                         edges.Add((a, b));
                     }
                     var lat = Lattice.FromEdges(n, edges);

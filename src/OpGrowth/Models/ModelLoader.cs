@@ -56,7 +56,13 @@ public static partial class ModelLoader
         ArgumentNullException.ThrowIfNull(text);
         ArgumentNullException.ThrowIfNull(sourceName);
         var root = TomlTree.Parse(text, sourceName);
-        return new Builder(sourceName, root, overrides ?? new Dictionary<string, string>()).Build();
+        int lastLine = 1;
+        var lines = text.Split('\n');
+        for (int i = 0; i < lines.Length; i++)
+        {
+            if (!string.IsNullOrWhiteSpace(lines[i])) lastLine = i + 1;
+        }
+        return new Builder(sourceName, root, overrides ?? new Dictionary<string, string>(), lastLine).Build();
     }
 
     /// <summary>
@@ -112,6 +118,7 @@ public static partial class ModelLoader
         return best is not null && bestD <= Math.Max(1, found.Length / 3) && bestD < found.Length ? $" (did you mean '{best}'?)" : "";
     }
 
+    /// <summary>Optimal-string-alignment distance (insertions, deletions, substitutions, adjacent transpositions).</summary>
     private static int EditDistance(string a, string b)
     {
         var d = new int[a.Length + 1, b.Length + 1];
@@ -122,6 +129,7 @@ public static partial class ModelLoader
             for (int j = 1; j <= b.Length; j++)
             {
                 d[i, j] = Math.Min(Math.Min(d[i - 1, j] + 1, d[i, j - 1] + 1), d[i - 1, j - 1] + (a[i - 1] == b[j - 1] ? 0 : 1));
+                if (i > 1 && j > 1 && a[i - 1] == b[j - 2] && a[i - 2] == b[j - 1]) d[i, j] = Math.Min(d[i, j], d[i - 2, j - 2] + 1); // transposition
             }
         }
         return d[a.Length, b.Length];

@@ -106,7 +106,7 @@ internal static class SymmetryCheck
                     ?? Permutation(terms, n, i => ((i / w + 1) % h) * w + i % w, scale, "translation by one row");
             }
             default:
-                return $"translation was declared on a {lattice.Kind} lattice without periodic boundaries";
+                return $"a {lattice.Kind} lattice without periodic boundaries has no translation symmetry";
         }
     }
 

@@ -1,0 +1,297 @@
+using System.CommandLine;
+using System.Globalization;
+using System.Text;
+using Microsoft.Extensions.Logging;
+using OpGrowth.Exact;
+using OpGrowth.IO;
+using OpGrowth.Models;
+using OpGrowth.Pauli;
+
+namespace OpGrowth.Cli.Commands;
+
+/// <summary>
+/// <c>opgrowth exact MODEL</c>: the exact state-vector engine on a model: infinite-temperature OTOCs
+/// (site-resolved), finite-temperature regularised OTOCs with growth-rate fits, or level statistics.
+/// Writes JSON and CSV atomically into an output folder and prints a short summary.
+/// </summary>
+internal static class ExactCommand
+{
+    private static readonly CultureInfo Inv = CultureInfo.InvariantCulture;
+
+    public static Command Create()
+    {
+        var model = new Argument<string>("MODEL") { Description = "Model file (.toml) or the name of a shipped model (see 'opgrowth models')." };
+        var mode = new Option<string>("--mode") { Description = "otoc (infinite temperature), thermal (finite temperature at --beta), or levels (level statistics).", DefaultValueFactory = _ => "otoc" };
+        var set = new Option<string[]>("--set") { Description = "Override a model parameter: NAME=VALUE. Repeat for several.", Arity = ArgumentArity.ZeroOrMore, AllowMultipleArgumentsPerToken = false };
+        var op = new Option<string?>("--operator") { Description = "Evolved operator W, e.g. \"Z_0\" (default: the model's first probe)." };
+        var sites = new Option<string>("--sites") { Description = "Sites j for OTOCs against X_j, Y_j, Z_j: \"all\", \"none\" or a list such as \"0,5,9\".", DefaultValueFactory = _ => "all" };
+        var probe = new Option<string[]>("--probe") { Description = "Further probe V (any Pauli string, e.g. \"Z_3 Z_4\"). Repeat for several.", Arity = ArgumentArity.ZeroOrMore, AllowMultipleArgumentsPerToken = false };
+        var times = new Option<string>("--times") { Description = "Time grid: START:STOP:COUNT (e.g. 0:8:41) or a list \"0,0.5,1\".", DefaultValueFactory = _ => "0:5:26" };
+        var beta = new Option<string>("--beta") { Description = "Inverse temperatures for --mode thermal, e.g. \"0.25,0.5,1\".", DefaultValueFactory = _ => "0.5" };
+        var method = new Option<string>("--method") { Description = "auto (dense for N <= 8), dense (N <= 10), or typicality.", DefaultValueFactory = _ => "auto" };
+        var samples = new Option<string>("--samples") { Description = "Random states per estimate (typicality).", DefaultValueFactory = _ => "4" };
+        var seed = new Option<string>("--seed") { Description = "Seed of the random states.", DefaultValueFactory = _ => "1" };
+        var tol = new Option<string>("--tolerance") { Description = "Error tolerance of each propagation.", DefaultValueFactory = _ => "1e-8" };
+        var threads = new Option<string>("--threads") { Description = "Worker threads (0 = all cores).", DefaultValueFactory = _ => "0" };
+        var fit = new Option<string>("--fit-range") { Description = "Growth-fit window on C = 1 - F/F(0): LOW:HIGH.", DefaultValueFactory = _ => "1e-3:0.3" };
+        var resolve = new Option<string?>("--resolve") { Description = "levels: symmetries to resolve (comma list of total-z, reflection, spin-flip; \"none\"); default: every one H has." };
+        var realizations = new Option<string>("--realizations") { Description = "levels: disorder realisations (the model's 'seed' parameter is stepped).", DefaultValueFactory = _ => "1" };
+        var fraction = new Option<string>("--central-fraction") { Description = "levels: fraction of each sector's levels kept around the middle.", DefaultValueFactory = _ => "0.8" };
+        var meanSize = new Option<bool>("--mean-size") { Description = "otoc: also estimate the mean size for all sites with one random-sign probe (cheap at large N; used when not every site is resolved)." };
+        var outDir = new Option<string?>("--out") { Description = "Output folder (default: exact-<model name>)." };
+        var cmd = new Command("exact",
+            "Exact state-vector engine at small N: OTOCs F(t) = Tr(W(t) V W(t) V)/2^N against X, Y, Z on every site " +
+            "(dense traces or quantum typicality), the regularised finite-temperature OTOC with fitted growth rate and " +
+            "chaos-bound ratio, or level statistics (mean gap ratio in symmetry sectors).\n\n" +
+            "Examples:\n  opgrowth exact mixed-field-ising --set N=12 --operator Z_0 --times 0:6:31\n" +
+            "  opgrowth exact mixed-field-ising --set N=10 --mode thermal --beta 0.2,0.5 --sites 5\n" +
+            "  opgrowth exact mixed-field-ising --set N=12 --mode levels")
+        {
+            model, mode, set, op, sites, probe, times, beta, method, samples, seed, tol, threads, fit, resolve, realizations, fraction, meanSize, outDir,
+        };
+        cmd.SetAction(pr => CliHost.Run(ct => Execute(new Settings(
+            pr.GetValue(model)!, pr.GetValue(mode)!, pr.GetValue(set) ?? [], pr.GetValue(op), pr.GetValue(sites)!, pr.GetValue(probe) ?? [],
+            pr.GetValue(times)!, pr.GetValue(beta)!, pr.GetValue(method)!, pr.GetValue(samples)!, pr.GetValue(seed)!, pr.GetValue(tol)!,
+            pr.GetValue(threads)!, pr.GetValue(fit)!, pr.GetValue(resolve), pr.GetValue(realizations)!, pr.GetValue(fraction)!, pr.GetValue(meanSize), pr.GetValue(outDir)), ct)));
+        return cmd;
+    }
+
+    private sealed record Settings(string Model, string Mode, string[] Sets, string? Operator, string Sites, string[] Probes, string Times, string Beta,
+        string Method, string Samples, string Seed, string Tolerance, string Threads, string FitRange, string? Resolve, string Realizations, string Fraction, bool MeanSize, string? Out);
+
+    private static int Execute(Settings s, CancellationToken ct)
+    {
+        string path = ShippedModels.Resolve(s.Model);
+        var overrides = ModelLoader.ParseOverrides(s.Sets, path);
+        var model = ModelLoader.Load(path, overrides);
+        if (model.IsDriven && s.Mode != "otoc")
+        {
+            throw new InputException(path, 0, $"found a driven (Floquet) model with --mode {s.Mode}; expected --mode otoc (a drive has no thermal state and no energy levels)");
+        }
+        string outDir = s.Out ?? $"exact-{model.Name}";
+        using var lf = CliHost.CreateLoggerFactory(LogLevel.Information);
+        var log = lf.CreateLogger("exact");
+        int threads = ParseInt(s.Threads, "--threads", 0, 1024);
+        return s.Mode switch
+        {
+            "otoc" => RunOtoc(model, s, outDir, threads, log, thermal: false, ct),
+            "thermal" => RunOtoc(model, s, outDir, threads, log, thermal: true, ct),
+            "levels" => RunLevels(model, path, overrides, s, outDir, threads, log),
+            _ => throw new InputException($"--mode: found '{s.Mode}'; expected otoc, thermal or levels"),
+        };
+    }
+
+    private static int RunOtoc(Model model, Settings s, string outDir, int threads, ILogger log, bool thermal, CancellationToken ct)
+    {
+        int n = model.N;
+        if (n > PauliMask.MaxQubits) throw new InputException($"model has N = {n}; expected N <= {PauliMask.MaxQubits} for state vectors (2^N amplitudes)");
+        var w = s.Operator is null ? model.Probes[0] : ParsePauli(s.Operator, n, "--operator");
+        var probes = s.Probes.Select(p => ParsePauli(p, n, "--probe")).ToArray();
+        var times = ParseTimes(s.Times);
+        var method = s.Method switch
+        {
+            "auto" => OtocMethod.Auto,
+            "dense" => OtocMethod.Dense,
+            "typicality" => OtocMethod.Typicality,
+            _ => throw new InputException($"--method: found '{s.Method}'; expected auto, dense or typicality"),
+        };
+        if (method == OtocMethod.Dense && n > DenseSpectrum.DefaultMaxQubits) throw new InputException($"--method dense: found N = {n}; expected N <= {DenseSpectrum.DefaultMaxQubits} (use typicality)");
+        var fit = ParseRange(s.FitRange, "--fit-range");
+        var siteList = ParseSites(s.Sites, n);
+        if (siteList is { Length: 0 } && probes.Length == 0 && !s.MeanSize) throw new InputException("--sites none: found no sites and no --probe; expected at least one OTOC to compute");
+        var betas = thermal ? ParseList(s.Beta, "--beta") : [0.0];
+        if (betas.Any(b => b < 0)) throw new InputException("--beta: found a negative value; expected beta >= 0");
+        var baseOptions = new ExactOtocOptions
+        {
+            Operator = w,
+            Times = times,
+            Sites = siteList,
+            Probes = probes,
+            Method = method,
+            Samples = ParseInt(s.Samples, "--samples", 1, 10_000),
+            Seed = ParseInt(s.Seed, "--seed", int.MinValue, int.MaxValue),
+            Tolerance = ParseDouble(s.Tolerance, "--tolerance", 1e-15, 0.1),
+            Threads = threads,
+            FitRange = fit,
+            EstimateMeanSize = s.MeanSize && !thermal,
+            Logger = log,
+        };
+        var results = new List<ExactOtocResult>();
+        foreach (double b in betas)
+        {
+            ct.ThrowIfCancellationRequested();
+            log.LogInformation("{Model}: OTOC of {W}, beta = {Beta}, {Times} times", model.Name, w, b, times.Length);
+            if (model.Drive is not null)
+            {
+                var bad = times.FirstOrDefault(t => Math.Abs(t / model.Drive.Period - Math.Round(t / model.Drive.Period)) > 1e-9 * Math.Max(1, t / model.Drive.Period), -1);
+                if (bad >= 0) throw new InputException($"--times: found {bad.ToString(Inv)}; expected whole numbers of drive periods (period {model.Drive.Period.ToString(Inv)})");
+                results.Add(ExactOtoc.Run(model.Drive, n, baseOptions, ct));
+            }
+            else
+            {
+                results.Add(ExactOtoc.Run(model.Hamiltonian, baseOptions with { Beta = b }, ct));
+            }
+        }
+        string stem = thermal ? "exact-thermal" : "exact-otoc";
+        var doc = new { model = model.Name, source = model.SourceFile, n, parameters = model.Parameters, mode = thermal ? "thermal" : "otoc", results };
+        AtomicFile.WriteJson(Path.Combine(outDir, stem + ".json"), doc);
+        AtomicFile.WriteAllText(Path.Combine(outDir, stem + ".csv"), OtocCsv(results));
+        var o = CliHost.Out;
+        foreach (var r in results)
+        {
+            o.WriteLine(FormattableString.Invariant($"{model.Name} N={n} W={r.Operator} beta={r.Beta} method={r.Method} samples={r.Samples} ({r.Cost.WallSeconds:F1} s, peak {r.Cost.PeakWorkingSetBytes / 1e6:F0} MB)"));
+            int last = r.Times.Length - 1;
+            o.WriteLine(FormattableString.Invariant($"  autocorrelation at t={r.Times[last]}: {r.Autocorrelation.Values[last]:F5} +- {r.Autocorrelation.Errors[last]:F5}"));
+            if (r.MeanSize is not null) o.WriteLine(FormattableString.Invariant($"  mean size at t={r.Times[last]}: {r.MeanSize.Values[last]:F4} +- {r.MeanSize.Errors[last]:F4} (saturation 3N/4 = {0.75 * n:F2}; {r.MeanSizeMethod})"));
+            foreach (var site in r.Sites.Take(40))
+            {
+                o.WriteLine(FormattableString.Invariant($"  site {site.Site,3}: F_X {site.X.Values[last],8:F4}  F_Y {site.Y.Values[last],8:F4}  F_Z {site.Z.Values[last],8:F4}  weight {site.Weight.Values[last]:F4} +- {site.Weight.Errors[last]:F4}"));
+            }
+            foreach (var p in r.Probes) o.WriteLine(FormattableString.Invariant($"  probe {p.Probe}: F = {p.Values[last]:F5} +- {p.Errors[last]:F5}"));
+            if (thermal)
+            {
+                foreach (var f in r.Fits.Where(f => f.Points >= 3))
+                {
+                    o.WriteLine(FormattableString.Invariant($"  fit {f.Probe}: lambda = {f.Lambda:F4} +- {f.LambdaError:F4} on t in [{f.WindowStart}, {f.WindowEnd}] ({f.Points} points, R^2 {f.RSquared:F3}); lambda/(2 pi T) = {f.BoundRatio:F3}"));
+                }
+            }
+            foreach (var note in r.Notes) o.WriteLine($"  note: {note}");
+        }
+        o.WriteLine($"wrote {Path.Combine(outDir, stem + ".json")} and .csv");
+        return ExitCodes.Ok;
+    }
+
+    private static string OtocCsv(IEnumerable<ExactOtocResult> results)
+    {
+        var sb = new StringBuilder("beta,time,series,value,error\n");
+        foreach (var r in results)
+        {
+            void Add(OtocSeries s)
+            {
+                for (int k = 0; k < r.Times.Length; k++) sb.Append(FormattableString.Invariant($"{r.Beta:R},{r.Times[k]:R},\"{s.Probe}\",{s.Values[k]:R},{s.Errors[k]:R}\n"));
+            }
+            Add(r.Autocorrelation);
+            if (r.MeanSize is not null) Add(r.MeanSize);
+            foreach (var site in r.Sites)
+            {
+                Add(site.X);
+                Add(site.Y);
+                Add(site.Z);
+                Add(site.Mean);
+                Add(site.Weight);
+            }
+            foreach (var p in r.Probes) Add(p);
+        }
+        return sb.ToString();
+    }
+
+    private static int RunLevels(Model model, string path, IReadOnlyDictionary<string, string> overrides, Settings s, string outDir, int threads, ILogger log)
+    {
+        int k = ParseInt(s.Realizations, "--realizations", 1, 100_000);
+        var hs = new List<Hamiltonian> { model.Hamiltonian };
+        if (k > 1)
+        {
+            if (!model.Parameters.TryGetValue("seed", out double seed0))
+            {
+                throw new InputException(path, 0, "found --realizations > 1 but the model has no 'seed' parameter; expected a disordered model with a seed parameter");
+            }
+            for (int i = 1; i < k; i++)
+            {
+                var ov = new Dictionary<string, string>(overrides) { ["seed"] = (seed0 + i).ToString(Inv) };
+                hs.Add(ModelLoader.Load(path, ov).Hamiltonian);
+            }
+        }
+        IReadOnlyList<string>? resolve = s.Resolve switch
+        {
+            null => null,
+            "none" => [],
+            _ => s.Resolve.Split(',', StringSplitOptions.RemoveEmptyEntries | StringSplitOptions.TrimEntries),
+        };
+        var r = LevelStatistics.Analyze(hs, new LevelStatisticsOptions
+        {
+            DeclaredSymmetries = model.Symmetries,
+            Resolve = resolve,
+            CentralFraction = ParseDouble(s.Fraction, "--central-fraction", 1e-3, 1),
+            Threads = threads,
+            Logger = log,
+        });
+        var doc = new { model = model.Name, source = model.SourceFile, n = model.N, parameters = model.Parameters, mode = "levels", result = r };
+        AtomicFile.WriteJson(Path.Combine(outDir, "exact-levels.json"), doc);
+        var sb = new StringBuilder("sector,dimension,gaps,mean_ratio,standard_error,degeneracies\n");
+        foreach (var sec in r.Sectors) sb.Append(FormattableString.Invariant($"\"{sec.Label}\",{sec.Dimension},{sec.Gaps},{sec.MeanRatio:R},{sec.StandardError:R},{sec.Degeneracies}\n"));
+        AtomicFile.WriteAllText(Path.Combine(outDir, "exact-levels.csv"), sb.ToString());
+        var o = CliHost.Out;
+        o.WriteLine(FormattableString.Invariant($"{model.Name} N={model.N}: <r> = {r.MeanRatio:F4} +- {r.StandardError:F4} over {r.Gaps} gap ratios, {r.Realizations} realisation(s) ({r.WallSeconds:F1} s)"));
+        o.WriteLine(FormattableString.Invariant($"  reference: Poisson {r.Poisson:F4}, GOE {r.Goe:F4}, GUE {r.Gue:F4}; closest: {r.Closest}; blocks {(r.RealBlocks ? "real (GOE class)" : "complex (GUE class)")}; eigensolver {(NativeLapack.IsAvailable ? "LAPACK" : "managed")}"));
+        o.WriteLine($"  detected: {(r.Detected.Count == 0 ? "none" : string.Join(", ", r.Detected))}; resolved: {(r.Resolved.Count == 0 ? "none" : string.Join(", ", r.Resolved))}");
+        foreach (var sec in r.Sectors) o.WriteLine(FormattableString.Invariant($"  {sec.Label,-24} dim {sec.Dimension,6}  <r> {sec.MeanRatio:F4} +- {sec.StandardError:F4}"));
+        foreach (var wn in r.Warnings) o.WriteLine($"  warning: {wn}");
+        o.WriteLine($"wrote {Path.Combine(outDir, "exact-levels.json")} and .csv");
+        return ExitCodes.Ok;
+    }
+
+    // ---- parsing (raw tokens, so that a bad value is an input error, not a crash) ----
+
+    private static PauliString ParsePauli(string text, int n, string opt)
+    {
+        if (!PauliString.TryParse(text, n, out var p, out string? err)) throw new InputException($"{opt}: {err}");
+        return p!;
+    }
+
+    private static int[]? ParseSites(string text, int n)
+    {
+        if (text == "all") return null;
+        if (text == "none") return [];
+        var r = new List<int>();
+        foreach (var part in text.Split(',', StringSplitOptions.RemoveEmptyEntries | StringSplitOptions.TrimEntries))
+        {
+            if (!int.TryParse(part, NumberStyles.Integer, Inv, out int j) || j < 0 || j >= n) throw new InputException($"--sites: found '{part}'; expected a site in 0..{n - 1}, 'all' or 'none'");
+            r.Add(j);
+        }
+        return [.. r.Distinct()];
+    }
+
+    private static double[] ParseTimes(string text)
+    {
+        var parts = text.Split(':');
+        if (parts.Length == 3)
+        {
+            double a = ParseDouble(parts[0], "--times start", 0, 1e6), b = ParseDouble(parts[1], "--times stop", 0, 1e6);
+            int c = ParseInt(parts[2], "--times count", 1, 100_000);
+            if (b < a) throw new InputException($"--times: found stop {b} before start {a}; expected START <= STOP");
+            return c == 1 ? [a] : Enumerable.Range(0, c).Select(i => a + (b - a) * i / (c - 1)).ToArray();
+        }
+        var list = ParseList(text, "--times");
+        for (int i = 1; i < list.Length; i++) if (list[i] < list[i - 1]) throw new InputException($"--times: found {list[i]} after {list[i - 1]}; expected ascending times");
+        if (list.Any(t => t < 0)) throw new InputException("--times: found a negative time; expected t >= 0");
+        return list;
+    }
+
+    private static double[] ParseList(string text, string opt)
+        => text.Split(',', StringSplitOptions.RemoveEmptyEntries | StringSplitOptions.TrimEntries).Select(p => ParseDouble(p, opt, double.MinValue, double.MaxValue)).ToArray() is { Length: > 0 } l
+            ? l : throw new InputException($"{opt}: found '{text}'; expected a comma-separated list of numbers");
+
+    private static (double, double) ParseRange(string text, string opt)
+    {
+        var p = text.Split(':');
+        if (p.Length != 2) throw new InputException($"{opt}: found '{text}'; expected LOW:HIGH");
+        double lo = ParseDouble(p[0], opt, 1e-300, 1), hi = ParseDouble(p[1], opt, 1e-300, 10);
+        if (hi <= lo) throw new InputException($"{opt}: found LOW {lo} >= HIGH {hi}; expected LOW < HIGH");
+        return (lo, hi);
+    }
+
+    private static double ParseDouble(string text, string opt, double min, double max)
+    {
+        if (!double.TryParse(text, NumberStyles.Float, Inv, out double v) || !double.IsFinite(v) || v < min || v > max)
+        {
+            throw new InputException($"{opt}: found '{text}'; expected a number in [{min.ToString(Inv)}, {max.ToString(Inv)}]");
+        }
+        return v;
+    }
+
+    private static int ParseInt(string text, string opt, int min, int max)
+    {
+        if (!int.TryParse(text, NumberStyles.Integer, Inv, out int v) || v < min || v > max) throw new InputException($"{opt}: found '{text}'; expected an integer in [{min}, {max}]");
+        return v;
+    }
+}

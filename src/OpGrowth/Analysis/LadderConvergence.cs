@@ -1,0 +1,36 @@
+namespace OpGrowth.Analysis;
+
+/// <summary>Compares the derived figures of the ladder's rungs (full budget first).</summary>
+public static class LadderConvergence
+{
+    /// <summary>One entry per figure.</summary>
+    public static List<FigureConvergence> Compare(IReadOnlyList<ScramblingFigures> rungs, double tolerance)
+    {
+        var pick = new (string Name, Func<ScramblingFigures, double?> Get)[]
+        {
+            ("butterflyVelocity", f => f.Butterfly?.Primary.Velocity),
+            ("sizeGrowthRateLinear", f => f.Growth.SizeLinear.Rate),
+            ("sizeGrowthRateExponential", f => f.Growth.SizeExponential.Rate),
+            ("otocGrowthRate", f => f.Growth.OtocExponential.Rate),
+            ("saturationMeanSize", f => f.Growth.Saturation),
+            ("scramblingTime", f => f.ScramblingTime.Value),
+            ("majoranaScramblingTime", f => f.MajoranaScramblingTime?.Value),
+        };
+        var list = new List<FigureConvergence>();
+        foreach (var (name, get) in pick)
+        {
+            var vals = rungs.Select(get).ToArray();
+            if (vals.All(v => v is null)) continue;
+            double? mv = vals.Length > 1 && vals[0] is double a && vals[1] is double b ? Math.Abs(a - b) : null;
+            double? pm = vals.Length > 2 && vals[1] is double b1 && vals[2] is double c ? Math.Abs(b1 - c) : null;
+            double? rel = mv is double m && vals[0] is double v0 && v0 != 0 ? m / Math.Abs(v0) : null;
+            bool ok = rel is double r && r <= tolerance;
+            string? note = null;
+            if (vals[0] is null) note = "not available at the full budget";
+            else if (mv is null) note = "not available at a smaller budget: cannot judge convergence";
+            else if (!ok) note = $"moved by {rel:P1} between the two largest budgets (tolerance {tolerance:P0}): not converged";
+            list.Add(new FigureConvergence { Figure = name, Values = vals, Movement = mv, PreviousMovement = pm, RelativeMovement = rel, Converged = ok, Note = note });
+        }
+        return list;
+    }
+}

@@ -1,0 +1,75 @@
+using System.Globalization;
+using OpGrowth.IO;
+using OpGrowth.Pauli;
+
+namespace OpGrowth.Evolution;
+
+/// <summary>
+/// Turns a memory budget into a string budget. Per kept string the engine holds: the operator twice
+/// (source and destination of a pass: 2 (K + 8) bytes for a K-byte key), plus the accumulated image
+/// of one pass, E distinct strings per kept string at about 1.5 (K + 8) + 12 bytes each (arrays grown
+/// by doubling, an open-addressing index at load &lt;= 1/2). E was measured on the mixed-field Ising
+/// chain with the default branch pruning (see docs/evolution.md); the engine also checks the real
+/// array sizes between blocks and never lets a pass grow past the budget: it reruns the pass with
+/// stronger pruning (booked as discarded weight) or stops with a resource-limit error.
+/// A fixed reserve covers the runtime, emit buffers and observables.
+/// </summary>
+public static class MemoryBudget
+{
+    /// <summary>Distinct strings in one pass's image per kept string (measured, see docs/evolution.md).</summary>
+    public const double PassExpansion = 3.0;
+
+    /// <summary>Bytes set aside for the runtime itself (not available to the arrays).</summary>
+    public const long RuntimeReserve = 96L << 20;
+
+    /// <summary>Bytes set aside per worker thread for emit buffers.</summary>
+    public const long BufferReservePerThread = 24L << 20;
+
+    /// <summary>Estimated bytes per kept string on <paramref name="n"/> qubits, transient pass overhead included.</summary>
+    public static double BytesPerString(int n)
+    {
+        int entry = PauliWidth.KeyBytes(n) + 8;
+        return 2.0 * entry + PassExpansion * (1.5 * entry + 12);
+    }
+
+    /// <summary>Bytes available to the engine's arrays out of a budget.</summary>
+    public static long ArrayBytes(long budget, int threads) => budget - RuntimeReserve - threads * BufferReservePerThread;
+
+    /// <summary>The largest string count that fits a budget.</summary>
+    public static long MaxStringsFor(long budget, int n, int threads)
+        => Math.Max(0, (long)(ArrayBytes(budget, threads) / BytesPerString(n)));
+
+    /// <summary>Default budget: half of the memory available to this process.</summary>
+    public static long DefaultBytes() => GC.GetGCMemoryInfo().TotalAvailableMemoryBytes / 2;
+
+    /// <summary>Parses "8GiB", "512MiB", "2GB", "750MB", "1.5G", or a plain byte count.</summary>
+    public static long Parse(string text)
+    {
+        string t = text.Trim();
+        int i = 0;
+        while (i < t.Length && (char.IsDigit(t[i]) || t[i] == '.' || t[i] == 'e' || t[i] == 'E' || t[i] == '+')) i++;
+        string num = t[..i], unit = t[i..].Trim().ToUpperInvariant();
+        if (!double.TryParse(num, NumberStyles.Float, CultureInfo.InvariantCulture, out double v) || v <= 0 || !double.IsFinite(v))
+        {
+            throw new InputException($"memory budget '{text}': found no positive number; expected a size such as 8GiB, 512MiB or 2GB");
+        }
+        double mult = unit switch
+        {
+            "" or "B" => 1,
+            "K" or "KB" => 1e3,
+            "KIB" => 1024,
+            "M" or "MB" => 1e6,
+            "MIB" => 1 << 20,
+            "G" or "GB" => 1e9,
+            "GIB" => 1 << 30,
+            "T" or "TB" => 1e12,
+            "TIB" => 1L << 40,
+            _ => throw new InputException($"memory budget '{text}': found unit '{t[i..].Trim()}'; expected B, KiB, MiB, GiB, TiB, KB, MB, GB or TB"),
+        };
+        return (long)(v * mult);
+    }
+
+    /// <summary>Human-readable bytes (GiB/MiB).</summary>
+    public static string Format(long bytes)
+        => bytes >= 1L << 30 ? $"{bytes / (double)(1L << 30):0.##} GiB" : $"{bytes / (double)(1L << 20):0.#} MiB";
+}

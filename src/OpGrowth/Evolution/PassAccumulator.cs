@@ -1,0 +1,167 @@
+using System.Runtime.CompilerServices;
+using OpGrowth.Pauli;
+
+namespace OpGrowth.Evolution;
+
+/// <summary>
+/// The evolution engine's accumulator: the same partitioned open-addressing design as
+/// <see cref="PauliAccumulator{T}"/> (partition = top hash bits, linear probing at load &lt;= 1/2,
+/// dense key/value arrays in insertion order), but <see cref="Clear"/> keeps every array, so a run
+/// that applies thousands of passes allocates only while its operator is still growing. This is
+/// what makes the memory of a run predictable (the budget check reads <see cref="AllocatedBytes"/>)
+/// and keeps the garbage collector out of the step loop.
+/// </summary>
+internal sealed class PassAccumulator<T> where T : unmanaged, IPauliKey<T>
+{
+    internal readonly Part[] Parts;
+
+    /// <summary>log2 of the partition count.</summary>
+    public int PartitionBits { get; }
+
+    internal readonly int Shift;
+
+    public PassAccumulator(int partitionBits)
+    {
+        ArgumentOutOfRangeException.ThrowIfLessThan(partitionBits, 1);
+        ArgumentOutOfRangeException.ThrowIfGreaterThan(partitionBits, 16);
+        PartitionBits = partitionBits;
+        Shift = 64 - partitionBits;
+        Parts = new Part[1 << partitionBits];
+        for (int i = 0; i < Parts.Length; i++) Parts[i] = new Part();
+    }
+
+    /// <summary>Distinct strings held.</summary>
+    public long Count
+    {
+        get
+        {
+            long c = 0;
+            foreach (var p in Parts) c += p.Count;
+            return c;
+        }
+    }
+
+    /// <summary>Bytes held by the arrays (capacity).</summary>
+    public long AllocatedBytes
+    {
+        get
+        {
+            long b = 0;
+            foreach (var p in Parts) b += p.AllocatedBytes;
+            return b;
+        }
+    }
+
+    /// <summary>Bytes one stored entry costs at worst: key + value at array capacity up to twice the count, plus 4 slots of 4 bytes.</summary>
+    public static int WorstBytesPerEntry => 2 * Unsafe.SizeOf<Entry>() + 16;
+
+    /// <summary>Forgets the content, keeps the capacity.</summary>
+    public void Clear()
+    {
+        foreach (var p in Parts) p.Clear();
+    }
+
+    /// <summary>Adds one contribution.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    public void Add(in T key, double value)
+    {
+        ulong h = key.Hash64;
+        Parts[(int)(h >> Shift)].Add(key, value, h);
+    }
+
+    /// <summary>this += a * O.</summary>
+    public void AddScaled(PauliOperator<T> o, double a)
+    {
+        var k = o.Keys;
+        var c = o.Coefficients;
+        for (int i = 0; i < k.Length; i++) Add(k[i], a * c[i]);
+    }
+
+    /// <summary>Partition bits for an expected number of strings: about 4096 strings per partition (L2-sized tables).</summary>
+    public static int BitsFor(long expectedStrings)
+    {
+        int bits = 4;
+        while (bits < 16 && (expectedStrings >> bits) > 4096) bits++;
+        return bits;
+    }
+
+    /// <summary>A key and its accumulated value, stored together (one cache line touched per update).</summary>
+    internal struct Entry
+    {
+        public T Key;
+        public double Val;
+    }
+
+    internal sealed class Part
+    {
+        public Entry[] Entries = new Entry[16];
+        public int Count;
+        private int[] _slots = new int[32];
+        private int _mask = 31;
+
+        public long AllocatedBytes => (long)Entries.Length * Unsafe.SizeOf<Entry>() + (long)_slots.Length * 4;
+
+        public void Clear()
+        {
+            if (Count == 0) return;
+            Array.Clear(_slots);
+            Count = 0;
+        }
+
+        /// <summary>Hints the cache line of the slot a hash probes first.</summary>
+        [MethodImpl(MethodImplOptions.AggressiveInlining)]
+        public unsafe void Prefetch(ulong h)
+        {
+            if (System.Runtime.Intrinsics.X86.Sse.IsSupported)
+            {
+                fixed (int* p = &_slots[(int)h & _mask]) System.Runtime.Intrinsics.X86.Sse.Prefetch0(p);
+            }
+        }
+
+        [MethodImpl(MethodImplOptions.AggressiveInlining)]
+        public void Add(in T key, double value, ulong h)
+        {
+            int[] slots = _slots;
+            int mask = _mask;
+            Entry[] entries = Entries;
+            int i = (int)h & mask;
+            while (true)
+            {
+                int s = slots[i];
+                if (s == 0) break;
+                ref Entry e = ref entries[s - 1];
+                if (e.Key.Equals(key))
+                {
+                    e.Val += value;
+                    return;
+                }
+                i = (i + 1) & mask;
+            }
+            Insert(key, value, i);
+        }
+
+        private void Insert(in T key, double value, int slot)
+        {
+            if (Count == Entries.Length) Array.Resize(ref Entries, Entries.Length * 2);
+            ref Entry e = ref Entries[Count];
+            e.Key = key;
+            e.Val = value;
+            _slots[slot] = ++Count;
+            if (2 * Count > _mask + 1) Rehash((_mask + 1) * 2);
+        }
+
+        private void Rehash(int size)
+        {
+            var slots = new int[size];
+            int mask = size - 1;
+            for (int e = 0; e < Count; e++)
+            {
+                int i = (int)Entries[e].Key.Hash64 & mask;
+                while (slots[i] != 0) i = (i + 1) & mask;
+                slots[i] = e + 1;
+            }
+            _slots = slots;
+            _mask = mask;
+        }
+    }
+}

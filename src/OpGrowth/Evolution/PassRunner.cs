@@ -1,0 +1,177 @@
+using System.Runtime.CompilerServices;
+using OpGrowth.Pauli;
+
+namespace OpGrowth.Evolution;
+
+/// <summary>
+/// Runs one linear map over an operator into a <see cref="PassAccumulator{T}"/>, on several threads
+/// without locks, with the same determinism contract as <see cref="PauliMapper"/>: input is cut
+/// into blocks, each block into one contiguous slice per thread, each thread emits into its own
+/// partitioned buffer, and each target partition is merged by one thread reading the buffers in
+/// slice order. Every string's contributions are therefore summed in input order at any thread
+/// count (bit-identical results at 1 and 2 threads).
+/// Unlike <see cref="PauliMapper"/> it keeps its emit buffers between passes (no reallocation in the
+/// step loop), checks a memory limit between blocks and honours cancellation between blocks.
+/// </summary>
+internal sealed class PassRunner<T> where T : unmanaged, IPauliKey<T>
+{
+    /// <summary>Smallest block of input strings.</summary>
+    public const int MinBlock = 8192;
+
+    /// <summary>
+    /// Contributions buffered per block (all threads). Large blocks make each partition's table
+    /// L2-resident while it is merged (a block must emit about as many contributions as the table
+    /// holds, or every update misses the cache); the block size does not change any result.
+    /// </summary>
+    public const long TargetBlockEmissions = 1 << 21;
+
+    private double _emitPerInput = 4;
+
+    /// <summary>Contributions per input string in the last pass (sets the block size; checkpointed so a resumed run blocks the same way).</summary>
+    public double EmitPerInput
+    {
+        get => _emitPerInput;
+        set => _emitPerInput = value;
+    }
+
+    private readonly int _threads;
+    private EmitBuffer<T>[] _buffers = [];
+
+    public PassRunner(int threads)
+    {
+        ArgumentOutOfRangeException.ThrowIfLessThan(threads, 1);
+        _threads = threads;
+    }
+
+    /// <summary>Threads used.</summary>
+    public int Threads => _threads;
+
+    /// <summary>Bytes held by the emit buffers.</summary>
+    public long BufferBytes
+    {
+        get
+        {
+            long b = 0;
+            int entry = Unsafe.SizeOf<EmitBuffer<T>.Entry>();
+            foreach (var buf in _buffers)
+            {
+                foreach (var e in buf.Streams) b += (long)e.Length * entry;
+            }
+            return b;
+        }
+    }
+
+    /// <summary>
+    /// Accumulates map(source) into <paramref name="target"/>. Returns false, leaving the target
+    /// partially filled, when the target's arrays grow beyond <paramref name="byteLimit"/> bytes.
+    /// </summary>
+    public bool Run<TMap>(T[] keys, double[] coeffs, int count, TMap map, PassAccumulator<T> target, long byteLimit, CancellationToken ct)
+        where TMap : struct, IPauliMap<T>
+        => Run(keys, coeffs, count, map, target, byteLimit, ct, out _);
+
+    /// <summary>As above; <paramref name="emitted"/> counts the contributions emitted (independent of the thread count).</summary>
+    public bool Run<TMap>(T[] keys, double[] coeffs, int count, TMap map, PassAccumulator<T> target, long byteLimit, CancellationToken ct, out long emitted, int[]? stop = null)
+        where TMap : struct, IPauliMap<T>
+    {
+        emitted = 0;
+        if (count == 0) return true;
+        int threads = Math.Min(_threads, Math.Max(1, count / 1024));
+        EnsureBuffers();
+        foreach (var buf in _buffers) buf.Reset(target.Shift, threads);
+        var options = new ParallelOptions { MaxDegreeOfParallelism = threads, CancellationToken = ct };
+        int checkEvery = 1;
+        int block = 0;
+        // Block size from the previous pass's emissions per input; never so large that one block could
+        // overshoot the byte limit by much (the limit is checked between blocks).
+        long perEntry = Unsafe.SizeOf<PassAccumulator<T>.Entry>() + 16;
+        long byBytes = Math.Max(1024, byteLimit / 4 / perEntry);
+        int blockSize = (int)Math.Clamp(Math.Min(TargetBlockEmissions, byBytes) / Math.Max(1.0, _emitPerInput), 1024, 1 << 16);
+        for (int b0 = 0; b0 < count; b0 += blockSize, block++)
+        {
+            ct.ThrowIfCancellationRequested();
+            int b1 = Math.Min(count, b0 + blockSize);
+            if (threads == 1 || b1 - b0 < 1024)
+            {
+                Produce(keys, coeffs, b0, b1, map, _buffers[0], stop);
+                for (int t = 1; t < threads; t++) Array.Clear(_buffers[t].Counts);
+            }
+            else
+            {
+                int start = b0, len = b1 - b0;
+                var buffers = _buffers;
+                Parallel.For(0, threads, options, t =>
+                {
+                    int s = start + (int)((long)len * t / threads);
+                    int e = start + (int)((long)len * (t + 1) / threads);
+                    Produce(keys, coeffs, s, e, map, buffers[t], stop);
+                });
+            }
+            if (stop is not null && Volatile.Read(ref stop[0]) != 0) return false;
+            for (int t = 0; t < threads; t++)
+            {
+                var counts = _buffers[t].Counts;
+                for (int p = 0; p < counts.Length; p++) emitted += counts[p];
+            }
+            Merge(target, threads, options);
+            if (block % checkEvery == 0 && target.AllocatedBytes > byteLimit) return false;
+        }
+        _emitPerInput = Math.Max(1.0, emitted / (double)count);
+        return true;
+    }
+
+    private void EnsureBuffers()
+    {
+        if (_buffers.Length == _threads) return;
+        _buffers = new EmitBuffer<T>[_threads];
+        for (int t = 0; t < _threads; t++) _buffers[t] = new EmitBuffer<T>();
+    }
+
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
+    private static void Produce<TMap>(T[] keys, double[] coeffs, int start, int end, TMap map, EmitBuffer<T> sink, int[]? stop)
+        where TMap : struct, IPauliMap<T>
+    {
+        Array.Clear(sink.Counts);
+        for (int i = start; i < end; i++)
+        {
+            map.Apply(keys[i], coeffs[i], sink);
+            if (stop is not null && (i & 63) == 0 && Volatile.Read(ref stop[0]) != 0) return;
+        }
+    }
+
+    private void Merge(PassAccumulator<T> target, int threads, ParallelOptions options)
+    {
+        var buffers = _buffers;
+        if (threads == 1)
+        {
+            MergeOwner(buffers, threads, target, 0);
+            return;
+        }
+        // Each owner thread merges the partitions it owns (p % threads), reading the buffers in slice order.
+        Parallel.For(0, threads, options, u => MergeOwner(buffers, threads, target, u));
+    }
+
+    private const int Ahead = 8;
+
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
+    private static void MergeOwner(EmitBuffer<T>[] buffers, int threads, PassAccumulator<T> target, int owner)
+    {
+        var parts = target.Parts;
+        int shift = target.Shift;
+        for (int b = 0; b < threads; b++)
+        {
+            var buf = buffers[b];
+            var entries = buf.Streams[owner];
+            int c = buf.Counts[owner];
+            for (int i = 0; i < c; i++)
+            {
+                if (i + Ahead < c)
+                {
+                    ulong ha = entries[i + Ahead].Hash;
+                    parts[(int)(ha >> shift)].Prefetch(ha);
+                }
+                ref var e = ref entries[i];
+                parts[(int)(e.Hash >> shift)].Add(e.Key, e.Value, e.Hash);
+            }
+        }
+    }
+}

@@ -1,0 +1,31 @@
+using Microsoft.Extensions.Logging;
+
+namespace OpGrowth.Exact;
+
+/// <summary>Settings of <see cref="LevelStatistics.Analyze(OpGrowth.Pauli.Hamiltonian, LevelStatisticsOptions?)"/>.</summary>
+public sealed record LevelStatisticsOptions
+{
+    /// <summary>Symmetries the model declares (names as in model files: "total-z", "reflection", "spin-flip", others are reported as unresolved).</summary>
+    public IReadOnlyList<string> DeclaredSymmetries { get; init; } = [];
+
+    /// <summary>Symmetries to resolve; null = every supported symmetry that H is detected to have.</summary>
+    public IReadOnlyList<string>? Resolve { get; init; }
+
+    /// <summary>Fraction of each sector's levels kept around the middle of its spectrum (common practice: drop the edges, where the density of states is low).</summary>
+    public double CentralFraction { get; init; } = 0.8;
+
+    /// <summary>Sectors smaller than this are skipped (too few gaps to matter).</summary>
+    public int MinimumSectorDimension { get; init; } = 32;
+
+    /// <summary>Largest sector dimension diagonalised (memory ~ 8 d^2 bytes, time ~ d^3).</summary>
+    public int MaximumSectorDimension { get; init; } = 12_000;
+
+    /// <summary>Threads for the dense reduction.</summary>
+    public int Threads { get; init; }
+
+    /// <summary>Use LAPACK when the system library is present.</summary>
+    public bool UseNative { get; init; } = true;
+
+    /// <summary>Progress log (optional).</summary>
+    public ILogger? Logger { get; init; }
+}

@@ -1,0 +1,75 @@
+using OpGrowth.Reporting;
+
+namespace OpGrowth.Pipeline;
+
+/// <summary>The report's figures from a run's results (each only when its stage produced data).</summary>
+public static class RunFigures
+{
+    /// <summary>All figures: size distribution, mean size, light cone, b_n, Krylov complexity, Pauli vs exact.</summary>
+    public static List<FigureImage> All(ScramblingRunResult r)
+    {
+        var list = new List<FigureImage>();
+        var size = FigureSize.Report;
+        if (r.Evolution is { } evo && evo.Figures.Count > 0 && evo.Main.Records.Count > 1)
+        {
+            var recs = evo.Main.Records;
+            var fig = evo.Figures[0];
+            int n = evo.N;
+            double[] times = recs.Select(x => x.Time).ToArray();
+            double[] mean = recs.Select(x => x.MeanSize).ToArray();
+            var w = new double[n + 1, times.Length];
+            for (int i = 0; i < times.Length; i++)
+                for (int k = 0; k <= n && k < recs[i].SizeDistribution.Length; k++) w[k, i] = recs[i].SizeDistribution[k];
+            list.Add(Charts.SizeDistribution(new SizeDistributionSeries(times, w) { MeanSize = mean }, size));
+
+            var ladder = evo.Rungs.Skip(1).Select(s => new LadderCurve(s.Budget.MaxStrings ?? 0, s.Records.Select(x => x.Time).ToArray(), s.Records.Select(x => x.MeanSize).ToArray())).ToList();
+            var ts = fig.ScramblingTime;
+            var tsHeadline = r.Headlines.FirstOrDefault(h => h.Name == "scrambling time t*");
+            list.Add(Charts.MeanSize(new MeanSizeSeries(times, mean, fig.Growth.SaturationExpected)
+            {
+                ScramblingTime = tsHeadline?.Value,
+                ScramblingLevel = ts.Target,
+                Ladder = ladder,
+                Budget = evo.Main.Budget.MaxStrings,
+            }, size));
+
+            var rho = new double[n, times.Length];
+            for (int i = 0; i < times.Length; i++)
+                for (int j = 0; j < n; j++) rho[j, i] = recs[i].SiteWeights[j];
+            FrontFit? front = null;
+            if (fig.Butterfly?.Primary is { Velocity: double v, Intercept: double c } p && r.Headlines.FirstOrDefault(h => h.Name == "butterfly velocity v_B") is { } vb)
+                front = new FrontFit(vb.Value, c, p.Threshold);
+            list.Add(Charts.LightCone(new LightConeMap(times, Enumerable.Range(0, n).Select(j => (double)j).ToArray(), rho)
+            {
+                Quantity = "ρ_j(t)",
+                Origin = evo.ProbeSites.Length > 0 ? evo.ProbeSites[0] : 0,
+                Front = r.Model.Lattice.IsOneDimensional ? front : null,
+                ScaleMax = 0.75,
+            }, size));
+        }
+        if (r.Lanczos is { } lz && lz.B.Count > 0)
+        {
+            GrowthCurve? curve = null;
+            if (r.Krylov?.Growth is { } g)
+            {
+                double[] ns = Enumerable.Range(g.WindowStart, g.WindowEnd - g.WindowStart + 1).Select(x => (double)x).ToArray();
+                curve = new GrowthCurve(g.Best.Class.ToString(), ns, ns.Select(x => g.Best.Evaluate(x)).ToArray())
+                {
+                    Rate = r.Headlines.FirstOrDefault(h => h.Name == "Lanczos slope alpha")?.Value,
+                };
+            }
+            list.Add(Charts.Lanczos(new LanczosSeries(lz.B.ToArray()) { Spread = lz.Uncertainty.Select(u => double.IsNaN(u) ? 0 : u).ToArray(), Fit = curve }, size));
+            if (r.Krylov?.Chain is { } chain)
+                list.Add(Charts.Krylov(new KrylovSeries(chain.Times.ToArray(), chain.Complexity.ToArray(), chain.Autocorrelation.ToArray()), size));
+        }
+        if (r.CrossCheck is { Ran: true } x && x.Times.Length > 1)
+        {
+            list.Add(Charts.PauliVersusExact(new OverlaySeries(x.Times, x.PauliAutocorrelation, x.ExactAutocorrelation, $"autocorrelation C(t), N = {x.N}")
+            {
+                Tolerance = x.Tolerance,
+                LogDifference = true,
+            }, size));
+        }
+        return list;
+    }
+}

@@ -1,0 +1,378 @@
+using System.Diagnostics;
+using System.Globalization;
+using OpGrowth.Analysis;
+using OpGrowth.IO;
+using OpGrowth.Krylov;
+using OpGrowth.Reporting;
+
+namespace OpGrowth.Pipeline;
+
+/// <summary>Turns a <see cref="ScramblingRunResult"/> into the report folder: figures, report.html/.md, results.json, manifest.json.</summary>
+public static class RunReport
+{
+    private static readonly CultureInfo Inv = CultureInfo.InvariantCulture;
+
+    /// <summary>File name of the machine-readable results.</summary>
+    public const string ResultsFileName = "results.json";
+
+    /// <summary>Top-level keys of results.json (documented in docs/run.md).</summary>
+    public static readonly IReadOnlyList<string> ResultKeys =
+    [
+        "format", "toolVersion", "created", "model", "options", "effort", "seeds", "threads", "completed", "stopReason",
+        "headline", "evolution", "lanczos", "crossCheck", "diagnosis", "sweep", "verdicts", "checks", "cautions", "notes",
+        "timingsSeconds", "files",
+    ];
+
+    private static double Q(double? a, double? b) => Math.Sqrt(Sq(a) + Sq(b));
+
+    private static double Sq(double? x) => x is double v && double.IsFinite(v) ? v * v : 0;
+
+    private static FitWindow? Win(double? a, double? b, string v = "t")
+        => a is double x && b is double y && double.IsFinite(x) && double.IsFinite(y) && y >= x ? new FitWindow(x, y, v) : null;
+
+    /// <summary>Headline figures: v_B (1D) or size growth rate, t*, saturation, Lanczos alpha and 2 alpha, exact agreement.</summary>
+    public static List<HeadlineFigure> Headlines(ScramblingRunResult r)
+    {
+        var list = new List<HeadlineFigure>();
+        var evo = r.Evolution;
+        if (evo is not null && evo.Figures.Count > 0)
+        {
+            var fig = evo.Figures[0];
+            FigureConvergence? C(string name) => evo.Convergence.FirstOrDefault(c => c.Figure == name);
+            bool Conv(string name) => C(name)?.Converged ?? false;
+            string? Note(string name) => C(name) is { } c ? c.Note : "no convergence ladder for this figure";
+            if (fig.Butterfly?.Primary is { Velocity: double v } p)
+            {
+                var c = C("butterflyVelocity");
+                list.Add(new HeadlineFigure("butterfly velocity v_B",
+                    new Measured(v, Q(p.VelocityError, c?.Movement), FormattableString.Invariant($"front r(t) at site weight >= {p.Threshold:0.###}, distances {p.MinDistance}..{p.MaxDistance}; uncertainty = fit error and ladder movement in quadrature"),
+                        Win(p.WindowStart, p.WindowEnd), "sites/time"), Conv("butterflyVelocity")) { Note = Note("butterflyVelocity") });
+            }
+            else
+            {
+                var g = fig.Growth;
+                bool expo = g.Regime.Contains("exp", StringComparison.OrdinalIgnoreCase);
+                var (fit, key, label) = expo && g.SizeExponential.Rate is not null
+                    ? (g.SizeExponential, "sizeGrowthRateExponential", "size growth rate lambda (n ~ e^{lambda t})")
+                    : (g.SizeLinear, "sizeGrowthRateLinear", "size growth rate dn/dt");
+                if (fit.Rate is double rate)
+                {
+                    list.Add(new HeadlineFigure(label,
+                        new Measured(rate, Q(fit.RateError, C(key)?.Movement), $"fit of the mean size ({g.Regime}); uncertainty = fit error and ladder movement in quadrature",
+                            Win(fit.WindowStart, fit.WindowEnd), "1/time"), Conv(key)) { Note = Note(key) });
+                }
+            }
+            var ts = fig.ScramblingTime;
+            if (ts.Value is double tv)
+            {
+                list.Add(new HeadlineFigure("scrambling time t*",
+                    new Measured(tv, Q(ts.GridUncertainty, C("scramblingTime")?.Movement), $"{ts.Definition}; uncertainty = time grid and ladder movement in quadrature", null, "time"),
+                    Conv("scramblingTime")) { Note = Note("scramblingTime") });
+            }
+            var gr = fig.Growth;
+            if (gr.Saturation is double s)
+            {
+                list.Add(new HeadlineFigure("saturation mean size",
+                    new Measured(s, Q(gr.SaturationSpread, C("saturationMeanSize")?.Movement),
+                        FormattableString.Invariant($"late-time mean size; a random operator has {gr.SaturationExpected:0.###} (3N/4), ratio {gr.SaturationRatio ?? double.NaN:0.###}"),
+                        gr.SaturationWindowStart is double w0 ? Win(w0, evo.Main.Records[^1].Time) : null, "sites"), Conv("saturationMeanSize")) { Note = Note("saturationMeanSize") });
+            }
+        }
+        if (r.Krylov?.Growth is { } lg && r.Lanczos is { } lz)
+        {
+            bool conv = LanczosConverged(lz, lg.WindowStart, lg.WindowEnd);
+            var w = new FitWindow(lg.WindowStart, lg.WindowEnd, "n");
+            list.Add(new HeadlineFigure("Lanczos slope alpha",
+                new Measured(lg.Alpha, lg.AlphaError, $"linear slope of b_n; best growth class {lg.Best.Class} ({lg.Best.Formula})", w), conv)
+            { Note = conv ? null : "b_n in the window moved by more than 5% between string budgets" });
+            list.Add(new HeadlineFigure("bound on lambda_L (2 alpha)",
+                new Measured(lg.LyapunovBound, 2 * lg.AlphaError, "lambda_L <= 2 alpha from the b_n slope", w, "1/time"), conv));
+        }
+        if (r.CrossCheck is { Ran: true } x)
+        {
+            list.Add(new HeadlineFigure("Pauli vs exact agreement",
+                Measured.Exact(Math.Max(x.MaxOtocDifference, x.MaxAutocorrelationDifference),
+                    $"max |Delta F| and |Delta C| over times, sites and X/Y/Z at N = {x.N} (tolerance {x.Tolerance.ToString("G3", Inv)})"), x.Passed));
+        }
+        return list;
+    }
+
+    /// <summary>True when every b_n in the window agrees across budgets within 5% (common practice).</summary>
+    public static bool LanczosConverged(LanczosEstimate lz, int from, int to)
+    {
+        for (int n = Math.Max(1, from); n <= Math.Min(to, lz.B.Count); n++)
+        {
+            double u = lz.Uncertainty[n - 1];
+            if (double.IsNaN(u) || u > 0.05 * Math.Abs(lz.B[n - 1])) return false;
+        }
+        return true;
+    }
+
+    /// <summary>Writes every file of the report and returns the result with headlines, verdicts, checks, files and timings.</summary>
+    public static ScramblingRunResult Write(ScramblingRunResult r, List<string> dataFiles, Dictionary<string, double> timings, Stopwatch clock)
+    {
+        var headlines = Headlines(r);
+        var verdicts = Verdicts(r);
+        var checks = Checks(r);
+        var cautions = Cautions(r);
+        var doc = new ReportDocument($"Scrambling report: {r.Model.Name}")
+        {
+            Subtitle = $"Does {r.Problem.Initial[0].String} scramble under {r.Model.Name}, how fast, and can the answer be trusted?",
+            Created = DateTimeOffset.UtcNow,
+            VerdictSummary = Summary(r, headlines),
+        };
+        doc.AddModel("name", r.Model.Name).AddModel("description", r.Model.Description).AddModel("file", r.ModelFile)
+           .AddModel("lattice", $"{r.Model.Lattice.Kind}, N = {r.Model.N} qubits")
+           .AddModel("dynamics", r.Model.IsDriven ? $"periodic drive, period {r.Model.Drive!.Period.ToString("G6", Inv)}" : $"Hamiltonian with {r.Model.Hamiltonian.Terms.Count} terms")
+           .AddModel("probe", r.Problem.Initial[0].String.ToString())
+           .AddModel("parameters", string.Join(", ", r.Model.Parameters.Select(kv => $"{kv.Key} = {kv.Value.ToString("G6", Inv)}")))
+           .AddModel("symmetries", r.Model.Symmetries.Count == 0 ? "none declared" : string.Join(", ", r.Model.Symmetries))
+           .AddModel("effort", $"{r.Options.Effort.ToString().ToLowerInvariant()}: t = {r.EvolutionOptions.Time.ToString(Inv)}, dt = {r.EvolutionOptions.Dt.ToString(Inv)}, {r.EvolutionOptions.LadderRungs} ladder rung(s) from {r.Preset.MaxStrings:N0} strings, Lanczos depth {r.Preset.LanczosDepth}")
+           .AddModel("status", r.Completed ? "completed" : $"stopped early ({r.StopReason}); finished stages are reported");
+        foreach (var h in headlines) doc.Headlines.Add(h);
+        foreach (var v in verdicts) doc.Verdicts.Add(v);
+        foreach (var c in checks) doc.Checks.Add(c);
+        foreach (var c in cautions) doc.Cautions.Add(c);
+        foreach (var f in RunFigures.All(r with { Headlines = headlines })) doc.Figures.Add(f);
+        foreach (var d in dataFiles) doc.DataFiles.Add(new DataFileEntry(d, Describe(d)));
+        doc.DataFiles.Add(new DataFileEntry(ResultsFileName, "every headline figure, window, uncertainty, option and seed"));
+        doc.DataFiles.Add(new DataFileEntry(ManifestWriter.FileName, "tool version, model file SHA-256, options, seeds, threads, timings, file hashes"));
+
+        var written = ReportWriter.Write(doc, r.Folder);
+        timings["report"] = clock.Elapsed.TotalSeconds;
+        clock.Restart();
+        var files = new List<string>(dataFiles);
+        files.AddRange(written.RelativePaths);
+        files.Add(ResultsFileName);
+
+        var withReport = r with
+        {
+            Headlines = headlines,
+            Verdicts = verdicts,
+            Checks = checks,
+            FigureCount = doc.Figures.Count,
+            TimingsSeconds = timings,
+            Files = files.Append(ManifestWriter.FileName).ToList(),
+        };
+        AtomicFile.WriteJson(Path.Combine(r.Folder, ResultsFileName), ResultsJson(withReport, cautions));
+        ManifestWriter.Write(r.Folder, new RunManifest
+        {
+            Command = "run",
+            ModelFile = r.ModelFile,
+            ModelSha256 = ManifestWriter.Sha256OfFile(r.ModelFile),
+            Options = OptionsJson(withReport),
+            Seeds = r.Model.Seeds,
+            Threads = r.Options.Threads,
+            TimingsSeconds = timings,
+        }, files);
+        return withReport;
+    }
+
+    private static string Describe(string path) => Path.GetFileName(path) switch
+    {
+        "evolution.csv" => "per record: strings, norm, discarded weight, autocorrelation, mean size, front distance",
+        "size_distribution.csv" => "size distribution P_k(t), one column per size k",
+        "site_weights.csv" => "site weights rho_j(t) (OTOC light cone: 1 - F averaged over X, Y, Z = 4/3 rho_j)",
+        "ladder.csv" => "mean size for every string budget of the convergence ladder",
+        "lanczos.csv" => "Lanczos coefficients b_n with their spread across budgets",
+        "krylov.csv" => "autocorrelation C(t) and Krylov complexity K(t) from the b_n",
+        "cross_check.csv" => "autocorrelation from the Pauli engine and the exact engine at small N",
+        _ => "data",
+    };
+
+    private static string Summary(ScramblingRunResult r, List<HeadlineFigure> h)
+    {
+        var parts = new List<string>();
+        var evo = r.Evolution;
+        if (evo is not null && evo.Figures.Count > 0)
+        {
+            var g = evo.Figures[0].Growth;
+            var ts = evo.Figures[0].ScramblingTime;
+            parts.Add(ts.Value is double tv
+                ? FormattableString.Invariant($"The operator's mean size reaches 3N/8 at t* = {tv:0.##} and ")
+                : FormattableString.Invariant($"The operator's mean size does not reach 3N/8 = {ts.Target:0.##} within t = {evo.Main.Records[^1].Time:0.##}, and ")
+                );
+            parts[^1] += g.SaturationRatio is double sr ? FormattableString.Invariant($"saturates at {sr:0.##} of the random-operator value 3N/4.") : "has not saturated by the end of the run.";
+        }
+        foreach (var x in h.Where(x => x.Name.StartsWith("butterfly", StringComparison.Ordinal) || x.Name.StartsWith("size growth", StringComparison.Ordinal)))
+            parts.Add($"{x.Name}: {x.Value.FormatValue()}.");
+        if (r.Krylov?.Growth is { } lg) parts.Add($"The Lanczos coefficients fit best as class {lg.Best.Class}.");
+        if (r.CrossCheck is { } c) parts.Add(c.Ran ? (c.Passed ? $"The Pauli engine agrees with the exact engine at N = {c.N}." : $"The Pauli engine DISAGREES with the exact engine at N = {c.N}.") : "The exact cross-check was skipped: " + c.SkipReason + ".");
+        int nc = h.Count(x => !x.Converged);
+        if (nc > 0) parts.Add($"{nc} headline figure(s) are not converged under the ladder; treat them as estimates.");
+        return string.Join(" ", parts);
+    }
+
+    private static List<VerdictRow> Verdicts(ScramblingRunResult r)
+    {
+        var list = new List<VerdictRow>();
+        var evo = r.Evolution;
+        if (evo is not null && evo.Figures.Count > 0)
+        {
+            var fig = evo.Figures[0];
+            var g = fig.Growth;
+            double last = evo.Main.Records[^1].MeanSize;
+            double ratio = g.SaturationRatio ?? last / g.SaturationExpected;
+            string verdict = g.Saturation is not null && ratio >= 0.9 ? "scrambles" : fig.ScramblingTime.Value is not null ? "spreading (not yet saturated)" : "inconclusive";
+            list.Add(new VerdictRow("operator spreads to a random operator",
+                Measured.Exact(ratio, g.Saturation is not null ? "saturation mean size / (3N/4)" : "final mean size / (3N/4)"),
+                ">= 0.9 of 3N/4 at late times", verdict,
+                g.Saturation is not null ? $"the mean size settles at {ratio.ToString("0.###", Inv)} of a random operator's" : $"no plateau within t = {evo.Main.Records[^1].Time.ToString("0.##", Inv)}; run longer (--effort thorough) to see saturation"));
+            if (fig.Butterfly?.Primary is { Velocity: double v } p)
+            {
+                double err = p.VelocityError ?? double.NaN;
+                bool finite = !double.IsNaN(err) && v > 2 * err;
+                list.Add(new VerdictRow("ballistic operator front", new Measured(v, double.IsNaN(err) ? double.NaN : err, "fitted front velocity", Win(p.WindowStart, p.WindowEnd), "sites/time"),
+                    "v_B > 2 sigma", finite ? "yes" : "inconclusive", finite ? "the front moves at a finite speed" : "the velocity is not resolved from zero"));
+            }
+            list.Add(new VerdictRow("growth regime of the mean size", Measured.Exact(g.SizeLinear.Rate ?? double.NaN, "linear growth rate dn/dt"), "regime of the best fit", g.Regime, g.RegimeReason));
+        }
+        if (r.Krylov?.Growth is { } lg)
+        {
+            string cls = lg.Best.Class.ToString();
+            string meaning = lg.Best.Class switch
+            {
+                GrowthClass.Linear or GrowthClass.LinearOverLog => "consistent with chaos (linear growth, with a log correction in 1D)",
+                GrowthClass.SquareRoot => "points to interacting integrable dynamics",
+                _ => "points to free (quadratic) dynamics",
+            };
+            list.Add(new VerdictRow("Lanczos growth class", new Measured(lg.Alpha, lg.AlphaError, "linear slope alpha", new FitWindow(lg.WindowStart, lg.WindowEnd, "n")),
+                "best AIC among linear, n/ln n, sqrt n, bounded", cls, $"{meaning}; delta AIC to the next class {lg.DeltaAic.ToString("0.#", Inv)}"));
+        }
+        list.Add(new VerdictRow("diagnosis battery", Measured.Exact(0, "diagnostic tests run"), "-", "not run",
+            "the diagnosis battery is not part of this build"));
+        if (r.Options.SweepSizes.Count > 0)
+            list.Add(new VerdictRow("t*(N) sweep", Measured.Exact(0, "sizes run"), "-", "not run", "the sweep stage is not part of this build"));
+        return list;
+    }
+
+    private static List<CheckRow> Checks(ScramblingRunResult r)
+    {
+        var list = new List<CheckRow>();
+        if (r.CrossCheck is { Ran: true } x)
+        {
+            string tol = $"<= {x.Tolerance.ToString("G3", Inv)} (both engines are exact to rounding here)";
+            list.Add(new CheckRow($"Pauli vs exact OTOCs F_j(t), N = {x.N}", Measured.Exact(x.MaxOtocDifference, "max |Delta F| over times, sites, X/Y/Z"), tol, x.MaxOtocDifference <= x.Tolerance));
+            list.Add(new CheckRow($"Pauli vs exact autocorrelation, N = {x.N}", Measured.Exact(x.MaxAutocorrelationDifference, "max |Delta C| over times"), tol, x.MaxAutocorrelationDifference <= x.Tolerance));
+        }
+        if (r.Evolution is { } evo && evo.Main.Records.Count > 0)
+        {
+            var last = evo.Main.Records[^1];
+            double budget = Math.Abs(last.NormSquared + last.DiscardedTotal - 1);
+            list.Add(new CheckRow("norm accounting: ||O(t)||^2 + discarded weight = 1", Measured.Exact(budget, "|norm + discarded - 1| at the last time"), "<= 1e-8 (rounding)", budget <= 1e-8));
+            foreach (var c in evo.Convergence.Where(c => c.Values.Any(v => v is not null)))
+                list.Add(new CheckRow($"ladder: {c.Figure}", Measured.Exact(c.Movement ?? double.NaN, "largest movement between the full and smaller budgets"),
+                    $"moves less than {(evo.Convergence.Count > 0 ? "the ladder tolerance" : "")} (relative {r.EvolutionOptions.ConvergenceTolerance.ToString("P0", Inv)}) or within its own uncertainty", c.Converged));
+        }
+        return list;
+    }
+
+    private static List<string> Cautions(ScramblingRunResult r)
+    {
+        var list = new List<string>
+        {
+            $"Truncation bias: the evolution keeps the {r.Preset.MaxStrings:N0} strings of largest |c| after every pass. Dropping small coefficients removes weight mostly from large strings, so late-time mean size, saturation and t* are biased low; the discarded weight is recorded and the ladder (half and quarter budgets) shows how much each figure depends on the budget.",
+            $"Finite-size and boundary effects: N = {r.Model.N} on a {r.Model.Lattice.Kind}. The front velocity is fitted only before the front reaches the boundary; t* depends on N (a t*(N) sweep separates ballistic from logarithmic scaling); the exact cross-check is at a smaller N and checks the engine, not the large-N physics.",
+            "Infinite temperature: every figure is computed with all states equally weighted (the trace inner product). An experiment at finite temperature or in a particular initial state may see slower or different dynamics; these numbers describe, and bound, the high-temperature regime.",
+        };
+        if (r.Model.IsDriven) list.Add("Driven model: the Lanczos coefficients belong to the period-averaged generator, not to the Floquet map.");
+        if (!r.Completed) list.Add($"The run stopped early ({r.StopReason}); stages that did not finish are missing from this report.");
+        foreach (var n in r.Notes) list.Add("Note: " + n);
+        return list;
+    }
+
+    private static object OptionsJson(ScramblingRunResult r) => new
+    {
+        model = r.Options.Model ?? ScramblingRunOptions.DefaultModel,
+        overrides = r.Options.Overrides,
+        effort = r.Options.Effort.ToString().ToLowerInvariant(),
+        memoryBytes = r.Options.MemoryBytes,
+        threads = r.Options.Threads,
+        runExact = r.Options.RunExact,
+        runLanczos = r.Options.RunLanczos,
+        sweepSizes = r.Options.SweepSizes,
+        time = r.EvolutionOptions.Time,
+        crossCheckTolerance = r.Options.CrossCheckTolerance,
+        evolution = new
+        {
+            method = r.EvolutionOptions.Method.ToString().ToLowerInvariant(),
+            dt = r.EvolutionOptions.Dt,
+            recordEvery = r.EvolutionOptions.RecordEvery,
+            ladderRungs = r.EvolutionOptions.LadderRungs,
+            convergenceTolerance = r.EvolutionOptions.ConvergenceTolerance,
+            truncation = r.EvolutionOptions.Truncation,
+        },
+        lanczos = r.LanczosOptions is null ? null : new { depth = r.LanczosOptions.Depth, budgets = r.Preset.LanczosBudgets, mode = "truncated", memoryBytes = r.LanczosOptions.MemoryBudgetBytes },
+        exact = new { n = r.Preset.ExactN, time = r.Preset.ExactTime, method = "taylor (Pauli, no truncation) vs dense (exact)" },
+    };
+
+    private static object M(Measured m) => new { value = m.Value, uncertainty = m.Uncertainty, definition = m.Definition, unit = m.Unit, window = m.Window is { } w ? new { variable = w.Variable, start = w.Start, end = w.End } : null };
+
+    private static Dictionary<string, object?> ResultsJson(ScramblingRunResult r, List<string> cautions)
+    {
+        var evo = r.Evolution;
+        var lz = r.Lanczos;
+        var d = new Dictionary<string, object?>
+        {
+            ["format"] = "opgrowth-run/1",
+            ["toolVersion"] = ReportWriter.ToolVersion,
+            ["created"] = DateTimeOffset.UtcNow,
+            ["model"] = new { name = r.Model.Name, file = r.ModelFile, sha256 = ManifestWriter.Sha256OfFile(r.ModelFile), n = r.Model.N, lattice = r.Model.Lattice.Kind, parameters = r.Model.Parameters, probe = r.Problem.Initial[0].String.ToString(), driven = r.Model.IsDriven },
+            ["options"] = OptionsJson(r),
+            ["effort"] = r.Preset,
+            ["seeds"] = r.Model.Seeds,
+            ["threads"] = r.Options.Threads,
+            ["completed"] = r.Completed,
+            ["stopReason"] = r.StopReason,
+            ["headline"] = r.Headlines.Select(h => new { name = h.Name, converged = h.Converged, note = h.Note, measured = M(h.Value) }).ToList(),
+            ["evolution"] = evo is null ? null : new
+            {
+                completed = evo.Completed,
+                stopReason = evo.StopReason,
+                method = evo.Method,
+                figures = evo.Figures,
+                convergence = evo.Convergence,
+                rungs = evo.Rungs.Select(s => new { maxStrings = s.Budget.MaxStrings, completed = s.Completed, peakStrings = s.PeakStrings, seconds = s.ElapsedSeconds, discardedTotal = s.Records.Count > 0 ? s.Records[^1].DiscardedTotal : 0 }),
+                times = evo.Main.Records.Select(x => x.Time),
+                meanSize = evo.Main.Records.Select(x => x.MeanSize),
+                autocorrelation = evo.Main.Records.Select(x => x.Autocorrelation),
+                discardedTotal = evo.Main.Records.Select(x => x.DiscardedTotal),
+                wallSeconds = evo.WallSeconds,
+            },
+            ["lanczos"] = lz is null ? null : new
+            {
+                b = lz.B,
+                uncertainty = lz.Uncertainty,
+                budgets = lz.Budgets,
+                trustedDepth = r.Krylov?.TrustedDepth,
+                stop = lz.Reference.StopReason.ToString(),
+                growth = r.Krylov?.Growth is { } g ? new
+                {
+                    best = g.Best.Class.ToString(),
+                    formula = g.Best.Formula,
+                    alpha = g.Alpha,
+                    alphaError = g.AlphaError,
+                    lyapunovBound = g.LyapunovBound,
+                    windowStart = g.WindowStart,
+                    windowEnd = g.WindowEnd,
+                    deltaAic = g.DeltaAic,
+                    fits = g.Fits.Select(f => new { @class = f.Class.ToString(), a = f.A, aError = f.AError, c = f.C, cError = f.CError, aic = f.Aic }),
+                } : null,
+            },
+            ["crossCheck"] = r.CrossCheck is { } x ? new
+            {
+                ran = x.Ran, skipReason = x.SkipReason, n = x.N, probe = x.Probe, tolerance = x.Tolerance, passed = x.Passed,
+                maxOtocDifference = x.MaxOtocDifference, maxAutocorrelationDifference = x.MaxAutocorrelationDifference, exactMethod = x.ExactMethod, times = x.Times,
+            } : new { ran = false, skipReason = (string?)(r.Options.RunExact ? "not reached (run stopped)" : "turned off (--no-exact)"), n = 0, probe = "", tolerance = r.Options.CrossCheckTolerance, passed = false, maxOtocDifference = double.NaN, maxAutocorrelationDifference = double.NaN, exactMethod = "", times = Array.Empty<double>() },
+            ["diagnosis"] = new { ran = false, reason = "the diagnosis battery is not part of this build" },
+            ["sweep"] = new { ran = false, requested = r.Options.SweepSizes, reason = r.Options.SweepSizes.Count == 0 ? "not requested" : "the sweep stage is not part of this build" },
+            ["verdicts"] = r.Verdicts.Select(v => new { test = v.Test, verdict = v.Verdict, threshold = v.Threshold, reason = v.Reason, figure = M(v.Figure) }).ToList(),
+            ["checks"] = r.Checks.Select(c => new { name = c.Name, passed = c.Passed, tolerance = c.Tolerance, figure = M(c.Figure) }).ToList(),
+            ["cautions"] = cautions,
+            ["notes"] = r.Notes,
+            ["timingsSeconds"] = r.TimingsSeconds,
+            ["files"] = r.Files,
+        };
+        return d;
+    }
+}

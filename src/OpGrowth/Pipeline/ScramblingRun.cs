@@ -1,0 +1,288 @@
+using System.Diagnostics;
+using System.Globalization;
+using Microsoft.Extensions.Logging;
+using OpGrowth.Analysis;
+using OpGrowth.Evolution;
+using OpGrowth.Exact;
+using OpGrowth.IO;
+using OpGrowth.Krylov;
+using OpGrowth.Models;
+using OpGrowth.Pauli;
+using OpGrowth.Reporting;
+
+namespace OpGrowth.Pipeline;
+
+/// <summary>
+/// The whole job from a model to a scrambling report: validate the model; evolve its first probe in the
+/// Heisenberg picture with the convergence ladder and derive size growth, light cone, v_B or growth rate,
+/// saturation and t*; Lanczos coefficients with their growth class; Pauli engine against the exact engine at
+/// a small N of the same family; then report.html, report.md, figures, results.json, CSV series and
+/// manifest.json. Each stage's data files are written as soon as the stage finishes, so an interrupted run
+/// keeps what it finished.
+/// </summary>
+public static partial class ScramblingRun
+{
+    private static readonly CultureInfo Inv = CultureInfo.InvariantCulture;
+
+    /// <summary>Resolves the model, builds every engine's inputs, runs the stages and writes the report folder.</summary>
+    public static ScramblingRunResult Execute(ScramblingRunOptions options, CancellationToken ct = default)
+    {
+        ArgumentNullException.ThrowIfNull(options);
+        if (options.Threads < 1) throw new InputException($"--threads {options.Threads}; expected at least 1");
+        if (options.Time is double tt && !(tt > 0 && double.IsFinite(tt))) throw new InputException($"--time {tt}; expected a positive time");
+        if (options.SweepSizes.Any(n => n < 2)) throw new InputException("--sweep: found a size below 2; expected sizes such as 8,12,16");
+        var log = options.Logger;
+        var timings = new Dictionary<string, double>();
+        var clock = Stopwatch.StartNew();
+
+        // ---- stage 1: model
+        string path = ShippedModels.Resolve(options.Model ?? ScramblingRunOptions.DefaultModel);
+        var model = ModelLoader.Load(path, options.Overrides);
+        var probe = model.Probes[0];
+        var preset = EffortPreset.For(options.Effort);
+        string folder = Path.GetFullPath(options.OutputFolder ?? Path.Combine("opgrowth-report", Sanitize(model.Name)));
+        Directory.CreateDirectory(folder);
+        string dataDir = Path.Combine(folder, "data");
+        Directory.CreateDirectory(dataDir);
+        var files = new List<string>();
+        timings["model"] = Lap(clock);
+        log?.LogInformation("{Model}: {N} qubits, {Terms} terms, probe {Probe}, effort {Effort}; report in {Folder}",
+            model.Name, model.N, model.Hamiltonian.Terms.Count, probe, options.Effort.ToString().ToLowerInvariant(), folder);
+
+        // ---- stage 2: evolution with the convergence ladder
+        var (problem, evoOptions) = EvolutionInputs(model, probe, options, preset);
+        var geometry = GeometryOf(model);
+        EvolutionResult? evo = null;
+        var notes = new List<string>();
+        string? stop = null;
+        Report(options, "evolution", 0, $"{evoOptions.LadderRungs} rung(s) up to t = {evoOptions.Time}");
+        evo = OperatorEvolution.Run(problem, evoOptions, geometry, log, new EvolutionProgressAdapter(options.Progress), ct);
+        timings["evolution"] = Lap(clock);
+        notes.AddRange(evo.Notes);
+        if (!evo.Completed) stop = "evolution: " + (evo.StopReason ?? "stopped");
+        if (evo.Rungs.Count > 0 && evo.Main.Records.Count > 0) files.AddRange(WriteEvolutionData(dataDir, evo));
+        Report(options, "evolution", 1, "done");
+
+        // ---- stage 3: Lanczos
+        LanczosOptions? lzOptions = null;
+        LanczosEstimate? lz = null;
+        KrylovAnalysis? krylov = null;
+        if (options.RunLanczos && !ct.IsCancellationRequested && stop is null)
+        {
+            Report(options, "lanczos", 0, $"depth {preset.LanczosDepth}, budgets {string.Join("/", preset.LanczosBudgets)}");
+            lzOptions = LanczosInputs(options, preset, ct);
+            lz = LanczosStudy.Run(model, probe, LanczosMode.Truncated, lzOptions with { Logger = log }, preset.LanczosBudgets);
+            if (lz.B.Count >= 3) krylov = KrylovAnalyzer.Analyze(lz, new KrylovAnalysisOptions());
+            if (model.IsDriven) notes.Add("driven model: the Lanczos coefficients are those of the period-averaged generator, not of the Floquet map");
+            if (lz.Reference.StopReason == LanczosStopReason.Cancelled) stop = "lanczos: interrupted";
+            files.AddRange(WriteLanczosData(dataDir, lz, krylov));
+            timings["lanczos"] = Lap(clock);
+            Report(options, "lanczos", 1, "done");
+        }
+
+        // ---- stage 4: exact cross-check
+        CrossCheck? cross = null;
+        if (options.RunExact && !ct.IsCancellationRequested && stop is null)
+        {
+            Report(options, "exact cross-check", 0, "Pauli engine (no truncation) and exact engine");
+            cross = RunCrossCheck(path, model, options, preset, log, ct);
+            if (cross.Ran) files.Add(WriteCrossCheckData(dataDir, cross));
+            timings["exact"] = Lap(clock);
+            Report(options, "exact cross-check", 1, cross.Ran ? (cross.Passed ? "passed" : "FAILED") : "skipped");
+        }
+        bool cancelled = ct.IsCancellationRequested || evo.StopReason == "interrupted";
+        if (cancelled) stop ??= "interrupted";
+
+        // ---- stage 5: report
+        Report(options, "report", 0, "figures and files");
+        var result = new ScramblingRunResult
+        {
+            Model = model,
+            ModelFile = path,
+            Folder = folder,
+            Options = options,
+            Preset = preset,
+            Problem = problem,
+            EvolutionOptions = evoOptions,
+            Geometry = geometry,
+            Evolution = evo,
+            LanczosOptions = lzOptions,
+            Lanczos = lz,
+            Krylov = krylov,
+            CrossCheck = cross,
+            Completed = stop is null,
+            StopReason = stop,
+            Cancelled = cancelled,
+            Notes = notes,
+        };
+        result = RunReport.Write(result, files, timings, clock);
+        Report(options, "report", 1, "done");
+        log?.LogInformation("wrote {Folder} ({Files} files)", folder, result.Files.Count);
+        return result;
+    }
+
+    /// <summary>The evolution problem and options the pipeline uses for a model (also for tests and reruns).</summary>
+    public static (EvolutionProblem Problem, EvolutionOptions Options) EvolutionInputs(Model model, PauliString probe, ScramblingRunOptions options, EffortPreset preset)
+    {
+        double time = options.Time ?? preset.Time;
+        double stepTime = model.Drive?.Period ?? preset.Dt;
+        long steps = (long)Math.Ceiling(time / stepTime - 1e-9);
+        var problem = new EvolutionProblem
+        {
+            N = model.N,
+            Name = model.Name,
+            Hamiltonian = model.Drive is null ? model.Hamiltonian : null,
+            Drive = DriveOf(model),
+            Initial = EvolutionProblem.Probe(probe),
+            CountMajoranas = model.SizeMeasure == SizeMeasure.Majoranas,
+        };
+        var evo = new EvolutionOptions
+        {
+            Method = IntegrationMethod.Trotter2,
+            Dt = preset.Dt,
+            Time = time,
+            RecordEvery = (int)Math.Max(1, steps / 60),
+            Threads = options.Threads,
+            LadderRungs = preset.LadderRungs,
+            Truncation = new TruncationPolicy { MaxStrings = preset.MaxStrings, MemoryBytes = options.MemoryBytes },
+        };
+        return (problem, evo);
+    }
+
+    /// <summary>The Lanczos options the pipeline uses (budgets are <see cref="EffortPreset.LanczosBudgets"/>, truncated mode).</summary>
+    public static LanczosOptions LanczosInputs(ScramblingRunOptions options, EffortPreset preset, CancellationToken ct = default) => new()
+    {
+        Depth = preset.LanczosDepth,
+        MemoryBudgetBytes = options.MemoryBytes ?? (long)(0.5 * GC.GetGCMemoryInfo().TotalAvailableMemoryBytes),
+        Threads = options.Threads,
+        Cancellation = ct,
+    };
+
+    /// <summary>Distances of the model's lattice, as the analysis wants them.</summary>
+    public static LatticeGeometry GeometryOf(Model model)
+        => new(model.N, model.Lattice.Distance, model.Lattice.IsOneDimensional, model.Lattice.Kind);
+
+    private static PeriodicDrive? DriveOf(Model model) => model.Drive is { } d
+        ? new PeriodicDrive(d.Layers.Select(l => (IReadOnlyList<DriveRotation>)l.Select(r => new DriveRotation(r.Generator, r.Angle)).ToArray()).ToArray(), d.Period)
+        : null;
+
+    private static CrossCheck RunCrossCheck(string path, Model model, ScramblingRunOptions options, EffortPreset preset, ILogger? log, CancellationToken ct)
+    {
+        if (!model.Parameters.ContainsKey("N"))
+            return new CrossCheck { SkipReason = $"the model's size is not set by a parameter N (lattice '{model.Lattice.Kind}'), so no smaller member of the family is defined", Tolerance = options.CrossCheckTolerance };
+        int n = Math.Min(model.N, preset.ExactN);
+        double time = Math.Min(options.Time ?? preset.Time, preset.ExactTime);
+        return CompareEngines(path, options.Overrides, n, time, options.CrossCheckTolerance, options.Threads, log, ct);
+    }
+
+    /// <summary>
+    /// Pauli engine (no truncation, Taylor steps: exact to rounding) against the exact state-vector
+    /// engine (dense traces) for the model file at size <paramref name="n"/> (set through its parameter N):
+    /// OTOCs against X, Y, Z on every site and the autocorrelation of the first probe on the same times.
+    /// </summary>
+    public static CrossCheck CompareEngines(string path, IReadOnlyDictionary<string, string> overrides, int n, double time, double tolerance, int threads, ILogger? log, CancellationToken ct)
+    {
+        var options = new ScramblingRunOptions { Overrides = overrides, CrossCheckTolerance = tolerance, Threads = threads, Time = time };
+        var ov = new Dictionary<string, string>(overrides) { ["N"] = n.ToString(Inv) };
+        Model small;
+        try
+        {
+            small = ModelLoader.Load(path, ov);
+        }
+        catch (InputException ex)
+        {
+            return new CrossCheck { SkipReason = $"the model does not load at N = {n}: {ex.Message}", Tolerance = options.CrossCheckTolerance };
+        }
+        if (small.N > PauliMask.MaxQubits || small.N > DenseSpectrum.DefaultMaxQubits)
+            return new CrossCheck { SkipReason = $"N = {small.N} is too large for the dense exact engine", Tolerance = options.CrossCheckTolerance };
+        var probe = small.Probes[0];
+        double dt = small.Drive?.Period ?? 0.1;
+        long steps = Math.Max(1, (long)Math.Ceiling(time / dt - 1e-9));
+        var problem = new EvolutionProblem
+        {
+            N = small.N,
+            Name = small.Name,
+            Hamiltonian = small.Drive is null ? small.Hamiltonian : null,
+            Drive = DriveOf(small),
+            Initial = EvolutionProblem.Probe(probe),
+            CountMajoranas = small.SizeMeasure == SizeMeasure.Majoranas,
+        };
+        // Taylor: exact to rounding at any dt; no truncation: the Pauli engine is then exact as well.
+        var evoOptions = new EvolutionOptions
+        {
+            Method = IntegrationMethod.Taylor,
+            Dt = dt,
+            Time = time,
+            RecordEvery = (int)Math.Max(1, steps / 20),
+            Threads = options.Threads,
+            LadderRungs = 1,
+            Truncation = TruncationPolicy.None,
+        };
+        log?.LogInformation("cross-check at N = {N}: probe {Probe}, t = {Time}", small.N, probe, time);
+        var pauli = OperatorEvolution.Run(problem, evoOptions, GeometryOf(small), null, null, ct);
+        ct.ThrowIfCancellationRequested();
+        var recs = pauli.Main.Records;
+        double[] times = recs.Select(r => r.Time).ToArray();
+        var exactOptions = new ExactOtocOptions
+        {
+            Operator = probe,
+            Times = times,
+            Method = OtocMethod.Dense,
+            Tolerance = 1e-12,
+            Threads = options.Threads,
+        };
+        var exact = small.Drive is null ? ExactOtoc.Run(small.Hamiltonian, exactOptions, ct) : ExactOtoc.Run(small.Drive, small.N, exactOptions, ct);
+        double maxF = 0, maxC = 0;
+        for (int i = 0; i < times.Length; i++)
+        {
+            maxC = Math.Max(maxC, Math.Abs(recs[i].Autocorrelation - exact.Autocorrelation.Values[i]));
+            foreach (var site in exact.Sites)
+            {
+                int j = site.Site;
+                maxF = Math.Max(maxF, Math.Abs(recs[i].OtocX[j] - site.X.Values[i]));
+                maxF = Math.Max(maxF, Math.Abs(recs[i].OtocY[j] - site.Y.Values[i]));
+                maxF = Math.Max(maxF, Math.Abs(recs[i].OtocZ[j] - site.Z.Values[i]));
+            }
+        }
+        return new CrossCheck
+        {
+            Ran = true,
+            N = small.N,
+            Probe = probe.ToString(),
+            Times = times,
+            PauliAutocorrelation = recs.Select(r => r.Autocorrelation).ToArray(),
+            ExactAutocorrelation = exact.Autocorrelation.Values,
+            MaxOtocDifference = maxF,
+            MaxAutocorrelationDifference = maxC,
+            Tolerance = options.CrossCheckTolerance,
+            ExactMethod = exact.Method,
+        };
+    }
+
+    private static double Lap(Stopwatch clock)
+    {
+        double s = clock.Elapsed.TotalSeconds;
+        clock.Restart();
+        return s;
+    }
+
+    private static void Report(ScramblingRunOptions o, string stage, double fraction, string detail)
+        => o.Progress?.Report(new RunProgress(stage, fraction, detail));
+
+    internal static string Sanitize(string s)
+    {
+        var chars = s.Select(c => char.IsLetterOrDigit(c) || c is '-' or '_' or '.' ? c : '-').ToArray();
+        return new string(chars);
+    }
+
+    private sealed class EvolutionProgressAdapter(IProgress<RunProgress>? target) : IProgress<EvolutionProgress>
+    {
+        public void Report(EvolutionProgress p)
+        {
+            if (target is null) return;
+            double f = (p.Rung + (p.TotalSteps > 0 ? (double)p.Step / p.TotalSteps : 1)) / Math.Max(1, p.Rungs);
+            target.Report(new RunProgress("evolution", Math.Clamp(f, 0, 1),
+                FormattableString.Invariant($"rung {p.Rung + 1}/{p.Rungs} t={p.Time:0.##} strings={p.Strings:N0}"), p.Remaining));
+        }
+    }
+}

@@ -1,0 +1,59 @@
+using OpGrowth.Analysis;
+using OpGrowth.Evolution;
+using OpGrowth.Exact;
+using OpGrowth.Krylov;
+using OpGrowth.Models;
+using OpGrowth.Reporting;
+
+namespace OpGrowth.Pipeline;
+
+/// <summary>Pauli engine (no truncation) against the exact state-vector engine at a small N of the same family.</summary>
+public sealed record CrossCheck
+{
+    public bool Ran { get; init; }
+    /// <summary>Why it did not run (null when it ran).</summary>
+    public string? SkipReason { get; init; }
+    public int N { get; init; }
+    public string Probe { get; init; } = "";
+    public double[] Times { get; init; } = [];
+    public double[] PauliAutocorrelation { get; init; } = [];
+    public double[] ExactAutocorrelation { get; init; } = [];
+    /// <summary>max over times, sites j and P in {X, Y, Z} of |F_P,j(Pauli) - F_P,j(exact)|.</summary>
+    public double MaxOtocDifference { get; init; }
+    /// <summary>max over times of |C(Pauli) - C(exact)|.</summary>
+    public double MaxAutocorrelationDifference { get; init; }
+    public double Tolerance { get; init; }
+    public bool Passed => Ran && MaxOtocDifference <= Tolerance && MaxAutocorrelationDifference <= Tolerance;
+    public string ExactMethod { get; init; } = "";
+}
+
+/// <summary>Everything a <see cref="ScramblingRun"/> produced (stages that did not run are null).</summary>
+public sealed record ScramblingRunResult
+{
+    public required Model Model { get; init; }
+    public required string ModelFile { get; init; }
+    public required string Folder { get; init; }
+    public required ScramblingRunOptions Options { get; init; }
+    public required EffortPreset Preset { get; init; }
+    /// <summary>The evolution inputs exactly as given to <see cref="OperatorEvolution.Run"/>.</summary>
+    public required EvolutionProblem Problem { get; init; }
+    public required EvolutionOptions EvolutionOptions { get; init; }
+    public required LatticeGeometry Geometry { get; init; }
+    public EvolutionResult? Evolution { get; init; }
+    public LanczosOptions? LanczosOptions { get; init; }
+    public LanczosEstimate? Lanczos { get; init; }
+    public KrylovAnalysis? Krylov { get; init; }
+    public CrossCheck? CrossCheck { get; init; }
+    public IReadOnlyList<HeadlineFigure> Headlines { get; init; } = [];
+    public IReadOnlyList<VerdictRow> Verdicts { get; init; } = [];
+    public IReadOnlyList<CheckRow> Checks { get; init; } = [];
+    /// <summary>Every file written, relative to <see cref="Folder"/>.</summary>
+    public IReadOnlyList<string> Files { get; init; } = [];
+    public int FigureCount { get; init; }
+    public IReadOnlyDictionary<string, double> TimingsSeconds { get; init; } = new Dictionary<string, double>();
+    /// <summary>False when the run was interrupted or a stage stopped at a resource limit.</summary>
+    public bool Completed { get; init; }
+    public string? StopReason { get; init; }
+    public bool Cancelled { get; init; }
+    public IReadOnlyList<string> Notes { get; init; } = [];
+}

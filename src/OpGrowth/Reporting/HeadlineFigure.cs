@@ -1,0 +1,11 @@
+namespace OpGrowth.Reporting;
+
+/// <summary>
+/// A headline number of the report (v_B, t*, growth rate, ...): the value with its uncertainty and definition or
+/// window, and whether the convergence ladder says it is converged. <see cref="Note"/> is optional extra text
+/// (e.g. which rung disagreed).
+/// </summary>
+public sealed record HeadlineFigure(string Name, Measured Value, bool Converged)
+{
+    public string? Note { get; init; }
+}

@@ -1,0 +1,9 @@
+namespace OpGrowth.Reporting;
+
+/// <summary>How a series is drawn.</summary>
+public enum SeriesLook
+{
+    Line,
+    Points,
+    LineAndPoints,
+}

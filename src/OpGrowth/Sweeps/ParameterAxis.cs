@@ -1,0 +1,4 @@
+namespace OpGrowth.Sweeps;
+
+/// <summary>One swept parameter and its values.</summary>
+public sealed record ParameterAxis(string Name, IReadOnlyList<double> Values);

@@ -1,0 +1,195 @@
+using System.Numerics;
+using MathNet.Numerics.LinearAlgebra;
+using OpGrowth.Exact;
+using OpGrowth.Pauli;
+using OpGrowth.Tests.Reference;
+
+namespace OpGrowth.Tests.Exact;
+
+public class LevelStatisticsTests
+{
+    // Source for all reference values: Atas, Bogomolny, Giraud, Roux, PRL 110, 084101 (2013):
+    // Poisson 2 ln 2 - 1 = 0.3863, GOE 0.5307, GUE 0.5996 (large dimension; check-values.md).
+
+    private static double Gaussian(Random rng)
+    {
+        double u1 = 1.0 - rng.NextDouble(), u2 = rng.NextDouble();
+        return Math.Sqrt(-2 * Math.Log(u1)) * Math.Cos(2 * Math.PI * u2);
+    }
+
+    [Fact]
+    public void GapRatio_GoeMatrices_MatchesAtasValue()
+    {
+        // Six GOE matrices of dimension 1000 (central 80 %: ~4800 ratios, standard error ~0.003); the
+        // issue's tolerance 0.01 is about three standard errors. Fixed seed.
+        var rng = new Random(2013);
+        var r = new List<double>();
+        const int d = 1000;
+        for (int s = 0; s < 6; s++)
+        {
+            var a = new double[d * d];
+            for (int i = 0; i < d; i++)
+            {
+                for (int j = 0; j <= i; j++)
+                {
+                    double g = Gaussian(rng) * (i == j ? Math.Sqrt(2) : 1);
+                    a[i * d + j] = g;
+                    a[j * d + i] = g;
+                }
+            }
+            var ev = LevelStatistics.SymmetricEigenvalues(a, d, useNative: false);
+            r.AddRange(LevelStatistics.GapRatios(ev, 0.8).Ratios);
+        }
+        var (m, se) = LevelStatistics.Mean(r);
+        Assert.True(Math.Abs(m - LevelStatistics.GoeRatio) < 0.01, $"<r> = {m:F4} +- {se:F4}");
+    }
+
+    [Fact]
+    public void GapRatio_GueMatrices_MatchesAtasValue()
+    {
+        // Complex Hermitian path (real embedding when LAPACK is absent): four GUE matrices of dimension
+        // 400 (~1300 ratios, standard error ~0.005); tolerance 0.015 = three standard errors.
+        var rng = new Random(7);
+        var r = new List<double>();
+        const int d = 400;
+        for (int s = 0; s < 4; s++)
+        {
+            var a = new Complex[d * d];
+            for (int i = 0; i < d; i++)
+            {
+                a[i * d + i] = Gaussian(rng);
+                for (int j = 0; j < i; j++)
+                {
+                    var z = new Complex(Gaussian(rng), Gaussian(rng)) / Math.Sqrt(2);
+                    a[i * d + j] = z;
+                    a[j * d + i] = Complex.Conjugate(z);
+                }
+            }
+            var ev = LevelStatistics.HermitianEigenvalues(a, d, useNative: false);
+            r.AddRange(LevelStatistics.GapRatios(ev, 0.8).Ratios);
+        }
+        var (m, se) = LevelStatistics.Mean(r);
+        Assert.True(Math.Abs(m - LevelStatistics.GueRatio) < 0.015, $"<r> = {m:F4} +- {se:F4}");
+    }
+
+    [Fact]
+    public void GapRatio_PoissonLevels_MatchesTwoLnTwoMinusOne()
+    {
+        // Independent uniform levels: 40000 ratios, standard error ~0.0013; tolerance 0.01.
+        var rng = new Random(1);
+        var lv = Enumerable.Range(0, 40_000).Select(_ => rng.NextDouble()).OrderBy(x => x).ToArray();
+        var (m, _) = LevelStatistics.Mean(LevelStatistics.GapRatios(lv).Ratios);
+        Assert.True(Math.Abs(m - (2 * Math.Log(2) - 1)) < 0.01, $"<r> = {m:F4}");
+    }
+
+    [Fact]
+    public void ManagedEigenvalues_MatchMathNet()
+    {
+        // Householder + QL against MathNet's symmetric eigendecomposition; tolerance 1e-10 (rounding).
+        var rng = new Random(3);
+        const int d = 120;
+        var a = new double[d * d];
+        for (int i = 0; i < d; i++) for (int j = 0; j <= i; j++) a[i * d + j] = a[j * d + i] = rng.NextDouble() - 0.5;
+        var want = Matrix<double>.Build.Dense(d, d, a).Evd(Symmetricity.Symmetric).EigenValues.Select(z => z.Real).OrderBy(x => x).ToArray();
+        var got = SymmetricEigen.Eigenvalues((double[])a.Clone(), d, 2);
+        for (int i = 0; i < d; i++) Assert.Equal(want[i], got[i], 10);
+    }
+
+    [Fact]
+    public void Sectors_XxzChainAllSymmetries_ReproduceFullSpectrum()
+    {
+        // Block diagonalisation is exact: the union of sector spectra (with the flip partners Sz -> -Sz
+        // counted twice) equals the full dense spectrum (MathNet on Dense.Of). N = 8, tolerance 1e-9.
+        const int n = 8;
+        var t = new List<PauliTerm>();
+        for (int i = 0; i + 1 < n; i++)
+        {
+            t.Add(new(PauliString.Parse($"X_{i} X_{i + 1}", n), 1));
+            t.Add(new(PauliString.Parse($"Y_{i} Y_{i + 1}", n), 1));
+            t.Add(new(PauliString.Parse($"Z_{i} Z_{i + 1}", n), 0.6));
+        }
+        t.Add(new(PauliString.Parse("Z_0 Z_7", n), 0.3)); // keeps all three symmetries
+        var h = new Hamiltonian(n, t);
+        var det = LevelStatistics.DetectSymmetries(h);
+        Assert.Equal(["total-z", "reflection", "spin-flip"], det);
+        var levels = new List<double>();
+        foreach (var sec in SymmetrySector.Enumerate(n, true, true, true))
+        {
+            var ev = LevelStatistics.SymmetricEigenvalues(sec.RealBlock(h), sec.Dimension, 1, useNative: false);
+            levels.AddRange(ev);
+            if (2 * sec.DownSpins < n) levels.AddRange(ev); // Sz < 0 partner
+        }
+        levels.Sort();
+        var full = Dense.Of(n, h.Terms).Evd(Symmetricity.Hermitian).EigenValues.Select(z => z.Real).OrderBy(x => x).ToArray();
+        Assert.Equal(full.Length, levels.Count);
+        for (int i = 0; i < full.Length; i++) Assert.Equal(full[i], levels[i], 9);
+    }
+
+    [Fact]
+    public void Sectors_ComplexHamiltonianTotalZ_ReproduceFullSpectrum()
+    {
+        // A Dzyaloshinskii-Moriya term X_i Y_i+1 - Y_i X_i+1 makes H complex; it keeps total Z only.
+        const int n = 7;
+        var t = new List<PauliTerm>();
+        for (int i = 0; i + 1 < n; i++)
+        {
+            t.Add(new(PauliString.Parse($"X_{i} X_{i + 1}", n), 1));
+            t.Add(new(PauliString.Parse($"Y_{i} Y_{i + 1}", n), 1));
+            t.Add(new(PauliString.Parse($"X_{i} Y_{i + 1}", n), 0.4));
+            t.Add(new(PauliString.Parse($"Y_{i} X_{i + 1}", n), -0.4));
+            t.Add(new(PauliString.Parse($"Z_{i}", n), 0.1 * i));
+        }
+        var h = new Hamiltonian(n, t);
+        Assert.Equal(["total-z"], LevelStatistics.DetectSymmetries(h));
+        var levels = new List<double>();
+        foreach (var sec in SymmetrySector.Enumerate(n, true, false, false)) levels.AddRange(LevelStatistics.HermitianEigenvalues(sec.ComplexBlock(h), sec.Dimension, 1, useNative: false));
+        levels.Sort();
+        var full = Dense.Of(n, h.Terms).Evd(Symmetricity.Hermitian).EigenValues.Select(z => z.Real).OrderBy(x => x).ToArray();
+        for (int i = 0; i < full.Length; i++) Assert.Equal(full[i], levels[i], 9);
+    }
+
+    [Fact]
+    public void Analyze_MixedFieldIsingN12ReflectionResolved_IsGoeLike()
+    {
+        // Mixed-field Ising chain H = sum ZZ + 1.05 sum X + 0.5 sum Z (open), a standard chaotic chain;
+        // reflection is its only symmetry. Two sectors of ~2000 levels, ~3200 ratios: expect GOE within
+        // 0.02 (finite-size deviation plus three standard errors).
+        var h = TestModels.MixedFieldIsing(12);
+        var r = LevelStatistics.Analyze(h, new LevelStatisticsOptions { DeclaredSymmetries = ["reflection"], UseNative = false });
+        Assert.Equal(["reflection"], r.Resolved);
+        Assert.Empty(r.Warnings);
+        Assert.Equal("GOE", r.Closest);
+        Assert.True(Math.Abs(r.MeanRatio - LevelStatistics.GoeRatio) < 0.02, $"<r> = {r.MeanRatio:F4} +- {r.StandardError:F4}");
+    }
+
+    [Fact]
+    public void Analyze_MixedFieldIsingUnresolvedReflection_WarnsAndLooksLessChaotic()
+    {
+        // Two merged GOE blocks give <r> ~ 0.42 (check-values.md); N = 10 keeps it quick.
+        var h = TestModels.MixedFieldIsing(10);
+        var r = LevelStatistics.Analyze(h, new LevelStatisticsOptions { Resolve = [], UseNative = false });
+        Assert.Contains(r.Warnings, w => w.Contains("reflection"));
+        Assert.True(r.MeanRatio < 0.48, $"<r> = {r.MeanRatio:F4}");
+    }
+
+    [Fact]
+    public void Analyze_TransverseIsingResolved_IsPoissonLike()
+    {
+        // Transverse-field Ising chain (free fermions, integrable) with reflection and spin flip resolved:
+        // Poisson-like statistics (well below GOE); N = 12, g = 0.7.
+        var h = TestModels.TransverseIsing(12, 1.0, 0.7);
+        var r = LevelStatistics.Analyze(h, new LevelStatisticsOptions { UseNative = false });
+        Assert.Contains("reflection", r.Resolved);
+        Assert.Contains("spin-flip", r.Resolved);
+        Assert.True(r.MeanRatio < 0.45, $"<r> = {r.MeanRatio:F4}");
+        Assert.Equal("Poisson", r.Closest);
+    }
+
+    [Fact]
+    public void Analyze_DeclaredButUnsupportedSymmetry_Warns()
+    {
+        var h = TestModels.MixedFieldIsing(8);
+        var r = LevelStatistics.Analyze(h, new LevelStatisticsOptions { DeclaredSymmetries = ["translation"], MinimumSectorDimension = 8, UseNative = false });
+        Assert.Contains(r.Warnings, w => w.Contains("translation"));
+    }
+}

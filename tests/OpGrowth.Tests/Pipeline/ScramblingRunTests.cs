@@ -1,0 +1,179 @@
+using System.Text.Json;
+using System.Text.RegularExpressions;
+using OpGrowth.Analysis;
+using OpGrowth.Evolution;
+using OpGrowth.Krylov;
+using OpGrowth.Pipeline;
+using OpGrowth.Reporting;
+using OpGrowth.Tests.Reporting;
+
+namespace OpGrowth.Tests.Pipeline;
+
+/// <summary>One quick run of the pipeline on mixed-field-ising at N = 10, shared by the library tests.</summary>
+public sealed class QuickRunFixture : IDisposable
+{
+    public QuickRunFixture()
+    {
+        Folder = Path.Combine(Path.GetTempPath(), "opgrowth-run-tests-" + Guid.NewGuid().ToString("N"));
+        Result = ScramblingRun.Execute(new ScramblingRunOptions
+        {
+            Model = "mixed-field-ising",
+            Overrides = new Dictionary<string, string> { ["N"] = "10" },
+            OutputFolder = Folder,
+            Effort = RunEffort.Quick,
+            Threads = 2,
+        });
+    }
+
+    public string Folder { get; }
+    public ScramblingRunResult Result { get; }
+
+    public void Dispose()
+    {
+        try { Directory.Delete(Folder, true); } catch (IOException) { }
+    }
+}
+
+public class ScramblingRunTests(QuickRunFixture fx) : IClassFixture<QuickRunFixture>
+{
+    private static readonly string[] ExpectedFiles =
+    [
+        "report.html", "report.md", "report.json", "results.json", "manifest.json",
+        "data/evolution.csv", "data/size_distribution.csv", "data/site_weights.csv", "data/ladder.csv",
+        "data/lanczos.csv", "data/krylov.csv", "data/cross_check.csv",
+        "figures/size-distribution.png", "figures/mean-size.png", "figures/light-cone.png",
+        "figures/lanczos.png", "figures/krylov.png", "figures/pauli-vs-exact.png",
+    ];
+
+    [Fact]
+    public void Execute_QuickRun_WritesEveryListedFile()
+    {
+        Assert.True(fx.Result.Completed, fx.Result.StopReason);
+        foreach (string f in ExpectedFiles)
+        {
+            string p = Path.Combine(fx.Folder, f);
+            Assert.True(File.Exists(p), "missing " + f);
+            Assert.True(new FileInfo(p).Length > 0, "empty " + f);
+        }
+        foreach (string f in fx.Result.Files) Assert.True(File.Exists(Path.Combine(fx.Folder, f)), "listed but missing: " + f);
+        Assert.Empty(ManifestWriter.Verify(Path.Combine(fx.Folder, "manifest.json")));
+    }
+
+    [Fact]
+    public void Execute_QuickRun_HtmlEmbedsEveryFigure()
+    {
+        string html = File.ReadAllText(Path.Combine(fx.Folder, "report.html"));
+        int uris = Regex.Matches(html, "data:image/").Count;
+        Assert.Equal(6, fx.Result.FigureCount);
+        Assert.Equal(fx.Result.FigureCount, uris);
+        Assert.DoesNotContain("<script", html, StringComparison.OrdinalIgnoreCase);
+    }
+
+    [Fact]
+    public void Execute_QuickRun_ResultsJsonHasDocumentedKeys()
+    {
+        using var doc = JsonDocument.Parse(File.ReadAllBytes(Path.Combine(fx.Folder, "results.json")));
+        var keys = doc.RootElement.EnumerateObject().Select(p => p.Name).ToList();
+        Assert.Equal(RunReport.ResultKeys.OrderBy(k => k, StringComparer.Ordinal), keys.OrderBy(k => k, StringComparer.Ordinal));
+        // docs/run.md lists the same keys.
+        string md = File.ReadAllText(Path.Combine(RepoRoot(), "docs", "run.md"));
+        foreach (string k in RunReport.ResultKeys) Assert.Contains("`" + k + "`", md);
+        Assert.True(doc.RootElement.GetProperty("crossCheck").GetProperty("passed").GetBoolean());
+    }
+
+    [Fact]
+    public void Execute_QuickRun_HeadlinesEqualTheEnginesOnTheSameInputs()
+    {
+        var r = fx.Result;
+        // The evolution engine and its analysis, called directly with the same inputs (results do not depend on threads).
+        var direct = OperatorEvolution.Run(r.Problem, r.EvolutionOptions, r.Geometry);
+        var fig = direct.Figures[0];
+        Assert.Equal(fig.ScramblingTime.Value, r.Evolution!.Figures[0].ScramblingTime.Value);
+        Assert.Equal(fig.Butterfly?.Primary.Velocity, r.Evolution.Figures[0].Butterfly?.Primary.Velocity);
+        var tstar = r.Headlines.Single(h => h.Name == "scrambling time t*");
+        Assert.Equal(fig.ScramblingTime.Value!.Value, tstar.Value.Value);
+        var vb = r.Headlines.Single(h => h.Name == "butterfly velocity v_B");
+        Assert.Equal(fig.Butterfly!.Primary.Velocity!.Value, vb.Value.Value);
+
+        // The Lanczos engine called directly.
+        var lz = LanczosStudy.Run(r.Model, r.Model.Probes[0], LanczosMode.Truncated, r.LanczosOptions!, r.Preset.LanczosBudgets);
+        Assert.Equal(lz.B, r.Lanczos!.B);
+        var alpha = r.Headlines.Single(h => h.Name == "Lanczos slope alpha");
+        Assert.Equal(KrylovAnalyzer.Analyze(lz, new KrylovAnalysisOptions()).Growth!.Alpha, alpha.Value.Value);
+    }
+
+    [Fact]
+    public void Execute_QuickRun_CrossCheckPassesAgainstExactEngine()
+    {
+        // Both engines are exact to rounding on this grid (Taylor steps, no truncation; dense traces), so 1e-6 is a
+        // loose bound: a failure means a real disagreement, not accumulated error.
+        var x = fx.Result.CrossCheck!;
+        Assert.True(x.Ran, x.SkipReason);
+        Assert.True(x.MaxOtocDifference < 1e-6, $"max |dF| = {x.MaxOtocDifference}");
+        Assert.True(x.MaxAutocorrelationDifference < 1e-6, $"max |dC| = {x.MaxAutocorrelationDifference}");
+        Assert.Equal(1.0, x.ExactAutocorrelation[0], 12); // C(0) = (O|O) = 1 by normalisation
+    }
+
+    [Fact]
+    public void Execute_QuickRun_EveryPngCarriesText()
+    {
+        foreach (string png in Directory.GetFiles(Path.Combine(fx.Folder, "figures"), "*.png"))
+        {
+            byte[] bytes = File.ReadAllBytes(png);
+            Assert.True(bytes.Length > 1000, png);
+            // Title band at the top: dark text on white (same idea as the Reporting chart tests).
+            Assert.True(PixelProbe.InkPixels(bytes, 0.05, 0.95, 0.0, 0.12) > 30, "no title text in " + png);
+        }
+    }
+
+    internal static string RepoRoot()
+    {
+        var d = new DirectoryInfo(AppContext.BaseDirectory);
+        while (d is not null && !File.Exists(Path.Combine(d.FullName, "OpGrowth.sln"))) d = d.Parent;
+        return d?.FullName ?? throw new InvalidOperationException("repository root not found");
+    }
+}
+
+public class RunCommandTests
+{
+    [Fact]
+    public void RunCommand_QuickSmallModel_ExitsZeroAndWritesReport()
+    {
+        string dir = Path.Combine(Path.GetTempPath(), "opgrowth-run-cli-" + Guid.NewGuid().ToString("N"));
+        try
+        {
+            var o = new StringWriter();
+            var e = new StringWriter();
+            int code = OpGrowth.Cli.Program.Run(["run", "mixed-field-ising", "--set", "N=8", "--effort", "quick", "--no-lanczos", "--threads", "2", "--out", dir], o, e);
+            Assert.True(code == 0, e.ToString());
+            Assert.Contains("scrambling time t*", o.ToString());
+            Assert.True(File.Exists(Path.Combine(dir, "report.html")));
+            Assert.True(File.Exists(Path.Combine(dir, "results.json")));
+            Assert.False(File.Exists(Path.Combine(dir, "data", "lanczos.csv")));
+        }
+        finally
+        {
+            if (Directory.Exists(dir)) Directory.Delete(dir, true);
+        }
+    }
+
+    [Fact]
+    public void RunCommand_SquareLattice_SkipsCrossCheckWithReason()
+    {
+        string dir = Path.Combine(Path.GetTempPath(), "opgrowth-run-cli-" + Guid.NewGuid().ToString("N"));
+        try
+        {
+            var r = ScramblingRun.Execute(new ScramblingRunOptions
+            {
+                Model = "square-ising", Overrides = new Dictionary<string, string>(), OutputFolder = dir, Effort = RunEffort.Quick, Threads = 2, RunLanczos = false, Time = 0.5,
+            });
+            if (r.Model.Parameters.ContainsKey("N")) return; // this family is sized by N: nothing to check here
+            Assert.False(r.CrossCheck!.Ran);
+            Assert.Contains("parameter N", r.CrossCheck.SkipReason);
+        }
+        finally
+        {
+            if (Directory.Exists(dir)) Directory.Delete(dir, true);
+        }
+    }
+}
