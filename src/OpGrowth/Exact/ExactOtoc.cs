@@ -596,7 +596,7 @@ public static class ExactOtoc
         }
 
         var siteResults = new List<SiteOtoc>();
-        var fits = new List<GrowthFit>();
+        var fits = new List<OtocGrowthFit>();
         double[]? sizeMean = null, sizeVar = null;
         bool allSites = sites.Length == h.N && o.Beta == 0;
         if (allSites)

@@ -11,7 +11,7 @@ public static class GrowthRate
     /// <remarks>Source for the bound lambda_L &lt;= 2 pi T: Maldacena, Shenker and Stanford, JHEP 08 (2016) 106.
     /// Short-range 1D chains need not show an exponential regime (Khemani, Huse, Nahum, PRB 98, 144304 (2018)):
     /// read R^2 before trusting lambda.</remarks>
-    public static GrowthFit Fit(string probe, IReadOnlyList<double> times, IReadOnlyList<double> f, double beta, double low, double high)
+    public static OtocGrowthFit Fit(string probe, IReadOnlyList<double> times, IReadOnlyList<double> f, double beta, double low, double high)
     {
         ArgumentNullException.ThrowIfNull(times);
         ArgumentNullException.ThrowIfNull(f);
@@ -36,7 +36,7 @@ public static class GrowthRate
         }
         if (xs.Count < 3)
         {
-            return new GrowthFit(probe, double.NaN, double.NaN, xs.Count > 0 ? xs[0] : double.NaN, xs.Count > 0 ? xs[^1] : double.NaN, xs.Count, double.NaN, double.NaN);
+            return new OtocGrowthFit(probe, double.NaN, double.NaN, xs.Count > 0 ? xs[0] : double.NaN, xs.Count > 0 ? xs[^1] : double.NaN, xs.Count, double.NaN, double.NaN);
         }
         int n = xs.Count;
         double mx = xs.Average(), my = ys.Average();
@@ -57,6 +57,6 @@ public static class GrowthRate
         double se = n > 2 ? Math.Sqrt(ssr / (n - 2) / sxx) : double.NaN;
         double r2 = syy > 0 ? 1 - ssr / syy : 1;
         double ratio = beta > 0 ? slope * beta / (2 * Math.PI) : double.NaN;
-        return new GrowthFit(probe, slope, se, xs[0], xs[^1], n, r2, ratio);
+        return new OtocGrowthFit(probe, slope, se, xs[0], xs[^1], n, r2, ratio);
     }
 }

@@ -73,6 +73,7 @@ internal static class LanczosEngine
                 break;
             }
             var sw = Stopwatch.StartNew();
+            var cpu0 = Process.GetCurrentProcess().TotalProcessorTime;
             long predicted = (long)Math.Ceiling(cur.Count * growth * 1.1);
             // The map driver's emit buffers: one block of inputs times the products per input (sampled),
             // with up to 2x slack from doubling, plus their initial streams.
@@ -191,6 +192,7 @@ internal static class LanczosEngine
                 Strings = a.Count,
                 DiscardedWeight = discarded,
                 Seconds = sw.Elapsed.TotalSeconds,
+                CpuSeconds = (Process.GetCurrentProcess().TotalProcessorTime - cpu0).TotalSeconds,
                 AccountedBytes = accounted,
                 AccumulatorBytesPerString = accBytesPerString,
                 SupportFirst = first,
@@ -199,8 +201,8 @@ internal static class LanczosEngine
                 OrthogonalityLoss = orthLoss,
             };
             steps.Add(step);
-            log?.LogInformation("lanczos step {N}: b = {B:F10}, {Strings:N0} strings ({Before:N0} before truncation), discarded {W:G3}, {Sec:F2} s, {Mem} accounted, {Managed} managed",
-                n, bn, a.Count, before, discarded, step.Seconds, Gib(accounted), Gib(managed));
+            log?.LogInformation("lanczos step {N}: b = {B:F10}, {Strings:N0} strings ({Before:N0} before truncation), discarded {W:G3}, {Sec:F2} s ({Cpu:F1} s CPU), {Mem} accounted, {Managed} managed",
+                n, bn, a.Count, before, discarded, step.Seconds, step.CpuSeconds, Gib(accounted), Gib(managed));
             onStep?.Invoke(step, a);
         }
 

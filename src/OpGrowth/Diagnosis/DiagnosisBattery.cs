@@ -1,0 +1,175 @@
+using System.Diagnostics;
+using Microsoft.Extensions.Logging;
+using OpGrowth.IO;
+using OpGrowth.Models;
+
+namespace OpGrowth.Diagnosis;
+
+/// <summary>
+/// The diagnosis battery: six tests that together say whether a model scrambles and, if not, why.
+/// 1 level statistics (small N), 2 Lanczos growth, 3 operator size and autocorrelation, 4 operator front,
+/// 5 conserved quantities and Mazur bounds, 6 finite temperature (small N). Each test returns a verdict
+/// with its figure, threshold and source; <see cref="VerdictRules"/> combines them.
+/// </summary>
+public static class DiagnosisBattery
+{
+    /// <summary>Runs the battery on <paramref name="model"/>; <paramref name="smaller"/> builds the smaller members for tests 1, 5 and 6.</summary>
+    public static DiagnosisReport Run(Model model, SmallerMember? smaller, DiagnosisOptions options, CancellationToken ct = default)
+    {
+        ArgumentNullException.ThrowIfNull(model);
+        ArgumentNullException.ThrowIfNull(options);
+        var sw = Stopwatch.StartNew();
+        var log = options.Logger;
+        var tests = new List<TestVerdict>();
+        var caveats = new List<string>();
+        double eps = OperatorAlgebra.EnergyScale(model.Hamiltonian);
+        log?.LogInformation("diagnosis of {Model}: N = {N}, {Lattice}, epsilon = {Eps:0.###}; probes {Probes}", model.Name, model.N, model.Lattice.Kind, eps, string.Join(", ", LanczosGrowthCheck.ProbesOf(model)));
+
+        Model? Small(int n, int r = 0)
+        {
+            if (model.N <= n && r == 0) return model;
+            try
+            {
+                return smaller?.Invoke(n, r);
+            }
+            catch (InputException ex)
+            {
+                log?.LogWarning("no smaller member with N = {N}: {Message}", n, ex.Message);
+                return null;
+            }
+        }
+        bool Skip(int k) => options.Skip.Contains(k);
+
+        // 5: conserved quantities first (test 3 compares with its Mazur bounds).
+        ConservedFindings? conserved = null;
+        if (Skip(5)) tests.Add(TestVerdict.NotRun(5, ConservationCheck.Name, "skipped"));
+        else
+        {
+            log?.LogInformation("test 5/6: conserved quantities");
+            var cluster = Small(options.ClusterN);
+            if (cluster is null) tests.Add(TestVerdict.NotRun(5, ConservationCheck.Name, $"no smaller member of N = {options.ClusterN} (the model has no size parameter N)"));
+            else
+            {
+                var (v, f) = Guard(5, ConservationCheck.Name, () => ConservationCheck.Run(model, cluster, options, ct));
+                tests.Add(v);
+                conserved = f;
+            }
+        }
+
+        // 1: level statistics.
+        LevelFindings? levels = null;
+        if (Skip(1)) tests.Add(TestVerdict.NotRun(1, LevelStatisticsCheck.Name, "skipped"));
+        else
+        {
+            log?.LogInformation("test 1/6: level statistics");
+            int reals = model.IsDisordered ? Math.Max(1, options.LevelRealizations) : 1;
+            var members = Enumerable.Range(0, reals).Select(r => Small(options.LevelN, r)).Where(m => m is not null).Select(m => m!).ToList();
+            if (members.Count == 0) tests.Add(TestVerdict.NotRun(1, LevelStatisticsCheck.Name, $"no smaller member of N = {options.LevelN} (the model has no size parameter N)"));
+            else
+            {
+                var (v, f) = Guard(1, LevelStatisticsCheck.Name, () => LevelStatisticsCheck.Run(members, options, ct));
+                tests.Add(v);
+                levels = f;
+            }
+        }
+
+        // 2: Lanczos growth.
+        LanczosFindings? lanczos = null;
+        if (Skip(2)) tests.Add(TestVerdict.NotRun(2, LanczosGrowthCheck.Name, "skipped"));
+        else
+        {
+            log?.LogInformation("test 2/6: Lanczos growth");
+            var (v, f) = Guard(2, LanczosGrowthCheck.Name, () => LanczosGrowthCheck.Run(model, options, ct));
+            tests.Add(v);
+            lanczos = f;
+        }
+
+        // 3 and 4: operator size, autocorrelation and front.
+        SpreadingFindings? spreading = null;
+        if (Skip(3) && Skip(4))
+        {
+            tests.Add(TestVerdict.NotRun(3, SpreadingCheck.SizeName, "skipped"));
+            tests.Add(TestVerdict.NotRun(4, SpreadingCheck.FrontName, "skipped"));
+        }
+        else
+        {
+            log?.LogInformation("tests 3-4/6: operator size and front");
+            try
+            {
+                var smallSize = Small(options.SizeN);
+                var fullConserved = ConservationCheck.KnownConserved(model);
+                var smallConserved = smallSize is null ? [] : ConservationCheck.KnownConserved(smallSize);
+                double Bound(IReadOnlyList<(string Label, IReadOnlyList<Pauli.PauliTerm> Q)> cq, Model m, string p)
+                    => ConservationCheck.MazurOf(cq, Pauli.PauliString.Parse(p, m.N)).Bound;
+                var (vs, vf, f) = SpreadingCheck.Run(model, smallSize,
+                    p => Bound(fullConserved, model, p), p => Bound(smallConserved, smallSize!, p), options, ct);
+                tests.Add(Skip(3) ? TestVerdict.NotRun(3, SpreadingCheck.SizeName, "skipped") : vs);
+                tests.Add(Skip(4) ? TestVerdict.NotRun(4, SpreadingCheck.FrontName, "skipped") : vf);
+                spreading = f;
+            }
+            catch (Exception ex) when (ex is ResourceLimitException or ArgumentException or InputException)
+            {
+                tests.Add(TestVerdict.NotRun(3, SpreadingCheck.SizeName, $"the evolution could not run: {ex.Message}"));
+                tests.Add(TestVerdict.NotRun(4, SpreadingCheck.FrontName, $"the evolution could not run: {ex.Message}"));
+            }
+        }
+
+        // 6: finite temperature.
+        ThermalFindings? thermal = null;
+        if (Skip(6)) tests.Add(TestVerdict.NotRun(6, FiniteTemperatureCheck.Name, "skipped"));
+        else
+        {
+            log?.LogInformation("test 6/6: finite temperature");
+            var small = Small(options.ThermalN);
+            if (small is null) tests.Add(TestVerdict.NotRun(6, FiniteTemperatureCheck.Name, $"no smaller member of N = {options.ThermalN} (the model has no size parameter N)"));
+            else
+            {
+                var extra = options.ThermalExtraSizes.Where(n => n != small.N).Select(n => Small(n)).Where(m => m is not null).Select(m => m!).ToArray();
+                var (v, f) = Guard(6, FiniteTemperatureCheck.Name, () => FiniteTemperatureCheck.Run(small, extra, options, ct));
+                tests.Add(v);
+                thermal = f;
+            }
+        }
+
+        tests.Sort((a, b) => a.Number.CompareTo(b.Number));
+        var overall = VerdictRules.Decide(tests, spreading);
+        if (model.IsDisordered) caveats.Add("random couplings: one disorder realisation per size, and the smaller members draw their own couplings");
+        caveats.Add($"tests 1, 5 and 6 and the operator-size saturation of test 3 use smaller members of the family (N = {options.LevelN}, {options.ClusterN}, {options.ThermalN}, {options.SizeN}); finite-size effects are strong there");
+        if (spreading is not null && spreading.Runs.Any(r => r.Discarded[^1] > 0)) caveats.Add("tests 3 and 4 keep the top strings of the evolving operator; the discarded weight is reported per probe");
+        if (lanczos is not null && lanczos.Probes.Any(p => p.DiscardedWeight > 0)) caveats.Add("test 2 truncated the Krylov vectors; coefficients whose budget spread exceeds 10% were not used");
+        if (model.Lattice.Kind == "all-to-all") caveats.Add("all-to-all model: there is no front; fast-scrambling signatures (exponential size growth, t* ~ ln N) need several N to confirm");
+        log?.LogInformation("diagnosis of {Model}: {Outcome}, leading mechanism {Mechanism} ({S:F0} s)", model.Name, MechanismNames.Of(overall.Outcome), overall.LeadingName, sw.Elapsed.TotalSeconds);
+        return new DiagnosisReport
+        {
+            Model = model.Name,
+            N = model.N,
+            Lattice = model.Lattice.Kind,
+            Epsilon = eps,
+            Probes = LanczosGrowthCheck.ProbesOf(model).Select(p => p.ToString()).ToArray(),
+            Tests = tests,
+            Overall = overall,
+            Caveats = caveats,
+            Settings = new DiagnosisSettings(options.LevelN, options.ClusterN, options.MaxWeight, options.SizeN, options.ThermalN, options.BetaEpsilon,
+                options.LanczosDepth, options.LanczosMaxStrings, options.EvolutionMaxStrings, options.EvolutionTime, options.EffectiveThreads),
+            Seconds = sw.Elapsed.TotalSeconds,
+            Levels = levels,
+            Lanczos = lanczos,
+            Spreading = spreading,
+            Conserved = conserved,
+            Thermal = thermal,
+        };
+    }
+
+    private static (TestVerdict, T?) Guard<T>(int number, string name, Func<(TestVerdict, T?)> run) where T : class
+    {
+        var sw = Stopwatch.StartNew();
+        try
+        {
+            return run();
+        }
+        catch (Exception ex) when (ex is ResourceLimitException or ArgumentException or InputException)
+        {
+            return (TestVerdict.NotRun(number, name, $"could not run: {ex.Message}", sw.Elapsed.TotalSeconds), null);
+        }
+    }
+}

@@ -1,0 +1,202 @@
+using System.Diagnostics;
+using Microsoft.Extensions.Logging;
+using OpGrowth.Krylov;
+using OpGrowth.Models;
+using OpGrowth.Pauli;
+
+namespace OpGrowth.Diagnosis;
+
+/// <summary>
+/// Test 2: growth of the Lanczos coefficients of local probes at infinite temperature. Linear growth
+/// (n/ln n in one dimension) is the chaotic class, sqrt(n) the interacting-integrable class and bounded
+/// b_n the free class. Uniform chains use the infinite-chain recursion (exact, within a memory and time
+/// budget); other models the finite system with top-M truncation at two budgets. A probe whose
+/// straight-line slope is not significant (|alpha| &lt; 3 standard errors) counts as bounded: its operator
+/// does not keep growing (free or localized).
+/// Source: Parker, Cao, Avdoshkin, Scaffidi, Altman, PRX 9, 041017 (2019).
+/// </summary>
+public static class LanczosGrowthCheck
+{
+    /// <summary>Test name.</summary>
+    public const string Name = "Lanczos growth";
+
+    /// <summary>Largest relative uncertainty of a b_n used in the fit (common practice).</summary>
+    public const double MaxRelativeUncertainty = 0.1;
+
+    /// <summary>The probes used: the model's first probe and, when it sits on one site, X and Z on that site.</summary>
+    public static IReadOnlyList<PauliString> ProbesOf(Model model)
+    {
+        ArgumentNullException.ThrowIfNull(model);
+        var first = model.Probes[0];
+        var list = new List<PauliString> { first };
+        if (first.Weight == 1 && model.SizeMeasure == SizeMeasure.Qubits)
+        {
+            int s = first.Support()[0];
+            foreach (char a in "XZ")
+            {
+                var p = PauliString.Single(model.N, s, a);
+                if (!list.Contains(p)) list.Add(p);
+            }
+        }
+        return list;
+    }
+
+    /// <summary>Runs the test on the full model.</summary>
+    public static (TestVerdict Verdict, LanczosFindings? Findings) Run(Model model, DiagnosisOptions options, CancellationToken ct = default)
+    {
+        ArgumentNullException.ThrowIfNull(model);
+        ArgumentNullException.ThrowIfNull(options);
+        var sw = Stopwatch.StartNew();
+        if (model.IsDriven) return (TestVerdict.NotRun(2, Name, "a driven model has no Liouvillian [H, .]: Lanczos growth is not defined for the period map"), null);
+        var log = options.Logger;
+        bool chain = model.IsTranslationInvariant && model.Lattice.Kind is "chain" or "ring";
+        var results = new List<LanczosProbeFindings>();
+        foreach (var probe in ProbesOf(model))
+        {
+            ct.ThrowIfCancellationRequested();
+            results.Add(RunProbe(model, probe, chain, options, ct));
+            var r = results[^1];
+            log?.LogInformation("Lanczos growth: {Probe}: {Kind} ({Formula}, delta AIC {D:F1}, alpha {A:F3} +- {E:F3}) from {Used} coefficients, {Mode}, {S:F1} s",
+                r.Probe, r.Kind, r.BestFormula ?? "no fit", r.DeltaAic, r.Alpha, r.AlphaError, r.Used, r.Mode, r.Seconds);
+        }
+        var findings = new LanczosFindings(results);
+        return (Judge(findings) with { Seconds = sw.Elapsed.TotalSeconds }, findings);
+    }
+
+    private static LanczosProbeFindings RunProbe(Model model, PauliString probe, bool chain, DiagnosisOptions o, CancellationToken ct)
+    {
+        var sw = Stopwatch.StartNew();
+        using var limit = CancellationTokenSource.CreateLinkedTokenSource(ct);
+        limit.CancelAfter(TimeSpan.FromSeconds(o.LanczosSeconds));
+        var lo = new LanczosOptions
+        {
+            Depth = o.LanczosDepth,
+            MemoryBudgetBytes = o.LanczosMemoryBytes,
+            Threads = o.EffectiveThreads,
+            Cancellation = limit.Token,
+        };
+        LanczosEstimate est;
+        string mode;
+        if (chain)
+        {
+            est = LanczosStudy.Run(model, probe, LanczosMode.InfiniteChain, lo, []);
+            mode = "infinite chain, exact";
+        }
+        else
+        {
+            est = LanczosStudy.Run(model, probe, LanczosMode.Truncated, lo, [o.LanczosMaxStrings]);
+            mode = FormattableString.Invariant($"finite system (N = {model.N}), top-M truncation at M = {o.LanczosMaxStrings / 4} and {o.LanczosMaxStrings}");
+        }
+        ct.ThrowIfCancellationRequested();
+        var b = est.B;
+        var u = est.Uncertainty;
+        int used = KrylovAnalyzer.TrustedDepth(est);
+        for (int n = 0; n < used; n++)
+        {
+            if (u[n] > MaxRelativeUncertainty * Math.Abs(b[n])) { used = n; break; }
+        }
+        var (kind, formula, delta, alpha, alphaErr, window) = Classify(b.Take(used).ToArray());
+        string stop = est.Reference.StopMessage;
+        if (limit.IsCancellationRequested && !ct.IsCancellationRequested) stop = $"time limit of {o.LanczosSeconds:0} s reached after b_{b.Count}";
+        return new LanczosProbeFindings
+        {
+            Probe = probe.ToString(),
+            Mode = mode,
+            B = b,
+            Uncertainty = u,
+            Used = used,
+            Kind = kind,
+            BestFormula = formula,
+            DeltaAic = delta,
+            Alpha = alpha,
+            AlphaError = alphaErr,
+            WindowStart = window.Item1,
+            WindowEnd = window.Item2,
+            StopMessage = stop,
+            DiscardedWeight = est.Reference.TotalDiscardedWeight,
+            Seconds = sw.Elapsed.TotalSeconds,
+        };
+    }
+
+    /// <summary>Kind of a growth class: "linear" for n and n/ln n, "sqrt", "bounded".</summary>
+    public static string KindOf(GrowthClass c) => c switch
+    {
+        GrowthClass.Linear or GrowthClass.LinearOverLog => "linear",
+        GrowthClass.SquareRoot => "sqrt",
+        _ => "bounded",
+    };
+
+    /// <summary>
+    /// Classifies coefficients b_1..b_n: fits every class over the default window; "bounded" when the
+    /// straight-line slope is not significant or the best growing fit has a negative amplitude; otherwise the
+    /// best class, decided only when the best fit of another kind trails by at least the AIC margin.
+    /// </summary>
+    public static (string Kind, string? Formula, double DeltaAic, double Alpha, double AlphaError, (int, int) Window) Classify(IReadOnlyList<double> b)
+    {
+        ArgumentNullException.ThrowIfNull(b);
+        if (b.Count < 6) return ("undecided", null, 0, double.NaN, double.NaN, (0, 0));
+        var g = LanczosGrowth.Fit(b);
+        var best = g.Best;
+        string kind = KindOf(best.Class);
+        var other = g.Fits.Where(f => KindOf(f.Class) != kind).MinBy(f => f.Aic);
+        double delta = other is null ? double.PositiveInfinity : other.Aic - best.Aic;
+        bool flat = !(g.Alpha > 3 * g.AlphaError) || (best.Class != GrowthClass.Bounded && best.A <= 0);
+        if (flat)
+        {
+            var bounded = g.Fits.First(f => f.Class == GrowthClass.Bounded);
+            return ("bounded", bounded.Formula, Math.Max(0, delta), g.Alpha, g.AlphaError, (g.WindowStart, g.WindowEnd));
+        }
+        if (kind == "bounded") kind = "undecided"; // significant slope but a constant fits best: contradictory, do not decide
+        if (delta < DiagnosisThresholds.LanczosDeltaAic) kind = "undecided";
+        return (kind, best.Formula, delta, g.Alpha, g.AlphaError, (g.WindowStart, g.WindowEnd));
+    }
+
+    /// <summary>The verdict from the per-probe growth kinds (pure).</summary>
+    public static TestVerdict Judge(LanczosFindings f)
+    {
+        ArgumentNullException.ThrowIfNull(f);
+        var inv = System.Globalization.CultureInfo.InvariantCulture;
+        string figure = string.Join("; ", f.Probes.Select(p => string.Create(inv,
+            $"{p.Probe}: {p.Kind}{(p.BestFormula is null ? string.Empty : $" ({p.BestFormula}, n = {p.WindowStart}..{p.WindowEnd}, dAIC {p.DeltaAic:0.0})")}")));
+        string threshold = string.Create(inv,
+            $"best class by AIC, decided when the best fit of another kind trails by >= {DiagnosisThresholds.LanczosDeltaAic}; bounded when the slope alpha is below 3 standard errors");
+        const string source = "Parker, Cao, Avdoshkin, Scaffidi, Altman, PRX 9, 041017 (2019); AIC margin and 3 sigma: common practice";
+        var notes = f.Probes.Where(p => !string.IsNullOrEmpty(p.StopMessage)).Select(p => $"{p.Probe}: {p.StopMessage}").ToList();
+        foreach (var p in f.Probes.Where(p => p.DiscardedWeight > 0))
+            notes.Add(string.Create(inv, $"{p.Probe}: truncation discarded weight {p.DiscardedWeight:G3} in total; b_n with budget spread above {MaxRelativeUncertainty:P0} were not used ({p.Used} of {p.B.Count} used)"));
+        TestVerdict V(TestOutcome o, string reason, params Mechanism[] ev) => new()
+        {
+            Number = 2,
+            Name = Name,
+            Outcome = o,
+            Figure = figure,
+            Threshold = threshold,
+            Source = source,
+            Reason = reason,
+            Evidence = ev,
+            Notes = notes,
+        };
+        var bounded = f.Probes.FirstOrDefault(p => p.Kind == "bounded");
+        if (bounded is not null)
+        {
+            return V(TestOutcome.Fails, string.Create(inv,
+                $"the Lanczos coefficients of {bounded.Probe} stay bounded (slope {bounded.Alpha:0.###} +- {bounded.AlphaError:0.###}): the operator never leaves a small (quadratic or localized) operator space"),
+                Mechanism.FreeFermions, Mechanism.Localized);
+        }
+        bool anyLinear = f.Probes.Any(p => p.Kind == "linear");
+        var sqrt = f.Probes.FirstOrDefault(p => p.Kind == "sqrt");
+        if (anyLinear && sqrt is null && f.Probes.All(p => p.Kind is "linear" or "undecided"))
+        {
+            var l = f.Probes.First(p => p.Kind == "linear");
+            return V(TestOutcome.Scrambles, string.Create(inv,
+                $"b_n of {l.Probe} grow linearly (alpha = {l.Alpha:0.###} +- {l.AlphaError:0.###}, so lambda_L <= {2 * l.Alpha:0.###} at infinite temperature): the chaotic growth class"), Mechanism.Scrambles);
+        }
+        if (sqrt is not null && !anyLinear)
+        {
+            return V(TestOutcome.Fails, $"b_n of {sqrt.Probe} grow like sqrt(n), the class of interacting integrable models", Mechanism.InteractingIntegrable);
+        }
+        return V(TestOutcome.Inconclusive, anyLinear && sqrt is not null
+            ? "probes disagree (one linear, one sqrt(n)): no single growth class"
+            : "no growth class is preferred clearly enough over the computed coefficients (raise --effort for more b_n)");
+    }
+}
