@@ -146,7 +146,7 @@ internal sealed class PassRunner<T> where T : unmanaged, IPauliKey<T>
             MergeOwner(buffers, threads, target, 0);
             return;
         }
-        // Each owner thread merges the partitions it owns (p % threads), reading the buffers in slice order.
+        // Each owner thread merges the partition groups it owns (g % threads), reading the buffers in slice order.
         Parallel.For(0, threads, options, u => MergeOwner(buffers, threads, target, u));
     }
 
@@ -157,20 +157,25 @@ internal sealed class PassRunner<T> where T : unmanaged, IPauliKey<T>
     {
         var parts = target.Parts;
         int shift = target.Shift;
-        for (int b = 0; b < threads; b++)
+        int groups = buffers[0].Groups;
+        // One partition group at a time (group g belongs to thread g mod threads), so its tables stay in cache.
+        for (int g = owner; g < groups; g += threads)
         {
-            var buf = buffers[b];
-            var entries = buf.Streams[owner];
-            int c = buf.Counts[owner];
-            for (int i = 0; i < c; i++)
+            for (int b = 0; b < threads; b++)
             {
-                if (i + Ahead < c)
+                var buf = buffers[b];
+                var entries = buf.Streams[g];
+                int c = buf.Counts[g];
+                for (int i = 0; i < c; i++)
                 {
-                    ulong ha = entries[i + Ahead].Hash;
-                    parts[(int)(ha >> shift)].Prefetch(ha);
+                    if (i + Ahead < c)
+                    {
+                        ulong ha = entries[i + Ahead].Hash;
+                        parts[(int)(ha >> shift)].Prefetch(ha);
+                    }
+                    ref var e = ref entries[i];
+                    parts[(int)(e.Hash >> shift)].Add(e.Key, e.Value, e.Hash);
                 }
-                ref var e = ref entries[i];
-                parts[(int)(e.Hash >> shift)].Add(e.Key, e.Value, e.Hash);
             }
         }
     }
