@@ -84,4 +84,42 @@ public sealed class EmitBuffer<T> where T : unmanaged, IPauliKey<T>
         public double Value;
         public ulong Hash;
     }
+
+    /// <summary>
+    /// Merges the owner's groups (g = owner, owner + owners, ...) of every buffer into a target, one
+    /// group at a time and the buffers in slice order within a group, so each string's contributions
+    /// are summed in input order at any thread count. The target is a struct so the JIT specialises
+    /// the loop for each accumulator.
+    /// </summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
+    internal static void MergeGroups<TTarget>(EmitBuffer<T>[] buffers, int buffersUsed, int owner, int owners, TTarget target)
+        where TTarget : struct, IGroupTarget<T>
+    {
+        const int ahead = 12;
+        int groups = buffers[0].Groups;
+        for (int g = owner; g < groups; g += owners)
+        {
+            for (int b = 0; b < buffersUsed; b++)
+            {
+                var entries = buffers[b].Streams[g];
+                int c = buffers[b].Counts[g];
+                for (int i = 0; i < c; i++)
+                {
+                    if (i + ahead < c) target.Prefetch(entries[i + ahead].Hash);
+                    ref var e = ref entries[i];
+                    target.Add(e.Key, e.Value, e.Hash);
+                }
+            }
+        }
+    }
+}
+
+/// <summary>A partitioned accumulator as seen by <see cref="EmitBuffer{T}.MergeGroups"/>.</summary>
+internal interface IGroupTarget<T> where T : unmanaged, IPauliKey<T>
+{
+    /// <summary>Hints the CPU to fetch the home slot of a hash that will be added soon.</summary>
+    void Prefetch(ulong hash);
+
+    /// <summary>Adds one contribution with its precomputed hash.</summary>
+    void Add(in T key, double value, ulong hash);
 }

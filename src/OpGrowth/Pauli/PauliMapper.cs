@@ -28,9 +28,6 @@ public static class PauliMapper
     /// <summary>Largest block of input strings.</summary>
     private const int MaxBlock = 1 << 20;
 
-    /// <summary>Prefetch distance of the merge: far enough ahead to hide a memory miss, short enough to stay in L1.</summary>
-    private const int Ahead = 12;
-
     /// <summary>
     /// Upper bound on the contributions held in the emit buffers at once during a pass over
     /// <paramref name="inputs"/> strings that emit <paramref name="perInput"/> each (for memory accounting).
@@ -120,28 +117,16 @@ public static class PauliMapper
 
     private static void MergeOwner<T>(EmitBuffer<T>[] buffers, PauliAccumulator<T> target, int owner, int owners)
         where T : unmanaged, IPauliKey<T>
+        => EmitBuffer<T>.MergeGroups(buffers, buffers.Length, owner, owners, new AccumulatorTarget<T>(target.Parts, target.Shift));
+
+    private readonly struct AccumulatorTarget<T>(PauliAccumulator<T>.Partition[] parts, int shift) : IGroupTarget<T>
+        where T : unmanaged, IPauliKey<T>
     {
-        var parts = target.Parts;
-        int shift = target.Shift;
-        int groups = buffers[0].Groups;
-        for (int g = owner; g < groups; g += owners)
-        {
-            foreach (var buf in buffers)
-            {
-                var entries = buf.Streams[g];
-                int c = buf.Counts[g];
-                for (int i = 0; i < c; i++)
-                {
-                    if (i + Ahead < c)
-                    {
-                        ulong ha = entries[i + Ahead].Hash;
-                        parts[(int)(ha >> shift)].Prefetch(ha);
-                    }
-                    ref var e = ref entries[i];
-                    parts[(int)(e.Hash >> shift)].Add(e.Key, e.Value, e.Hash);
-                }
-            }
-        }
+        [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveInlining)]
+        public void Prefetch(ulong hash) => parts[(int)(hash >> shift)].Prefetch(hash);
+
+        [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveInlining)]
+        public void Add(in T key, double value, ulong hash) => parts[(int)(hash >> shift)].Add(key, value, hash);
     }
 
     /// <summary>Drops the pooled emit buffers (they hold up to a block's worth of contributions per thread).</summary>
