@@ -18,7 +18,7 @@ internal static class Program
         }
         if (args.Length > 3 && args[0] == "quick-evolution")
         {
-            QuickEvolution.Run(long.Parse(args[1], System.Globalization.CultureInfo.InvariantCulture), int.Parse(args[2], System.Globalization.CultureInfo.InvariantCulture), int.Parse(args[3], System.Globalization.CultureInfo.InvariantCulture));
+            QuickEvolution.Run(long.Parse(args[1], System.Globalization.CultureInfo.InvariantCulture), int.Parse(args[2], System.Globalization.CultureInfo.InvariantCulture), int.Parse(args[3], System.Globalization.CultureInfo.InvariantCulture), args.Length > 4 ? int.Parse(args[4], System.Globalization.CultureInfo.InvariantCulture) : 0);
             return;
         }
         BenchmarkSwitcher.FromAssembly(typeof(Program).Assembly).Run(args);
