@@ -30,17 +30,18 @@ internal static class RunCommand
         var time = new Option<double?>("--time") { Description = "Final evolution time (default: the effort's)." };
         var noExact = new Option<bool>("--no-exact") { Description = "Skip the exact cross-check at small N." };
         var noLanczos = new Option<bool>("--no-lanczos") { Description = "Skip the Lanczos coefficients." };
-        var sweep = new Option<string?>("--sweep") { Description = "Also run t*(N) at these sizes, e.g. 8,12,16 (needs the sweep stage)." };
+        var noDiagnosis = new Option<bool>("--no-diagnosis") { Description = "Skip the diagnosis battery." };
+        var sweep = new Option<string?>("--sweep") { Description = "Also run t*(N) at these sizes, e.g. 8,10,12, and fit t* = a + b ln N against t* = a + N/v (results kept in <out>/sweep; a rerun reuses finished sizes)." };
         var cmd = new Command("run",
             "From a model to a scrambling report in one command: Heisenberg evolution of the model's first probe with the convergence ladder " +
             "(size growth, OTOC light cone, v_B or growth rate, saturation, t*), Lanczos coefficients with their growth class, and the Pauli engine " +
-            "checked against the exact engine at a small N of the same family. Writes report.html, report.md, figures, results.json, CSV series and manifest.json.\n\n" +
-            "Examples:\n  opgrowth run\n  opgrowth run mixed-field-ising --set N=10 --effort quick --out runs/mfi")
+            "checked against the exact engine at a small N of the same family, a bounded diagnosis battery (does it scramble, and if not, why), and optionally t*(N). Writes report.html, report.md, figures, results.json, CSV series and manifest.json.\n\n" +
+            "Examples:\n  opgrowth run\n  opgrowth run mixed-field-ising --set N=10 --effort quick --out runs/mfi\n  opgrowth run demo/tilted-chain --sweep 8,10,12")
         {
-            model, set, outDir, effort, memory, threads, time, noExact, noLanczos, sweep,
+            model, set, outDir, effort, memory, threads, time, noExact, noLanczos, noDiagnosis, sweep,
         };
         cmd.SetAction(pr => CliHost.Run(ct => Execute(pr.GetValue(model), pr.GetValue(set) ?? [], pr.GetValue(outDir), pr.GetValue(effort)!, pr.GetValue(memory),
-            pr.GetValue(threads), pr.GetValue(time), pr.GetValue(noExact), pr.GetValue(noLanczos), pr.GetValue(sweep), ct)));
+            pr.GetValue(threads), pr.GetValue(time), pr.GetValue(noExact), pr.GetValue(noLanczos), pr.GetValue(noDiagnosis), pr.GetValue(sweep), ct)));
         return cmd;
     }
 
@@ -58,7 +59,7 @@ internal static class RunCommand
         }
     }
 
-    private static int Execute(string? modelArg, string[] sets, string? outDir, string effort, long? memory, int threads, double? time, bool noExact, bool noLanczos, string? sweep, CancellationToken ct)
+    private static int Execute(string? modelArg, string[] sets, string? outDir, string effort, long? memory, int threads, double? time, bool noExact, bool noLanczos, bool noDiagnosis, string? sweep, CancellationToken ct)
     {
         string path = ShippedModels.Resolve(modelArg ?? ScramblingRunOptions.DefaultModel);
         var overrides = ModelLoader.ParseOverrides(sets, path);
@@ -84,6 +85,7 @@ internal static class RunCommand
             Time = time,
             RunExact = !noExact,
             RunLanczos = !noLanczos,
+            RunDiagnosis = !noDiagnosis,
             SweepSizes = sizes,
             Logger = log,
         };
@@ -104,9 +106,18 @@ internal static class RunCommand
         }
         var o = CliHost.Out;
         o.WriteLine($"{result.Model.Name} (N = {result.Model.N}), probe {result.Problem.Initial[0].String}, effort {effort}");
+        if (result.Verdict is { } verdict)
+            o.WriteLine($"  VERDICT: {verdict.Outcome}{(verdict.Mechanism == "-" ? "" : $" (leading mechanism: {verdict.Mechanism})")} [{verdict.Source}]");
         foreach (var h in result.Headlines) o.WriteLine($"  {h.Name}: {h.Value.FormatValue()}{(h.Converged ? "" : " (not converged)")}");
         foreach (var v in result.Verdicts) o.WriteLine($"  verdict: {v.Test}: {v.Verdict}");
         foreach (var c in result.Checks) o.WriteLine($"  check: {c.Name}: {(c.Passed ? "passed" : "FAILED")}");
+        if (result.Diagnosis is { } d)
+            foreach (var t in d.Tests) o.WriteLine($"  diagnosis {t.Number} {t.Name}: {OpGrowth.Diagnosis.MechanismNames.Of(t.Outcome)} ({t.Figure})");
+        if (result.Sweep?.Series is { } sw)
+        {
+            foreach (var a in sw.Data) o.WriteLine(a.TStar is double ts ? FormattableString.Invariant($"  t*(N = {a.N}) = {OpGrowth.Reporting.NumberFormat.ValueWithUncertainty(ts, a.TStarTotalError)}") : $"  t*(N = {a.N}) not reached");
+            if (sw.Comparison is { } c) o.WriteLine($"  t*(N): {c.Verdict}");
+        }
         if (result.CrossCheck is { Ran: false } x) o.WriteLine($"  exact cross-check skipped: {x.SkipReason}");
         o.WriteLine($"report: {Path.Combine(result.Folder, "report.html")}");
         if (result.Cancelled) throw new OperationCanceledException();

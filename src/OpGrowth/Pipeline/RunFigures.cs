@@ -70,6 +70,41 @@ public static class RunFigures
                 LogDifference = true,
             }, size));
         }
+        if (r.Sweep?.Series is { } series && TStarSeries(series) is { } tsSeries)
+        {
+            string caption = series.Comparison?.Verdict is { } v
+                ? $"t* at each N with its total uncertainty and both fits; {v}."
+                : $"t* at each N with its total uncertainty; {series.Note ?? "too few sizes for the fits"}.";
+            list.Add(Charts.ScramblingTime(tsSeries, size, "tstar-scaling", $"t*(N): {r.Model.Name}, probe {series.Probe}", caption));
+        }
         return list;
+    }
+
+    /// <summary>The t*(N) points of a sweep series with both fitted laws (null with fewer than two sizes that reached t*).</summary>
+    public static ScramblingTimeSeries? TStarSeries(OpGrowth.Sweeps.SeriesFit s)
+    {
+        var data = s.Data.Where(a => a.TStar is not null).ToList();
+        if (data.Count < 2) return null;
+        var series = new ScramblingTimeSeries(
+            data.Select(a => (double)a.N).ToArray(),
+            data.Select(a => a.TStar!.Value).ToArray(),
+            data.Select(a => a.TStarTotalError).ToArray());
+        if (s.Comparison is { } c)
+        {
+            series = series with
+            {
+                Logarithmic = new ScalingFit(ScalingForm.Logarithmic, c.Log.A, c.Log.AError, c.Log.Slope, c.Log.SlopeError)
+                {
+                    ReducedChiSquare = double.IsFinite(c.Log.ReducedChiSquared) ? c.Log.ReducedChiSquared : null,
+                },
+                Ballistic = c.Linear.V is double v
+                    ? new ScalingFit(ScalingForm.Ballistic, c.Linear.A, c.Linear.AError, v, c.Linear.VError ?? double.NaN)
+                    {
+                        ReducedChiSquare = double.IsFinite(c.Linear.ReducedChiSquared) ? c.Linear.ReducedChiSquared : null,
+                    }
+                    : null,
+            };
+        }
+        return series;
     }
 }

@@ -19,7 +19,7 @@ public static class RunReport
     public static readonly IReadOnlyList<string> ResultKeys =
     [
         "format", "toolVersion", "created", "model", "options", "effort", "seeds", "threads", "completed", "stopReason",
-        "headline", "evolution", "lanczos", "crossCheck", "diagnosis", "sweep", "verdicts", "checks", "cautions", "notes",
+        "verdict", "headline", "evolution", "lanczos", "crossCheck", "diagnosis", "sweep", "verdicts", "checks", "cautions", "notes",
         "timingsSeconds", "files",
     ];
 
@@ -112,6 +112,7 @@ public static class RunReport
     public static ScramblingRunResult Write(ScramblingRunResult r, List<string> dataFiles, Dictionary<string, double> timings, Stopwatch clock)
     {
         var headlines = Headlines(r);
+        r = r with { Verdict = Decide(r) };
         var verdicts = Verdicts(r);
         var checks = Checks(r);
         var cautions = Cautions(r);
@@ -131,6 +132,7 @@ public static class RunReport
            .AddModel("status", r.Completed ? "completed" : $"stopped early ({r.StopReason}); finished stages are reported");
         foreach (var h in headlines) doc.Headlines.Add(h);
         foreach (var v in verdicts) doc.Verdicts.Add(v);
+        foreach (var t in Tables(r)) doc.Tables.Add(t);
         foreach (var c in checks) doc.Checks.Add(c);
         foreach (var c in cautions) doc.Cautions.Add(c);
         foreach (var f in RunFigures.All(r with { Headlines = headlines })) doc.Figures.Add(f);
@@ -177,12 +179,22 @@ public static class RunReport
         "lanczos.csv" => "Lanczos coefficients b_n with their spread across budgets",
         "krylov.csv" => "autocorrelation C(t) and Krylov complexity K(t) from the b_n",
         "cross_check.csv" => "autocorrelation from the Pauli engine and the exact engine at small N",
+        "diagnosis.json" => "the diagnosis battery's full report: verdict per test, figures, thresholds, sources, data, settings",
+        "diagnosis.txt" => "the diagnosis battery's verdict table as text",
+        "table.csv" => "t*(N) sweep: one row per point (t*, its errors, engine, discarded weight)",
+        "table.json" => "t*(N) sweep: the same table as JSON",
+        "averages.csv" => "t*(N) sweep: per size (seed averages)",
+        "series.csv" => "t*(N) sweep: both scaling fits with errors and information criteria",
+        "timings.csv" => "t*(N) sweep: wall time and memory per point",
+        "fits.json" => "t*(N) sweep: both scaling fits, residuals and the preferred law",
         _ => "data",
     };
 
     private static string Summary(ScramblingRunResult r, List<HeadlineFigure> h)
     {
         var parts = new List<string>();
+        if (r.Verdict is { } verdict)
+            parts.Add($"Verdict: {verdict.Outcome}" + (verdict.Mechanism == "-" ? "" : $" (leading mechanism: {verdict.Mechanism})") + $", from the {verdict.Source}.");
         var evo = r.Evolution;
         if (evo is not null && evo.Figures.Count > 0)
         {
@@ -198,6 +210,7 @@ public static class RunReport
             parts.Add($"{x.Name}: {x.Value.FormatValue()}.");
         if (r.Krylov?.Growth is { } lg) parts.Add($"The Lanczos coefficients fit best as class {lg.Best.Class}.");
         if (r.CrossCheck is { } c) parts.Add(c.Ran ? (c.Passed ? $"The Pauli engine agrees with the exact engine at N = {c.N}." : $"The Pauli engine DISAGREES with the exact engine at N = {c.N}.") : "The exact cross-check was skipped: " + c.SkipReason + ".");
+        if (r.Sweep?.Series?.Comparison is { } cmp) parts.Add($"t*(N) over N = {string.Join(", ", r.Sweep.Series.Data.Select(d => d.N))}: {cmp.Verdict}.");
         int nc = h.Count(x => !x.Converged);
         if (nc > 0) parts.Add($"{nc} headline figure(s) are not converged under the ladder; treat them as estimates.");
         return string.Join(" ", parts);
@@ -239,10 +252,30 @@ public static class RunReport
             list.Add(new VerdictRow("Lanczos growth class", new Measured(lg.Alpha, lg.AlphaError, "linear slope alpha", new FitWindow(lg.WindowStart, lg.WindowEnd, "n")),
                 "best AIC among linear, n/ln n, sqrt n, bounded", cls, $"{meaning}; delta AIC to the next class {lg.DeltaAic.ToString("0.#", Inv)}"));
         }
-        list.Add(new VerdictRow("diagnosis battery", Measured.Exact(0, "diagnostic tests run"), "-", "not run",
-            "the diagnosis battery is not part of this build"));
+        if (r.Diagnosis is { } d)
+        {
+            int ran = d.Tests.Count(t => t.Figure != "not measured");
+            int yes = d.Tests.Count(t => t.Outcome == OpGrowth.Diagnosis.TestOutcome.Scrambles);
+            int no = d.Tests.Count(t => t.Outcome == OpGrowth.Diagnosis.TestOutcome.Fails);
+            list.Insert(0, new VerdictRow("overall (diagnosis battery)",
+                Measured.Exact(yes, FormattableString.Invariant($"tests that say scrambles, of {ran} measured ({no} say fails)")),
+                "the battery's rules combine the six tests (see the diagnosis table)", r.Verdict!.Outcome, r.Verdict.Reason));
+        }
+        else
+        {
+            list.Add(new VerdictRow("diagnosis battery", Measured.Exact(0, "diagnostic tests run"), "-", "not run", r.DiagnosisSkipReason ?? "not run"));
+            if (r.Verdict is { } v)
+                list.Insert(0, new VerdictRow("overall (evolution only)", Measured.Exact(list.Count(x => x.Verdict == "scrambles"), "rows above that say scrambles"), "saturation >= 0.9 of 3N/4", v.Outcome, v.Reason));
+        }
         if (r.Options.SweepSizes.Count > 0)
-            list.Add(new VerdictRow("t*(N) sweep", Measured.Exact(0, "sizes run"), "-", "not run", "the sweep stage is not part of this build"));
+        {
+            if (r.Sweep?.Series is { Comparison: { } cmp } series)
+                list.Add(new VerdictRow("t*(N) scaling", Measured.Exact(cmp.DeltaAic, "Delta AIC = AIC(a + N/v) - AIC(a + b ln N); positive favours ln N"),
+                    "|Delta AIC| >= 2 to prefer one law (Kass-Raftery scale)", cmp.Preferred switch { "log" => "ln N (fast)", "linear" => "linear in N (ballistic)", _ => "neither" }, cmp.Verdict));
+            else
+                list.Add(new VerdictRow("t*(N) scaling", Measured.Exact(r.Sweep?.Series?.Data.Count(x => x.TStar is not null) ?? 0, "sizes with t*"), "at least 3 sizes with t*", "not fitted",
+                    r.Sweep?.Series?.Note ?? (r.Sweep is null ? "the sweep did not run (run stopped)" : "no sweep results")));
+        }
         return list;
     }
 
@@ -290,6 +323,7 @@ public static class RunReport
         threads = r.Options.Threads,
         runExact = r.Options.RunExact,
         runLanczos = r.Options.RunLanczos,
+        runDiagnosis = r.Options.RunDiagnosis,
         sweepSizes = r.Options.SweepSizes,
         time = r.EvolutionOptions.Time,
         crossCheckTolerance = r.Options.CrossCheckTolerance,
@@ -304,7 +338,134 @@ public static class RunReport
         },
         lanczos = r.LanczosOptions is null ? null : new { depth = r.LanczosOptions.Depth, budgets = r.Preset.LanczosBudgets, mode = "truncated", memoryBytes = r.LanczosOptions.MemoryBudgetBytes },
         exact = new { n = r.Preset.ExactN, time = r.Preset.ExactTime, method = "taylor (Pauli, no truncation) vs dense (exact)" },
+        diagnosis = r.Diagnosis?.Settings,
+        sweep = r.Sweep is { } sw ? new { sizes = sw.Sizes, folder = "sweep", engine = sw.Engine.CanonicalAll() } : null,
     };
+
+    /// <summary>
+    /// The run's overall verdict. When the diagnosis battery ran, its overall outcome and leading mechanism are
+    /// the verdict (it weighs six independent tests); the evolution's own saturation signal is quoted beside it
+    /// and any disagreement is stated. Without the battery the verdict rests on the evolution: saturation of the
+    /// mean size at 0.9 or more of 3N/4 says scrambles, anything else is inconclusive.
+    /// </summary>
+    public static RunVerdict Decide(ScramblingRunResult r)
+    {
+        string? own = null;
+        bool ownScrambles = false;
+        bool ownPlateau = false;
+        if (r.Evolution is { } evo && evo.Figures.Count > 0 && evo.Main.Records.Count > 0)
+        {
+            var g = evo.Figures[0].Growth;
+            double ratio = g.SaturationRatio ?? evo.Main.Records[^1].MeanSize / g.SaturationExpected;
+            ownScrambles = g.Saturation is not null && ratio >= 0.9;
+            ownPlateau = g.Saturation is not null;
+            own = g.Saturation is not null
+                ? FormattableString.Invariant($"the evolution at N = {r.Model.N} saturates at {ratio:0.###} of the random-operator size 3N/4")
+                : FormattableString.Invariant($"the evolution at N = {r.Model.N} reaches {ratio:0.###} of 3N/4 by t = {evo.Main.Records[^1].Time:0.##} without a plateau");
+        }
+        if (r.Diagnosis is { } d)
+        {
+            var o = d.Overall;
+            string outcome = RunStages.OutcomeText(o.Outcome);
+            string reason = $"{o.Reason} (tests {string.Join(", ", o.Supporting)})";
+            if (own is not null)
+            {
+                // Without a plateau the evolution neither supports nor contradicts the battery.
+                bool? agree = !ownPlateau ? null : o.Outcome switch
+                {
+                    OpGrowth.Diagnosis.TestOutcome.Scrambles => ownScrambles,
+                    OpGrowth.Diagnosis.TestOutcome.Fails => !ownScrambles,
+                    _ => true,
+                };
+                reason += agree switch
+                {
+                    null => $"; the evolution does not decide it: {own} (the run ended before saturation).",
+                    true => $"; consistent with this: {own}.",
+                    false => $"; note: {own}, which alone would point the other way (operator size also saturates in interacting integrable models, so the battery's combined tests decide).",
+                };
+            }
+            return new RunVerdict(outcome, o.LeadingName, reason, "diagnosis battery");
+        }
+        if (own is null) return new RunVerdict("inconclusive", "-", "no evolution data", "evolution");
+        return new RunVerdict(ownScrambles ? "scrambles" : "inconclusive", "-",
+            own + (ownScrambles ? "." : "; without the diagnosis battery this is not enough to decide."), "evolution");
+    }
+
+    private static List<ReportTable> Tables(ScramblingRunResult r)
+    {
+        var list = new List<ReportTable>();
+        if (r.Diagnosis is { } d)
+        {
+            var rows = d.Tests.Select(t => (IReadOnlyList<string>)[t.Number.ToString(Inv), t.Name, OpGrowth.Diagnosis.MechanismNames.Of(t.Outcome), t.Figure,
+                t.Threshold == "-" ? "-" : t.Threshold + " (source: " + t.Source + ")", t.Reason]).ToList();
+            var s = d.Settings;
+            list.Add(new ReportTable("diagnosis", "Diagnosis", ["#", "test", "verdict", "figure", "threshold", "reason"], rows)
+            {
+                Intro = FormattableString.Invariant($"Overall: {RunStages.OutcomeText(d.Overall.Outcome)}; leading mechanism: {d.Overall.LeadingName}. {d.Overall.Reason}. ") +
+                    FormattableString.Invariant($"Bounded battery ({d.Seconds:0} s): level statistics at N = {s.LevelN}, conserved quantities on N = {s.ClusterN} (weight <= {s.MaxWeight}), operator size at N = {s.SizeN}, finite temperature at N = {s.ThermalN}; Lanczos depth {s.LanczosDepth} and evolution to t = {s.EvolutionTime:0.#}/epsilon on the full model (epsilon = {d.Epsilon:0.###})."),
+                Footer = d.Caveats.Count == 0 ? null : "Caveats: " + string.Join("; ", d.Caveats) + ".",
+                EmphasisColumn = 2,
+            });
+        }
+        if (r.Sweep?.Series is { } series)
+        {
+            var rows = series.Data.Select(a => (IReadOnlyList<string>)[a.N.ToString(Inv), a.Engine,
+                a.TStar is double t ? NumberFormat.ValueWithUncertainty(t, a.TStarTotalError) : "not reached",
+                a.MaxDiscardedWeight.ToString("G3", Inv), a.Converged ? "yes" : "no"]).ToList();
+            string? fits = null;
+            if (series.Comparison is { } c)
+            {
+                fits = FormattableString.Invariant($"t* = a + b ln N: a = {NumberFormat.ValueWithUncertainty(c.Log.A, c.Log.AError)}, b = {NumberFormat.ValueWithUncertainty(c.Log.Slope, c.Log.SlopeError)}, chi2/dof = {c.Log.ReducedChiSquared:0.##}. ")
+                    + (c.Linear.V is double v
+                        ? FormattableString.Invariant($"t* = a + N/v: a = {NumberFormat.ValueWithUncertainty(c.Linear.A, c.Linear.AError)}, v = {NumberFormat.ValueWithUncertainty(v, c.Linear.VError ?? double.NaN)}, chi2/dof = {c.Linear.ReducedChiSquared:0.##}. ")
+                        : FormattableString.Invariant($"t* = a + N/v: slope {NumberFormat.ValueWithUncertainty(c.Linear.Slope, c.Linear.SlopeError)} is not positive, so no velocity. "))
+                    + "Preferred: " + c.Verdict + ".";
+            }
+            list.Add(new ReportTable("tstar-scaling", "Scrambling time against size", ["N", "engine", "t*", "discarded weight", "converged"], rows)
+            {
+                Intro = $"t* (mean size reaches 3N/8) of the model's first probe at each N, from the sweep library (results in sweep/; rerunning the same command reuses finished points). Uncertainty: statistical, truncation (ladder), grid and sampling in quadrature. Engines: exact at N <= {r.Sweep.Engine.ExactMaxN}, Pauli strings above, final time {r.Sweep.Engine.Time.ToString("0.##", Inv)}.",
+                Footer = fits ?? series.Note,
+            });
+        }
+        return list;
+    }
+
+    private static object DiagnosisJson(ScramblingRunResult r)
+    {
+        if (r.Diagnosis is not { } d) return new { ran = false, reason = r.DiagnosisSkipReason ?? "not run" };
+        return new
+        {
+            ran = true,
+            overall = new { verdict = RunStages.OutcomeText(d.Overall.Outcome), leadingMechanism = d.Overall.LeadingName, reason = d.Overall.Reason, supportingTests = d.Overall.Supporting, others = d.Overall.Others.Select(OpGrowth.Diagnosis.MechanismNames.Of) },
+            tests = d.Tests.Select(t => new { number = t.Number, name = t.Name, verdict = OpGrowth.Diagnosis.MechanismNames.Of(t.Outcome), figure = t.Figure, threshold = t.Threshold, source = t.Source, reason = t.Reason, notes = t.Notes, seconds = t.Seconds }),
+            caveats = d.Caveats,
+            settings = d.Settings,
+            epsilon = d.Epsilon,
+            seconds = d.Seconds,
+            file = "data/diagnosis.json",
+        };
+    }
+
+    private static object SweepJson(ScramblingRunResult r)
+    {
+        if (r.Options.SweepSizes.Count == 0) return new { ran = false, requested = r.Options.SweepSizes, reason = "not requested" };
+        if (r.Sweep is not { } s) return new { ran = false, requested = r.Options.SweepSizes, reason = "not reached (run stopped)" };
+        var series = s.Series;
+        object? Fit(OpGrowth.Sweeps.ScalingFit f) => new { law = f.Law, formula = f.Formula, a = f.A, aError = f.AError, slope = f.Slope, slopeError = f.SlopeError, v = f.V, vError = f.VError, chiSquared = f.ChiSquared, reducedChiSquared = f.ReducedChiSquared, aic = f.Aic, bic = f.Bic, weighted = f.Weighted };
+        return new
+        {
+            ran = true,
+            requested = r.Options.SweepSizes,
+            folder = "sweep",
+            computed = s.Computed,
+            reused = s.Reused,
+            failures = s.Failures,
+            engine = s.Engine.CanonicalAll(),
+            points = series?.Data.Select(a => new { n = a.N, engine = a.Engine, tStar = a.TStar, uncertainty = a.TStarTotalError, truncationError = a.TStarTruncationError, gridError = a.TStarGridError, samplingError = a.TStarSamplingError, discardedWeight = a.MaxDiscardedWeight, converged = a.Converged }),
+            fits = series?.Comparison is { } c ? new { log = Fit(c.Log), linear = Fit(c.Linear), deltaAic = c.DeltaAic, logWeight = c.LogWeight, linearWeight = c.LinearWeight, preferred = c.Preferred, strength = c.Strength, verdict = c.Verdict } : null,
+            note = series?.Note,
+        };
+    }
 
     private static object M(Measured m) => new { value = m.Value, uncertainty = m.Uncertainty, definition = m.Definition, unit = m.Unit, window = m.Window is { } w ? new { variable = w.Variable, start = w.Start, end = w.End } : null };
 
@@ -364,8 +525,9 @@ public static class RunReport
                 ran = x.Ran, skipReason = x.SkipReason, n = x.N, probe = x.Probe, tolerance = x.Tolerance, passed = x.Passed,
                 maxOtocDifference = x.MaxOtocDifference, maxAutocorrelationDifference = x.MaxAutocorrelationDifference, exactMethod = x.ExactMethod, times = x.Times,
             } : new { ran = false, skipReason = (string?)(r.Options.RunExact ? "not reached (run stopped)" : "turned off (--no-exact)"), n = 0, probe = "", tolerance = r.Options.CrossCheckTolerance, passed = false, maxOtocDifference = double.NaN, maxAutocorrelationDifference = double.NaN, exactMethod = "", times = Array.Empty<double>() },
-            ["diagnosis"] = new { ran = false, reason = "the diagnosis battery is not part of this build" },
-            ["sweep"] = new { ran = false, requested = r.Options.SweepSizes, reason = r.Options.SweepSizes.Count == 0 ? "not requested" : "the sweep stage is not part of this build" },
+            ["verdict"] = r.Verdict is { } rv ? new { outcome = rv.Outcome, mechanism = rv.Mechanism, reason = rv.Reason, source = rv.Source } : null,
+            ["diagnosis"] = DiagnosisJson(r),
+            ["sweep"] = SweepJson(r),
             ["verdicts"] = r.Verdicts.Select(v => new { test = v.Test, verdict = v.Verdict, threshold = v.Threshold, reason = v.Reason, figure = M(v.Figure) }).ToList(),
             ["checks"] = r.Checks.Select(c => new { name = c.Name, passed = c.Passed, tolerance = c.Tolerance, figure = M(c.Figure) }).ToList(),
             ["cautions"] = cautions,

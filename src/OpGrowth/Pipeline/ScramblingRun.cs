@@ -90,10 +90,65 @@ public static partial class ScramblingRun
             timings["exact"] = Lap(clock);
             Report(options, "exact cross-check", 1, cross.Ran ? (cross.Passed ? "passed" : "FAILED") : "skipped");
         }
+        // ---- stage 5: diagnosis battery (bounded)
+        OpGrowth.Diagnosis.DiagnosisReport? diagnosis = null;
+        string? diagnosisSkip = options.RunDiagnosis ? null : "turned off (--no-diagnosis)";
+        if (options.RunDiagnosis && !ct.IsCancellationRequested && stop is null)
+        {
+            var dOptions = (options.Diagnosis ?? RunStages.DiagnosisFor(options.Effort, options.Threads)) with { Logger = log };
+            Report(options, "diagnosis", 0, $"six tests, small members N = {dOptions.LevelN}/{dOptions.ClusterN}/{dOptions.ThermalN}");
+            try
+            {
+                diagnosis = RunStages.Diagnose(path, options.Overrides, model, dOptions, ct);
+                AtomicFile.WriteAllText(Path.Combine(dataDir, "diagnosis.json"), diagnosis.ToJson() + Environment.NewLine);
+                AtomicFile.WriteAllText(Path.Combine(dataDir, "diagnosis.txt"), diagnosis.ToText());
+                files.Add("data/diagnosis.json");
+                files.Add("data/diagnosis.txt");
+            }
+            catch (OperationCanceledException)
+            {
+                stop = "diagnosis: interrupted";
+                diagnosisSkip = "interrupted";
+            }
+            timings["diagnosis"] = Lap(clock);
+            Report(options, "diagnosis", 1, diagnosis is null ? "interrupted" : RunStages.OutcomeText(diagnosis.Overall.Outcome));
+        }
+        else if (options.RunDiagnosis) diagnosisSkip = "not reached (run stopped)";
+
+        // ---- stage 6: optional t*(N) sweep (sweep library; results inside the report folder, so a rerun resumes)
+        SweepStage? sweep = null;
+        if (options.SweepSizes.Count > 0 && !ct.IsCancellationRequested && stop is null)
+        {
+            double? tMain = evo.Figures.Count > 0 ? evo.Figures[0].ScramblingTime.Value : null;
+            double sweepTime = options.SweepTime ?? SweepTimeFor(preset, options, model.N, tMain, options.SweepSizes.Max());
+            var engine = new OpGrowth.Sweeps.EngineSettings
+            {
+                Time = sweepTime,
+                Dt = preset.Dt,
+                RecordEvery = 2,
+                MaxStrings = preset.MaxStrings,
+                Ladder = 2,
+            };
+            var plan = RunStages.SweepPlanFor(path, model, options.Overrides, options.SweepSizes, engine);
+            Report(options, "t*(N) sweep", 0, $"N = {string.Join(",", plan.Sizes)}, t up to {sweepTime.ToString("0.##", Inv)}");
+            try
+            {
+                long mem = options.MemoryBytes ?? (long)(0.5 * GC.GetGCMemoryInfo().TotalAvailableMemoryBytes);
+                sweep = RunStages.Sweep(plan, Path.Combine(folder, "sweep"), options.Threads, mem, log, ct);
+                files.AddRange(sweep.Files.Select(f => "sweep/" + f));
+                if (sweep.Failures.Count > 0) notes.AddRange(sweep.Failures.Select(f => "t*(N) point failed: " + f));
+            }
+            catch (OperationCanceledException)
+            {
+                stop = "sweep: interrupted";
+            }
+            timings["sweep"] = Lap(clock);
+            Report(options, "t*(N) sweep", 1, sweep?.Series?.Comparison?.Preferred is { } pref ? "prefers " + pref : "done");
+        }
         bool cancelled = ct.IsCancellationRequested || evo.StopReason == "interrupted";
         if (cancelled) stop ??= "interrupted";
 
-        // ---- stage 5: report
+        // ---- stage 7: report
         Report(options, "report", 0, "figures and files");
         var result = new ScramblingRunResult
         {
@@ -110,6 +165,9 @@ public static partial class ScramblingRun
             Lanczos = lz,
             Krylov = krylov,
             CrossCheck = cross,
+            Diagnosis = diagnosis,
+            DiagnosisSkipReason = diagnosis is null ? diagnosisSkip : null,
+            Sweep = sweep,
             Completed = stop is null,
             StopReason = stop,
             Cancelled = cancelled,
@@ -257,6 +315,19 @@ public static partial class ScramblingRun
             Tolerance = options.CrossCheckTolerance,
             ExactMethod = exact.Method,
         };
+    }
+
+    /// <summary>
+    /// Final time of the t*(N) points: 1.5 times the main run's t* scaled linearly to the largest size
+    /// (a ballistic front needs time proportional to N; a faster scrambler finishes early), and never less
+    /// than the effort's evolution time.
+    /// </summary>
+    public static double SweepTimeFor(EffortPreset preset, ScramblingRunOptions options, int n, double? tStar, int largest)
+    {
+        double t = options.Time ?? preset.Time;
+        if (tStar is double ts && ts > 0) t = Math.Max(t, 1.5 * ts * Math.Max(1.0, (double)largest / n));
+        else t = Math.Max(t, 2 * preset.Time);
+        return Math.Ceiling(t);
     }
 
     private static double Lap(Stopwatch clock)

@@ -22,7 +22,7 @@ public sealed record EffortPreset(
     {
         RunEffort.Quick => new(3, 0.1, 2, 20_000, 12, [4_000, 16_000], 6, 2),
         RunEffort.Thorough => new(14, 0.05, 3, 2_000_000, 40, [250_000, 1_000_000], 10, 4),
-        _ => new(8, 0.05, 3, 200_000, 24, [25_000, 100_000], 8, 3),
+        _ => new(6, 0.1, 3, 100_000, 24, [25_000, 100_000], 8, 3),
     };
 }
 
@@ -44,6 +44,12 @@ public sealed record ScramblingRunOptions
     public int Threads { get; init; } = Environment.ProcessorCount;
     public bool RunExact { get; init; } = true;
     public bool RunLanczos { get; init; } = true;
+    /// <summary>Run the diagnosis battery (bounded by the effort; see <see cref="RunStages.DiagnosisFor"/>).</summary>
+    public bool RunDiagnosis { get; init; } = true;
+    /// <summary>Diagnosis settings (null: the effort's, from <see cref="RunStages.DiagnosisFor"/>).</summary>
+    public OpGrowth.Diagnosis.DiagnosisOptions? Diagnosis { get; init; }
+    /// <summary>Final time of every t*(N) point (null: chosen from the main run's t*, at least the effort's time).</summary>
+    public double? SweepTime { get; init; }
     /// <summary>System sizes for a t*(N) sweep (empty: no sweep).</summary>
     public IReadOnlyList<int> SweepSizes { get; init; } = [];
     /// <summary>Final evolution time (null: the effort's).</summary>

@@ -44,6 +44,14 @@ public sealed record ScramblingRunResult
     public LanczosEstimate? Lanczos { get; init; }
     public KrylovAnalysis? Krylov { get; init; }
     public CrossCheck? CrossCheck { get; init; }
+    /// <summary>The diagnosis battery's report (null when it did not run).</summary>
+    public OpGrowth.Diagnosis.DiagnosisReport? Diagnosis { get; init; }
+    /// <summary>Why the diagnosis did not run (null when it ran).</summary>
+    public string? DiagnosisSkipReason { get; init; }
+    /// <summary>The t*(N) stage (null when no sweep was requested or it did not start).</summary>
+    public SweepStage? Sweep { get; init; }
+    /// <summary>The overall answer, consistent with the diagnosis battery when it ran.</summary>
+    public RunVerdict? Verdict { get; init; }
     public IReadOnlyList<HeadlineFigure> Headlines { get; init; } = [];
     public IReadOnlyList<VerdictRow> Verdicts { get; init; } = [];
     public IReadOnlyList<CheckRow> Checks { get; init; } = [];

@@ -96,6 +96,30 @@ internal static class HtmlReport
             sb.Append("</tbody>\n</table>\n</section>\n");
         }
 
+        foreach (ReportTable t in doc.Tables)
+        {
+            sb.Append("<section id=\"").Append(E(t.Id)).Append("\">\n<h2>").Append(E(t.Title)).Append("</h2>\n");
+            if (!string.IsNullOrWhiteSpace(t.Intro)) sb.Append("<p>").Append(E(t.Intro)).Append("</p>\n");
+            sb.Append("<table>\n<thead><tr>");
+            foreach (string h in t.Headers) sb.Append("<th>").Append(E(h)).Append("</th>");
+            sb.Append("</tr></thead>\n<tbody>\n");
+            foreach (IReadOnlyList<string> row in t.Rows)
+            {
+                sb.Append("<tr>");
+                for (int i = 0; i < row.Count; i++)
+                {
+                    sb.Append("<td>");
+                    if (i == t.EmphasisColumn) sb.Append("<b>").Append(E(row[i])).Append("</b>");
+                    else sb.Append(E(row[i]));
+                    sb.Append("</td>");
+                }
+                sb.Append("</tr>\n");
+            }
+            sb.Append("</tbody>\n</table>\n");
+            if (!string.IsNullOrWhiteSpace(t.Footer)) sb.Append("<p class=\"note\">").Append(E(t.Footer)).Append("</p>\n");
+            sb.Append("</section>\n");
+        }
+
         if (doc.Checks.Count > 0)
         {
             int passed = doc.Checks.Count(c => c.Passed);

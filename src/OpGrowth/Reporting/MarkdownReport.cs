@@ -40,6 +40,18 @@ internal static class MarkdownReport
                 Row(sb, v.Test, v.Figure.FormatValue() + " (" + v.Figure.FormatContext() + ")", v.Threshold, "**" + Cell(v.Verdict) + "**", v.Reason, rawIndex: 3);
             sb.Append('\n');
         }
+        foreach (ReportTable t in doc.Tables)
+        {
+            sb.Append("## ").Append(Text(t.Title)).Append("\n\n");
+            if (!string.IsNullOrWhiteSpace(t.Intro)) sb.Append(Text(t.Intro)).Append("\n\n");
+            sb.Append('|');
+            foreach (string h in t.Headers) sb.Append(' ').Append(Cell(h)).Append(" |");
+            sb.Append("\n|").Append(string.Concat(Enumerable.Repeat("---|", t.Headers.Count))).Append('\n');
+            foreach (IReadOnlyList<string> row in t.Rows)
+                Row(sb, row.Select((c, i) => i == t.EmphasisColumn ? "**" + Cell(c) + "**" : c).ToArray(), t.EmphasisColumn);
+            sb.Append('\n');
+            if (!string.IsNullOrWhiteSpace(t.Footer)) sb.Append(Text(t.Footer)).Append("\n\n");
+        }
         if (doc.Checks.Count > 0)
         {
             int passed = doc.Checks.Count(c => c.Passed);

@@ -27,6 +27,9 @@ public sealed class ReportDocument
 
     public IList<VerdictRow> Verdicts { get; } = new List<VerdictRow>();
 
+    /// <summary>Further tables, printed after the verdict table in this order.</summary>
+    public IList<ReportTable> Tables { get; } = new List<ReportTable>();
+
     public IList<CheckRow> Checks { get; } = new List<CheckRow>();
 
     public IList<string> Cautions { get; } = new List<string>();

@@ -19,7 +19,9 @@ internal static class ReportJson
         string Title, string? Subtitle, string ToolVersion, DateTimeOffset? Created,
         IReadOnlyList<KeyValuePair<string, string>> Model, IReadOnlyList<HeadlineDto> Headlines, string? VerdictSummary,
         IReadOnlyList<VerdictDto> Verdicts, IReadOnlyList<CheckDto> Checks, IReadOnlyList<string> Cautions,
-        IReadOnlyList<FigureDto> Figures, IReadOnlyList<DataFileEntry> DataFiles);
+        IReadOnlyList<FigureDto> Figures, IReadOnlyList<DataFileEntry> DataFiles, IReadOnlyList<TableDto> Tables);
+
+    internal sealed record TableDto(string Id, string Title, string? Intro, IReadOnlyList<string> Headers, IReadOnlyList<IReadOnlyList<string>> Rows, string? Footer);
 
     internal static NumberDto Number(Measured m) => new(m.Value, m.Uncertainty, m.Unit, m.Definition,
         m.Window is { } w ? new WindowDto(w.Variable, w.Start, w.End) : null, m.FormatValue());
@@ -35,6 +37,7 @@ internal static class ReportJson
             doc.Checks.Select(c => new CheckDto(c.Name, Number(c.Figure), c.Tolerance, c.Passed)).ToList(),
             doc.Cautions.ToList(),
             doc.Figures.Select(f => new FigureDto(f.Name, f.Title, f.Caption, Rel(f.PngFileName), withSvg ? Rel(f.SvgFileName) : null, f.Width, f.Height)).ToList(),
-            doc.DataFiles.ToList());
+            doc.DataFiles.ToList(),
+            doc.Tables.Select(t => new TableDto(t.Id, t.Title, t.Intro, t.Headers, t.Rows, t.Footer)).ToList());
     }
 }

@@ -1,6 +1,7 @@
 using System.Text.Json;
 using System.Text.RegularExpressions;
 using OpGrowth.Analysis;
+using OpGrowth.Diagnosis;
 using OpGrowth.Evolution;
 using OpGrowth.Krylov;
 using OpGrowth.Pipeline;
@@ -9,7 +10,11 @@ using OpGrowth.Tests.Reporting;
 
 namespace OpGrowth.Tests.Pipeline;
 
-/// <summary>One quick run of the pipeline on mixed-field-ising at N = 10, shared by the library tests.</summary>
+/// <summary>
+/// One quick run of the pipeline on mixed-field-ising at N = 10 with every stage (diagnosis included) and a
+/// t*(N) sweep over N = 6, 7, 8 (exact engine), shared by the library tests. The diagnosis's wall-time caps are
+/// lifted so its figures do not depend on machine load (the equality test reruns it).
+/// </summary>
 public sealed class QuickRunFixture : IDisposable
 {
     public QuickRunFixture()
@@ -22,8 +27,13 @@ public sealed class QuickRunFixture : IDisposable
             OutputFolder = Folder,
             Effort = RunEffort.Quick,
             Threads = 2,
+            Diagnosis = DiagnosisOptionsUsed,
+            SweepSizes = [6, 7, 8],
         });
     }
+
+    /// <summary>The quick diagnosis settings without wall-time caps (deterministic).</summary>
+    public static DiagnosisOptions DiagnosisOptionsUsed => RunStages.DiagnosisFor(RunEffort.Quick, 2) with { LanczosSeconds = 600, EvolutionSeconds = 600 };
 
     public string Folder { get; }
     public ScramblingRunResult Result { get; }
@@ -40,9 +50,11 @@ public class ScramblingRunTests(QuickRunFixture fx) : IClassFixture<QuickRunFixt
     [
         "report.html", "report.md", "report.json", "results.json", "manifest.json",
         "data/evolution.csv", "data/size_distribution.csv", "data/site_weights.csv", "data/ladder.csv",
-        "data/lanczos.csv", "data/krylov.csv", "data/cross_check.csv",
+        "data/lanczos.csv", "data/krylov.csv", "data/cross_check.csv", "data/diagnosis.json", "data/diagnosis.txt",
         "figures/size-distribution.png", "figures/mean-size.png", "figures/light-cone.png",
-        "figures/lanczos.png", "figures/krylov.png", "figures/pauli-vs-exact.png",
+        "figures/lanczos.png", "figures/krylov.png", "figures/pauli-vs-exact.png", "figures/tstar-scaling.png",
+        "figures/size-distribution.svg", "figures/tstar-scaling.svg",
+        "sweep/plan.toml", "sweep/sweep.json", "sweep/table.csv", "sweep/fits.json",
     ];
 
     [Fact]
@@ -64,8 +76,19 @@ public class ScramblingRunTests(QuickRunFixture fx) : IClassFixture<QuickRunFixt
     {
         string html = File.ReadAllText(Path.Combine(fx.Folder, "report.html"));
         int uris = Regex.Matches(html, "data:image/").Count;
-        Assert.Equal(6, fx.Result.FigureCount);
+        Assert.Equal(7, fx.Result.FigureCount);
         Assert.Equal(fx.Result.FigureCount, uris);
+        foreach (string id in new[] { "fig-size-distribution", "fig-mean-size", "fig-light-cone", "fig-lanczos", "fig-krylov", "fig-pauli-vs-exact", "fig-tstar-scaling" })
+            Assert.Contains("id=\"" + id + "\"", html);
+        // The diagnosis table and the t*(N) table are in both report forms.
+        string md = File.ReadAllText(Path.Combine(fx.Folder, "report.md"));
+        foreach (string doc in new[] { html, md })
+        {
+            Assert.Contains("Diagnosis", doc);
+            Assert.Contains("leading mechanism", doc);
+            Assert.Contains("Scrambling time against size", doc);
+            Assert.Contains("b ln N", doc);
+        }
         Assert.DoesNotContain("<script", html, StringComparison.OrdinalIgnoreCase);
     }
 
@@ -79,6 +102,79 @@ public class ScramblingRunTests(QuickRunFixture fx) : IClassFixture<QuickRunFixt
         string md = File.ReadAllText(Path.Combine(RepoRoot(), "docs", "run.md"));
         foreach (string k in RunReport.ResultKeys) Assert.Contains("`" + k + "`", md);
         Assert.True(doc.RootElement.GetProperty("crossCheck").GetProperty("passed").GetBoolean());
+
+        // Diagnosis: ran, six tests with verdict, figure, threshold and reason; overall verdict and leading mechanism.
+        var diag = doc.RootElement.GetProperty("diagnosis");
+        Assert.True(diag.GetProperty("ran").GetBoolean());
+        Assert.Equal(6, diag.GetProperty("tests").GetArrayLength());
+        foreach (var t in diag.GetProperty("tests").EnumerateArray())
+            foreach (string k in new[] { "number", "name", "verdict", "figure", "threshold", "source", "reason" }) Assert.True(t.TryGetProperty(k, out _), "diagnosis test lacks " + k);
+        Assert.Contains(diag.GetProperty("overall").GetProperty("verdict").GetString(), new[] { "scrambles", "does not scramble", "inconclusive" });
+        Assert.False(string.IsNullOrEmpty(diag.GetProperty("overall").GetProperty("leadingMechanism").GetString()));
+
+        // The run's verdict is the battery's.
+        var verdict = doc.RootElement.GetProperty("verdict");
+        Assert.Equal(diag.GetProperty("overall").GetProperty("verdict").GetString(), verdict.GetProperty("outcome").GetString());
+        Assert.Equal(diag.GetProperty("overall").GetProperty("leadingMechanism").GetString(), verdict.GetProperty("mechanism").GetString());
+
+        // Sweep: three sizes, both fits with errors, a preferred law.
+        var sweep = doc.RootElement.GetProperty("sweep");
+        Assert.True(sweep.GetProperty("ran").GetBoolean());
+        Assert.Equal(3, sweep.GetProperty("points").GetArrayLength());
+        var fits = sweep.GetProperty("fits");
+        foreach (string law in new[] { "log", "linear" })
+            foreach (string k in new[] { "a", "aError", "slope", "slopeError", "aic" }) Assert.True(fits.GetProperty(law).TryGetProperty(k, out _), $"{law} fit lacks {k}");
+        Assert.Contains(fits.GetProperty("preferred").GetString(), new[] { "log", "linear", "neither" });
+    }
+
+    [Fact]
+    public void Execute_QuickRun_DiagnosisEqualsTheBatteryOnTheSameInputs()
+    {
+        var r = fx.Result;
+        var direct = DiagnosisBattery.Run(r.Model, FamilyMembers.FromFile(r.ModelFile, r.Options.Overrides, r.Model), QuickRunFixture.DiagnosisOptionsUsed);
+        var mine = r.Diagnosis!;
+        Assert.Equal(direct.Overall.Outcome, mine.Overall.Outcome);
+        Assert.Equal(direct.Overall.Leading, mine.Overall.Leading);
+        Assert.Equal(direct.Tests.Select(t => (t.Number, t.Outcome, t.Figure)), mine.Tests.Select(t => (t.Number, t.Outcome, t.Figure)));
+        Assert.Equal(RunStages.OutcomeText(mine.Overall.Outcome), r.Verdict!.Outcome);
+        Assert.Contains("> Verdict: " + r.Verdict.Outcome, File.ReadAllText(Path.Combine(fx.Folder, "report.md")));
+    }
+
+    [Fact]
+    public void Execute_QuickRun_SweepEqualsTheSweepLibraryAndResumes()
+    {
+        var r = fx.Result;
+        var stage = r.Sweep!;
+        Assert.Equal(3, stage.Computed + stage.Reused);
+        // Rerunning the stage on the same folder computes nothing: every point is reused from the report folder.
+        var plan = RunStages.SweepPlanFor(r.ModelFile, r.Model, r.Options.Overrides, r.Options.SweepSizes, stage.Engine);
+        var again = RunStages.Sweep(plan, stage.Folder, 2, 1L << 30, null, CancellationToken.None);
+        Assert.Equal(0, again.Computed);
+        Assert.Equal(3, again.Reused);
+        var a = stage.Series!;
+        var b = again.Series!;
+        Assert.Equal(a.Data.Select(x => x.TStar), b.Data.Select(x => x.TStar));
+        // The fits equal the sweep library's fit of the same points.
+        var usable = a.Data.Where(x => x.TStar is not null).ToList();
+        var cmp = OpGrowth.Sweeps.FitComparison.Compare(usable.Select(x => (double)x.N).ToArray(), usable.Select(x => x.TStar!.Value).ToArray(), usable.Select(x => x.TStarTotalError).ToArray());
+        Assert.Equal(cmp.DeltaAic, a.Comparison!.DeltaAic, 12);
+        Assert.Equal(cmp.Log.Slope, a.Comparison.Log.Slope, 12);
+    }
+
+    [Fact]
+    public void Execute_QuickRun_CrossCheckEqualsTheCompareCommand()
+    {
+        var x = fx.Result.CrossCheck!;
+        string dir = Path.Combine(fx.Folder, "compare-cli");
+        var o = new StringWriter();
+        var e = new StringWriter();
+        int code = OpGrowth.Cli.Program.Run(["compare", "mixed-field-ising", "--set", "N=10", "--size", x.N.ToString(System.Globalization.CultureInfo.InvariantCulture),
+            "--time", fx.Result.Preset.ExactTime.ToString(System.Globalization.CultureInfo.InvariantCulture), "--threads", "2", "--out", dir], o, e);
+        Assert.True(code == 0, e.ToString());
+        using var doc = JsonDocument.Parse(File.ReadAllBytes(Path.Combine(dir, "compare.json")));
+        double Get(string name) => doc.RootElement.EnumerateObject().Single(p => string.Equals(p.Name, name, StringComparison.OrdinalIgnoreCase)).Value.GetDouble();
+        Assert.Equal(x.MaxOtocDifference, Get("maxOtocDifference"));
+        Assert.Equal(x.MaxAutocorrelationDifference, Get("maxAutocorrelationDifference"));
     }
 
     [Fact]
@@ -144,9 +240,16 @@ public class RunCommandTests
         {
             var o = new StringWriter();
             var e = new StringWriter();
-            int code = OpGrowth.Cli.Program.Run(["run", "mixed-field-ising", "--set", "N=8", "--effort", "quick", "--no-lanczos", "--threads", "2", "--out", dir], o, e);
+            int code = OpGrowth.Cli.Program.Run(["run", "mixed-field-ising", "--set", "N=8", "--effort", "quick", "--no-lanczos", "--no-diagnosis", "--threads", "2", "--out", dir], o, e);
             Assert.True(code == 0, e.ToString());
             Assert.Contains("scrambling time t*", o.ToString());
+            Assert.Contains("VERDICT:", o.ToString());
+            using (var doc = JsonDocument.Parse(File.ReadAllBytes(Path.Combine(dir, "results.json"))))
+            {
+                Assert.False(doc.RootElement.GetProperty("diagnosis").GetProperty("ran").GetBoolean());
+                Assert.Equal("evolution", doc.RootElement.GetProperty("verdict").GetProperty("source").GetString());
+            }
+            Assert.False(File.Exists(Path.Combine(dir, "data", "diagnosis.json")));
             Assert.True(File.Exists(Path.Combine(dir, "report.html")));
             Assert.True(File.Exists(Path.Combine(dir, "results.json")));
             Assert.False(File.Exists(Path.Combine(dir, "data", "lanczos.csv")));
@@ -165,7 +268,7 @@ public class RunCommandTests
         {
             var r = ScramblingRun.Execute(new ScramblingRunOptions
             {
-                Model = "square-ising", Overrides = new Dictionary<string, string>(), OutputFolder = dir, Effort = RunEffort.Quick, Threads = 2, RunLanczos = false, Time = 0.5,
+                Model = "square-ising", Overrides = new Dictionary<string, string>(), OutputFolder = dir, Effort = RunEffort.Quick, Threads = 2, RunLanczos = false, RunDiagnosis = false, Time = 0.5,
             });
             if (r.Model.Parameters.ContainsKey("N")) return; // this family is sized by N: nothing to check here
             Assert.False(r.CrossCheck!.Ran);
