@@ -254,6 +254,8 @@ public static class SpreadingCheck
         };
         if (rmax < 3) return F("not applicable");
         if (reached <= DiagnosisThresholds.StalledFrontDistance) return F("none");
+        // A front that has not crossed and made no progress during the second half of the run has stopped.
+        bool stalled = reached < rmax - 1 && arrival[reached] < 0.5 * t[^1];
         var rs = new List<double>();
         var ts = new List<double>();
         // Skip distance 1 (the onset) when enough later arrivals exist, as the v_B fit of conventions.md does.
@@ -264,13 +266,11 @@ public static class SpreadingCheck
             rs.Add(r);
             ts.Add(arrival[r]);
         }
-        if (rs.Count < 3) return F("undetermined");
+        if (rs.Count < 3) return F(stalled ? "stalled" : "undetermined");
         var lin = LineFit.Of(ts, rs);
         var lg = LineFit.Of(ts.Select(x => Math.Log(x)).ToArray(), rs);
         bool significant = lin.Slope > DiagnosisThresholds.VelocitySigmas * lin.SlopeError;
         bool crossed = reached >= rmax - 1;
-        // A front that has not crossed and made no progress during the second half of the run has stopped.
-        bool stalled = !crossed && arrival[reached] < 0.5 * t[^1];
         if (stalled) return F("stalled", lin, lg);
         if (significant && (crossed || lin.Rss <= lg.Rss)) return F("ballistic", lin, lg);
         if (!crossed && lg.Rss < lin.Rss) return F("logarithmic", lin, lg);
