@@ -37,10 +37,10 @@ public sealed record DiagnosisOptions
     /// <summary>String budget of the Heisenberg evolution (tests 3 and 4).</summary>
     public long EvolutionMaxStrings { get; init; } = 1L << 16;
 
-    /// <summary>Final time of the Heisenberg evolution, in units of 1/epsilon.</summary>
+    /// <summary>Final time of the Heisenberg evolution (and of the exact operator-size series), in units of 1/(motion scale), see <see cref="OperatorAlgebra.MotionScale"/>; in periods for a drive.</summary>
     public double EvolutionTime { get; init; } = 24;
 
-    /// <summary>Time step of the Heisenberg evolution, in units of 1/epsilon (second-order Trotter).</summary>
+    /// <summary>Time step of the Heisenberg evolution, in units of 1/(motion scale) (second-order Trotter).</summary>
     public double EvolutionStep { get; init; } = 0.1;
 
     /// <summary>Wall-time limit of the main probe's evolution in seconds (the other probes get a quarter); the records finished by then are used.</summary>

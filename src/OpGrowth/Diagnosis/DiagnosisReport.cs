@@ -24,6 +24,9 @@ public sealed record DiagnosisReport
     /// <summary>Local energy scale epsilon = sqrt(||H||^2/N) (time unit 1/epsilon).</summary>
     public required double Epsilon { get; init; }
 
+    /// <summary>Motion scale (couplings on two or more sites per site); evolution times are in units of its inverse.</summary>
+    public required double MotionScale { get; init; }
+
     /// <summary>Probes used (the first is the main probe).</summary>
     public required IReadOnlyList<string> Probes { get; init; }
 
@@ -73,7 +76,7 @@ public sealed record DiagnosisReport
     {
         var inv = CultureInfo.InvariantCulture;
         var sb = new StringBuilder();
-        sb.Append(inv, $"diagnosis of {Model}: N = {N} ({Lattice}), probes {string.Join(", ", Probes)}, epsilon = {Epsilon:0.###} (time unit 1/epsilon), {Seconds:0} s").AppendLine();
+        sb.Append(inv, $"diagnosis of {Model}: N = {N} ({Lattice}), probes {string.Join(", ", Probes)}, epsilon = {Epsilon:0.###}, motion scale {MotionScale:0.###}, {Seconds:0} s").AppendLine();
         sb.Append(inv, $"small members: level statistics N = {Settings.LevelN}, conserved quantities N = {Settings.ClusterN}, operator size N = {Settings.SizeN}, finite temperature N = {Settings.ThermalN}").AppendLine();
         sb.AppendLine();
         int wNum = 2, wName = 20, wVerdict = 12;

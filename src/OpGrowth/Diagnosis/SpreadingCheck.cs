@@ -72,7 +72,7 @@ public static class SpreadingCheck
         ArgumentNullException.ThrowIfNull(model);
         ArgumentNullException.ThrowIfNull(probe);
         ArgumentNullException.ThrowIfNull(o);
-        double eps = OperatorAlgebra.EnergyScale(model.Hamiltonian);
+        double eps = OperatorAlgebra.MotionScale(model.Hamiltonian);
         bool driven = model.Drive is not null;
         int points = Math.Max(8, o.SizeTimePoints);
         double tMax = driven ? Math.Ceiling(o.EvolutionTime) : o.EvolutionTime / eps;
@@ -113,7 +113,7 @@ public static class SpreadingCheck
         ArgumentNullException.ThrowIfNull(probe);
         ArgumentNullException.ThrowIfNull(o);
         var sw = Stopwatch.StartNew();
-        double eps = OperatorAlgebra.EnergyScale(model.Hamiltonian);
+        double eps = OperatorAlgebra.MotionScale(model.Hamiltonian);
         bool driven = model.Drive is not null;
         double time = driven ? Math.Ceiling(o.EvolutionTime) * model.Drive!.Period : o.EvolutionTime / eps;
         double dt = o.EvolutionStep / eps;
@@ -218,7 +218,7 @@ public static class SpreadingCheck
         double theta = DiagnosisThresholds.FrontFraction * 0.75;
         var dist = model.Lattice.DistancesFrom(run.ProbeSite);
         int rmax = dist.Max();
-        double eps = OperatorAlgebra.EnergyScale(model.Hamiltonian);
+        double eps = OperatorAlgebra.MotionScale(model.Hamiltonian);
         var t = run.Times;
         var arrival = Enumerable.Repeat(double.NaN, rmax + 1).ToArray();
         int reached = 0;
@@ -364,7 +364,7 @@ public static class SpreadingCheck
             };
         }
         string v = f.Linear is { } l && double.IsFinite(l.Slope) ? string.Create(inv, $"v_B = {l.Slope:0.###} +- {l.SlopeError:0.###} sites per unit time") : "no v_B";
-        string figure = string.Create(inv, $"front reached distance {f.Reached} of {f.MaxDistance} by t = {f.TimeReached:0.#} ({f.TimeInLocalUnits:0} / epsilon); {v}{(f.Logarithmic is { } g && double.IsFinite(g.Slope) ? $"; log fit r = {g.Intercept:0.##} + {g.Slope:0.##} ln t (rss {g.Rss:G2} vs linear {f.Linear!.Rss:G2})" : string.Empty)}");
+        string figure = string.Create(inv, $"front reached distance {f.Reached} of {f.MaxDistance} by t = {f.TimeReached:0.#} ({f.TimeInLocalUnits:0} / motion scale); {v}{(f.Logarithmic is { } g && double.IsFinite(g.Slope) ? $"; log fit r = {g.Intercept:0.##} + {g.Slope:0.##} ln t (rss {g.Rss:G2} vs linear {f.Linear!.Rss:G2})" : string.Empty)}");
         string threshold = string.Create(inv,
             $"front at rho_j >= {f.Threshold:0.###} ({DiagnosisThresholds.FrontFraction} x 3/4); ballistic when v_B > {DiagnosisThresholds.VelocitySigmas:0} standard errors and r = v t + c fits at least as well as r = a + b ln t (or the front crossed the system); stalled when it has not crossed and did not advance in the second half of the run; no front when it never passes distance {DiagnosisThresholds.StalledFrontDistance}");
         const string source = "conventions.md (front and v_B fit); v_B = 0 for the disordered XX chain (check-values.md); thresholds: common practice";
