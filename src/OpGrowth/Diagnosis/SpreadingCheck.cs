@@ -251,11 +251,14 @@ public static class SpreadingCheck
             Kind = kind,
             TimeReached = t[^1],
             TimeInLocalUnits = tUnits,
+            Discarded = run.Discarded[^1],
         };
         if (rmax < 3) return F("not applicable");
-        if (reached <= DiagnosisThresholds.StalledFrontDistance) return F("none");
-        // A front that has not crossed and made no progress during the second half of the run has stopped.
+        if (reached <= DiagnosisThresholds.StalledFrontDistance && run.Discarded[^1] <= DiagnosisThresholds.FrontMaxDiscarded) return F("none");
+        // A front that has not crossed and made no progress during the second half of the run has stopped,
+        // unless truncation removed much weight: a top-M budget also stops fronts (a budget effect).
         bool stalled = reached < rmax - 1 && arrival[reached] < 0.5 * t[^1];
+        if (stalled && run.Discarded[^1] > DiagnosisThresholds.FrontMaxDiscarded) return F("undetermined");
         var rs = new List<double>();
         var ts = new List<double>();
         // Skip distance 1 (the onset) when enough later arrivals exist, as the v_B fit of conventions.md does.
@@ -386,7 +389,9 @@ public static class SpreadingCheck
             "logarithmic" => V(TestOutcome.Fails, "the front creeps like a + b ln t: a logarithmic light cone, the mark of many-body localization", Mechanism.Localized),
             "none" => V(TestOutcome.Fails, string.Create(inv, $"the front never passes distance {f.Reached} in {f.TimeInLocalUnits:0} local time units: v_B = 0, the operator is localized"), Mechanism.Localized, Mechanism.Frozen),
             "stalled" => V(TestOutcome.Fails, string.Create(inv, $"the front stops at distance {f.Reached} of {f.MaxDistance}: it made no progress in the second half of the run (t = {f.ArrivalTimes[f.Reached]:0.#} to {f.TimeReached:0.#}), so v_B = 0 at long times: localization"), Mechanism.Localized),
-            _ => V(TestOutcome.Inconclusive, "the front neither moves at a clear constant speed nor follows a logarithm over the run"),
+            _ => V(TestOutcome.Inconclusive, f.Reached < f.MaxDistance - 1 && f.Discarded > DiagnosisThresholds.FrontMaxDiscarded
+                ? string.Create(inv, $"the front stops at distance {f.Reached}, but truncation discarded {f.Discarded:0.##} of the weight there: a string-budget effect cannot be told from localization (raise --effort)")
+                : "the front neither moves at a clear constant speed nor follows a logarithm over the run"),
         };
     }
 
