@@ -21,7 +21,7 @@ alive() { [ -n "${1:-}" ] && kill -0 "$1" 2>/dev/null; }
 if [ -f "$STATE/pids" ]; then
   all=1
   while read -r name pid; do alive "$pid" || all=0; done < "$STATE/pids"
-  if [ "$all" = 1 ] && sinfo -h -o %T 2>/dev/null | grep -qE '^(idle|mixed|allocated)'; then
+  if [ "$all" = 1 ] && sinfo -h -o %T 2>/dev/null | grep -qxE '(idle|mixed|allocated)'; then
     say "cluster already running"; exit 0
   fi
   say "stale state from an earlier run: stopping what is left"
@@ -115,7 +115,7 @@ echo "slurmd $(cat "$STATE/slurmd.pid")" >> "$STATE/pids"
 for i in $(seq 150); do
   state=$(sinfo -h -n localhost -o %T 2>/dev/null || true)
   case "$state" in
-    idle*|mixed*|allocated*) say "cluster up: node localhost $state, $cpus CPUs, ${mem_mb} MB (pids in $STATE/pids)"; exit 0 ;;
+    idle|mixed|allocated) say "cluster up: node localhost $state, $cpus CPUs, ${mem_mb} MB (pids in $STATE/pids)"; exit 0 ;;
     down*|drain*) scontrol update nodename=localhost state=resume >/dev/null 2>&1 || true ;;
   esac
   sleep 0.2

@@ -16,5 +16,6 @@ internal static class CommandRegistry
         yield return CollectCommand.Create();
         yield return RunCommand.Create();
         yield return DiagnoseCommand.Create();
+        yield return CompareCommand.Create();
     }
 }

@@ -70,7 +70,7 @@ internal static class LanczosCommand
         contClass.AcceptOnlyFromAmong(ClassNames);
         var contFrom = new Option<int?>("--continue-from") { Description = "First n taken from the fitted form (default: one past the last trusted coefficient)." };
         var sensitivity = new Option<int>("--sensitivity") { Description = "Also start the continuation this many n earlier and report the change in C(t), K(t).", DefaultValueFactory = _ => 4 };
-        var tMax = new Option<double?>("--t-max") { Description = "Last time for C(t) and K(t) (default 10/b_1)." };
+        var tMax = new Option<double?>("--t-max") { Description = "Last time for C(t) and K(t) (default: the smaller of 10/b_1 and three times the time the Krylov wave needs to cross the computed coefficients)." };
         var points = new Option<int>("--time-points") { Description = "Number of times from 0 to --t-max.", DefaultValueFactory = _ => 201 };
         var outDir = new Option<string?>("--out") { Description = "Output folder (default: lanczos-<model>-<probe>)." };
 
@@ -293,7 +293,7 @@ internal static class LanczosCommand
             int mid = c.Times.Count / 2;
             sb.AppendLine(inv, $"  C(t): C({c.Times[mid]:G4}) = {c.Autocorrelation[mid]:G6}, C({c.Times[^1]:G4}) = {c.Autocorrelation[^1]:G6}; K({c.Times[^1]:G4}) = {c.Complexity[^1]:G6}; chain length {c.ChainLength}");
         }
-        sb.AppendLine(inv, $"  time {r.Seconds:F1} s, peak accounted memory {FormatBytes(r.PeakAccountedBytes)}, largest vector {r.Steps.Select(x => x.Strings).DefaultIfEmpty(0).Max():N0} strings");
+        sb.AppendLine(inv, $"  time {r.Seconds:F1} s ({r.Steps.Sum(x => x.CpuSeconds):F1} s CPU), peak accounted memory {FormatBytes(r.PeakAccountedBytes)}, largest vector {r.Steps.Select(x => x.Strings).DefaultIfEmpty(0).Max():N0} strings");
         foreach (var w in r.Warnings) sb.AppendLine("  warning: " + w);
         foreach (var n in notes) sb.AppendLine("  note: " + n);
         return sb.ToString();
@@ -305,13 +305,13 @@ internal static class LanczosCommand
         var r = est.Reference;
         // coefficients.csv: one row per n; per-budget values as extra columns.
         var csv = new StringBuilder();
-        csv.Append("n,b,uncertainty,strings,strings_before_truncation,discarded_weight,seconds,support_first,support_last");
+        csv.Append("n,b,uncertainty,strings,strings_before_truncation,discarded_weight,seconds,cpu_seconds,support_first,support_last");
         for (int i = 0; i < est.Runs.Count - 1; i++) csv.Append(inv, $",b_budget_{est.Budgets[i]}");
         csv.AppendLine();
         for (int n = 0; n < est.B.Count; n++)
         {
             var st = r.Steps[n];
-            csv.Append(inv, $"{n + 1},{est.B[n]:R},{Num(est.Uncertainty[n])},{st.Strings},{st.StringsBeforeTruncation},{st.DiscardedWeight:R},{st.Seconds:F4},{st.SupportFirst},{st.SupportLast}");
+            csv.Append(inv, $"{n + 1},{est.B[n]:R},{Num(est.Uncertainty[n])},{st.Strings},{st.StringsBeforeTruncation},{st.DiscardedWeight:R},{st.Seconds:F4},{st.CpuSeconds:F4},{st.SupportFirst},{st.SupportLast}");
             for (int i = 0; i < est.Runs.Count - 1; i++) csv.Append(',').Append(n < est.Runs[i].B.Count ? est.Runs[i].B[n].ToString("R", inv) : "");
             csv.AppendLine();
         }
@@ -326,7 +326,7 @@ internal static class LanczosCommand
             for (int i = 0; i < chain.Times.Count; i++)
             {
                 dyn.Append(inv, $"{chain.Times[i]:R},{chain.Autocorrelation[i]:R},{chain.Complexity[i]:R}");
-                if (alt is not null) dyn.Append(inv, $",{alt.Autocorrelation[i]:R},{alt.Complexity[i]:R}");
+                if (alt is not null) dyn.Append(i < alt.Times.Count ? string.Create(inv, $",{alt.Autocorrelation[i]:R},{alt.Complexity[i]:R}") : ",,");
                 dyn.AppendLine();
             }
             AtomicFile.WriteAllText(Path.Combine(dir, "dynamics.csv"), dyn.ToString());
@@ -364,6 +364,7 @@ internal static class LanczosCommand
                 stringsBeforeTruncation = r.Steps[n].StringsBeforeTruncation,
                 discardedWeight = r.Steps[n].DiscardedWeight,
                 seconds = r.Steps[n].Seconds,
+                cpuSeconds = r.Steps[n].CpuSeconds,
                 accountedBytes = r.Steps[n].AccountedBytes,
                 accumulatorBytesPerString = r.Steps[n].AccumulatorBytesPerString,
                 supportFirst = r.Steps[n].SupportFirst,

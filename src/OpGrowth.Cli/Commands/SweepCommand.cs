@@ -15,7 +15,7 @@ internal static class SweepCommand
 {
     public static Command Create()
     {
-        var plan = new Argument<string?>("PLAN") { Description = "Sweep plan (.toml). Optional when --model and --sizes are given.", Arity = ArgumentArity.ZeroOrOne };
+        var plan = new Argument<string?>("PLAN") { Description = "Sweep plan (TOML). Optional when --model and --sizes are given.", Arity = ArgumentArity.ZeroOrOne };
         var results = new Option<string?>("--results") { Description = "Results folder (shared with array tasks). Default: results/<plan name>." };
         var jobs = new Option<int?>("--jobs") { Description = "Points to run at the same time (default: the number of cores)." };
         var memory = new Option<string?>("--memory") { Description = "Memory the points running at once may use together, e.g. 16GiB (default: 80% of the machine)." };
@@ -46,7 +46,7 @@ internal static class SweepCommand
             "Run a sweep of scrambling times over sizes N, parameters, disorder seeds and probes; results go to one JSON file per point,\n" +
             "finished points are skipped on rerun, and the merged table and the t*(N) fits (ln N against linear) are written at the end.\n\n" +
             "Examples:\n" +
-            "  opgrowth sweep models/sweeps/demo-candidates.toml --jobs 2\n" +
+            "  opgrowth sweep models/sweeps/demo-chains.sweep --jobs 2\n" +
             "  opgrowth sweep --model models/mixed-field-ising.toml --sizes 8:24:4 --probe Z_0 --results out/ising\n" +
             "  opgrowth sweep plan.toml --slurm-script sweep.sbatch --submit --wait\n" +
             "  opgrowth sweep plan.toml --results /shared/run1 --task-index 7")

@@ -140,6 +140,36 @@ public static class ExactOtoc
         var floquet = drive is null ? null : new FloquetPropagator(n, drive, threads);
         var evolver = new Evolver(cheb, floquet);
         var imag = o.Beta > 0 ? new KrylovPropagator(app, new KrylovOptions { Tolerance = o.Tolerance }) : null;
+        // The two branches e = 0, 1 of every time point are independent propagations: with two or more
+        // threads each branch runs on its own thread with single-threaded kernels (no fork/join per
+        // vector operation, which left a core idle half of the time). Each branch owns its propagators;
+        // the spectral interval is shared so both branches use the same series.
+        int branchThreads = threads >= 2 && (1 << n) >= StateVector.ParallelThreshold ? 2 : 1;
+        var branches = new Branch[2];
+        if (branchThreads == 2)
+        {
+            for (int e = 0; e < 2; e++)
+            {
+                var a1 = new PauliHamiltonianApplier(h, 1);
+                var c1 = drive is null ? new ChebyshevPropagator(a1, o.Tolerance, cheb!.Bounds) : null;
+                var f1 = drive is null ? null : new FloquetPropagator(n, drive, 1);
+                var i1 = o.Beta > 0 ? new KrylovPropagator(a1, new KrylovOptions { Tolerance = o.Tolerance }) : null;
+                branches[e] = new Branch(new Evolver(c1, f1), c1, i1, 1, o.Beta);
+            }
+        }
+        else
+        {
+            branches[0] = branches[1] = new Branch(evolver, cheb, imag, threads, o.Beta);
+        }
+        void RunBranches(Action<int, Branch> body)
+        {
+            if (branchThreads == 2) Parallel.Invoke(() => body(0, branches[0]), () => body(1, branches[1]));
+            else
+            {
+                body(0, branches[0]);
+                body(1, branches[1]);
+            }
+        }
         long realProps = 0, imagProps = 0;
         void Q(Complex[] x)
         {
@@ -196,22 +226,14 @@ public static class ExactOtoc
                 for (int k = 0; k < times.Length; k++)
                 {
                     ct.ThrowIfCancellationRequested();
-                    double t = times[k];
-                    for (int e = 0; e < 2; e++)
+                    double t = times[k], t0 = tPrev;
+                    RunBranches((e, b) =>
                     {
-                        if (t > tPrev)
-                        {
-                            evolver.Evolve(u[e], t - tPrev);      // U(t) q psi_e, carried forward
-                            realProps++;
-                        }
+                        if (t > t0) b.Evolve(u[e], t - t0);      // U(t) q psi_e, carried forward
                         StateVector.ApplyPauli(w, u[e], g[e]);
-                        if (t > 0)
-                        {
-                            evolver.Evolve(g[e], -t);             // U(t)^dagger W U(t) q psi_e
-                            realProps++;
-                        }
-                        Q(g[e]);                               // g_e = q W(t) q psi_e
-                    }
+                        if (t > 0) b.Evolve(g[e], -t);          // U(t)^dagger W U(t) q psi_e
+                        b.Q(g[e]);                               // g_e = q W(t) q psi_e
+                    });
                     tPrev = t;
                     var gram = SiteGram(g[0], g[1], n, j, threads);
                     for (int a = 0; a < 3; a++)
@@ -266,22 +288,14 @@ public static class ExactOtoc
                 for (int k = 0; k < times.Length; k++)
                 {
                     ct.ThrowIfCancellationRequested();
-                    double t = times[k];
-                    for (int e = 0; e < 2; e++)
+                    double t = times[k], t0 = tPrev;
+                    RunBranches((e, b) =>
                     {
-                        if (t > tPrev)
-                        {
-                            evolver.Evolve(u[e], t - tPrev);
-                            realProps++;
-                        }
+                        if (t > t0) b.Evolve(u[e], t - t0);
                         StateVector.ApplyPauli(w, u[e], g[e]);
-                        if (t > 0)
-                        {
-                            evolver.Evolve(g[e], -t);
-                            realProps++;
-                        }
-                        Q(g[e]);
-                    }
+                        if (t > 0) b.Evolve(g[e], -t);
+                        b.Q(g[e]);
+                    });
                     tPrev = t;
                     // F = <h|V|g> / zc with g = g[0], h = g[1]
                     Complex num = StateVector.PauliMatrixElement(g[1], v, g[0]);
@@ -321,21 +335,13 @@ public static class ExactOtoc
                 for (int k = 0; k < times.Length; k++)
                 {
                     ct.ThrowIfCancellationRequested();
-                    double t = times[k];
-                    for (int e = 0; e < 2; e++)
+                    double t = times[k], t0 = tPrev;
+                    RunBranches((e, b) =>
                     {
-                        if (t > tPrev)
-                        {
-                            evolver.Evolve(u[e], t - tPrev);
-                            realProps++;
-                        }
+                        if (t > t0) b.Evolve(u[e], t - t0);
                         StateVector.ApplyPauli(w, u[e], g[e]);
-                        if (t > 0)
-                        {
-                            evolver.Evolve(g[e], -t);
-                            realProps++;
-                        }
-                    }
+                        if (t > 0) b.Evolve(g[e], -t);
+                    });
                     tPrev = t;
                     Complex sum = 0;
                     for (int q = 0; q < 3 * n; q++) sum += xi[q] * StateVector.PauliMatrixElement(g[0], paulis[q], g[1]);
@@ -349,7 +355,48 @@ public static class ExactOtoc
         acc.RandomDimension = sites.Length > 0 ? dim / 2 : dim;
         long mv = (cheb?.MatrixVectorProducts ?? 0) + (imag?.MatrixVectorProducts ?? 0);
         double err = (cheb?.EstimatedError ?? 0) + (imag?.EstimatedError ?? 0);
+        if (branchThreads == 2)
+        {
+            foreach (var b in branches)
+            {
+                mv += (b.Chebyshev?.MatrixVectorProducts ?? 0) + (b.Imaginary?.MatrixVectorProducts ?? 0);
+                err += (b.Chebyshev?.EstimatedError ?? 0) + (b.Imaginary?.EstimatedError ?? 0);
+            }
+        }
+        foreach (var b in branchThreads == 2 ? branches : [branches[0]])
+        {
+            realProps += b.RealPropagations;
+            imagProps += b.ImaginaryPropagations;
+        }
         return (realProps, imagProps, mv, err);
+    }
+
+    /// <summary>One branch's propagators and its propagation counts (a branch runs on one thread at a time).</summary>
+    private sealed class Branch(Evolver evolver, ChebyshevPropagator? cheb, KrylovPropagator? imag, int threads, double beta)
+    {
+        public ChebyshevPropagator? Chebyshev => cheb;
+
+        public KrylovPropagator? Imaginary => imag;
+
+        public int Threads => threads;
+
+        public long RealPropagations { get; private set; }
+
+        public long ImaginaryPropagations { get; private set; }
+
+        public void Evolve(Complex[] psi, double t)
+        {
+            evolver.Evolve(psi, t);
+            RealPropagations++;
+        }
+
+        /// <summary>psi &lt;- e^{-beta H / 4} psi (nothing at beta = 0).</summary>
+        public void Q(Complex[] psi)
+        {
+            if (imag is null) return;
+            imag.EvolveImaginary(psi, beta / 4);
+            ImaginaryPropagations++;
+        }
     }
 
     private sealed class Evolver(ChebyshevPropagator? cheb, FloquetPropagator? floquet)

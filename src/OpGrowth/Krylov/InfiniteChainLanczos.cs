@@ -35,9 +35,10 @@ public static class InfiniteChainLanczos
     /// chain. <paramref name="sites"/> overrides the chosen length (the probe is then centred); the run-time
     /// check still decides which coefficients are infinite-chain values. With <paramref name="useReflection"/>
     /// one key is stored per mirror pair of strings (about half the memory and work); this needs a cell that
-    /// is its own mirror image and a palindromic probe.
+    /// is its own mirror image and a palindromic probe. <paramref name="probeSite"/> places the probe's first
+    /// letter at a given site instead of the centre (not with reflection).
     /// </summary>
-    public static LanczosResult Run(TranslationCell cell, string probeLetters, LanczosOptions options, int? sites = null, bool useReflection = false)
+    public static LanczosResult Run(TranslationCell cell, string probeLetters, LanczosOptions options, int? sites = null, bool useReflection = false, int? probeSite = null)
     {
         ArgumentNullException.ThrowIfNull(cell);
         ArgumentNullException.ThrowIfNull(options);
@@ -51,6 +52,13 @@ public static class InfiniteChainLanczos
             ArgumentOutOfRangeException.ThrowIfLessThan(s, probeLetters.Length + 2 * cell.Range, nameof(sites));
             n = s;
             offset = (s - probeLetters.Length) / 2;
+        }
+        if (probeSite is int ps)
+        {
+            if (useReflection) throw new ArgumentException("The reflection reduction needs the probe at the centre; do not set probeSite.", nameof(probeSite));
+            ArgumentOutOfRangeException.ThrowIfNegative(ps, nameof(probeSite));
+            ArgumentOutOfRangeException.ThrowIfGreaterThan(ps, n - probeLetters.Length, nameof(probeSite));
+            offset = ps;
         }
         if (useReflection)
         {

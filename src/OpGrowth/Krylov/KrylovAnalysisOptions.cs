@@ -18,7 +18,11 @@ public sealed record KrylovAnalysisOptions
     /// <summary>How many n earlier the sensitivity run starts the continuation.</summary>
     public int SensitivityShift { get; init; } = 4;
 
-    /// <summary>Largest time (null: 10 / b_1, about ten short-time scales).</summary>
+    /// <summary>
+    /// Largest time (null: the smaller of 10 / b_1, about ten short-time scales, and three times the time the
+    /// Krylov wave needs to cross the trusted coefficients, sum_n 1/(2 b_n); beyond that the result is mostly
+    /// the continuation).
+    /// </summary>
     public double? TMax { get; init; }
 
     /// <summary>Number of time points from 0 to TMax.</summary>
@@ -32,4 +36,7 @@ public sealed record KrylovAnalysisOptions
 
     /// <summary>Largest Krylov-chain length for the dynamics.</summary>
     public int MaxChain { get; init; } = 2_000_000;
+
+    /// <summary>Largest integration work (chain sites times Chebyshev terms, summed), about a minute of one core at 2e10.</summary>
+    public long MaxWork { get; init; } = 20_000_000_000;
 }

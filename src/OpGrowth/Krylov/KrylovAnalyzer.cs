@@ -22,6 +22,16 @@ public static class KrylovAnalyzer
         return d;
     }
 
+    /// <summary>Default last time: min(10 / b_1, 3 sum_n 1/(2 b_n)) over the given coefficients (10 when none).</summary>
+    public static double DefaultTMax(IReadOnlyList<double> b)
+    {
+        ArgumentNullException.ThrowIfNull(b);
+        if (b.Count == 0 || !(b[0] > 0)) return 10;
+        double cross = 0;
+        foreach (double v in b) cross += v > 0 ? 1 / (2 * v) : 0;
+        return Math.Min(10 / b[0], 3 * cross);
+    }
+
     public static KrylovAnalysis Analyze(LanczosEstimate estimate, KrylovAnalysisOptions options)
     {
         ArgumentNullException.ThrowIfNull(estimate);
@@ -39,7 +49,7 @@ public static class KrylovAnalyzer
             growth = LanczosGrowth.Fit(b, from, to);
         }
         else notes.Add($"growth fit skipped: {depth} coefficients (at least 5 needed)");
-        double tMax = options.TMax ?? (b.Length > 0 && b[0] > 0 ? 10 / b[0] : 10);
+        double tMax = options.TMax ?? DefaultTMax(b);
         var times = KrylovDynamics.Grid(tMax, Math.Max(2, options.TimePoints));
         KrylovDynamicsResult? dyn = null;
         KrylovChainResult? closedDyn = null;
@@ -48,22 +58,17 @@ public static class KrylovAnalyzer
         {
             // Finite Krylov space: the chain ends (b_{N+1} = 0); no continuation.
             bFunc = n => n <= b.Length ? b[n - 1] : 0;
-            closedDyn = KrylovChain.Evolve(bFunc, times, options.MaxChain);
+            closedDyn = KrylovChain.Evolve(bFunc, times, options.MaxChain, options.MaxWork);
+            if (closedDyn.Limit is not null) notes.Add($"dynamics stopped early: {closedDyn.Limit}");
             notes.Add($"Krylov space closed after b_{b.Length}: dynamics exact on the finite chain, no continuation");
         }
         else if (growth is not null)
         {
             var fit = options.ContinuationClass is GrowthClass c ? growth.Fits.First(f => f.Class == c) : growth.Best;
             int start = Math.Clamp(options.ContinueFrom ?? depth + 1, 2, depth + 1);
-            try
-            {
-                dyn = KrylovDynamics.Compute(b, fit, times, start, options.SensitivityShift, options.MaxChain);
-                bFunc = KrylovDynamics.Continue(b, fit, start);
-            }
-            catch (InvalidOperationException ex)
-            {
-                notes.Add($"dynamics skipped: {ex.Message}");
-            }
+            dyn = KrylovDynamics.Compute(b, fit, times, start, options.SensitivityShift, options.MaxChain, options.MaxWork);
+            bFunc = KrylovDynamics.Continue(b, fit, start);
+            if (dyn.Main.Limit is not null) notes.Add($"dynamics stopped early: {dyn.Main.Limit}");
         }
         else if (b.Length > 0) notes.Add("dynamics skipped: no continuation without a growth fit");
 

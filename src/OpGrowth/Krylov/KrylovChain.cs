@@ -20,10 +20,12 @@ public static class KrylovChain
     private const double Negligible = 1e-20;
 
     /// <summary>
-    /// Evolves with b(n) (n &gt;= 1) and returns C(t), K(t) at the given non-negative, ascending times.
-    /// Throws <see cref="InvalidOperationException"/> if the chain would exceed <paramref name="maxChain"/> sites.
+    /// Evolves with b(n) (n &gt;= 1) and returns C(t), K(t) at the given non-negative, ascending times. If the
+    /// chain would exceed <paramref name="maxChain"/> sites or the work (chain sites times Chebyshev terms,
+    /// summed over steps) would exceed <paramref name="maxWork"/>, it stops and returns the times completed,
+    /// with <see cref="KrylovChainResult.Limit"/> saying why.
     /// </summary>
-    public static KrylovChainResult Evolve(Func<int, double> b, IReadOnlyList<double> times, int maxChain = 2_000_000)
+    public static KrylovChainResult Evolve(Func<int, double> b, IReadOnlyList<double> times, int maxChain = 2_000_000, long maxWork = 20_000_000_000)
     {
         ArgumentNullException.ThrowIfNull(b);
         ArgumentNullException.ThrowIfNull(times);
@@ -55,19 +57,22 @@ public static class KrylovChain
         int maxLen = 1;
         double[] w0 = [], w1 = [], acc = [];
         var bess = new double[256];
-        for (int i = 0; i < times.Count; i++)
+        long work = 0;
+        string? limit = null;
+        int done = 0;
+        for (int i = 0; i < times.Count && limit is null; i++)
         {
             double remaining = times[i] - t;
-            while (remaining > 0)
+            while (remaining > 0 && limit is null)
             {
                 // Choose a step and an extent E consistent with each other.
                 int extra = 32;
-                double dt, rho;
-                int degree, extent;
+                double dt = 0, rho = 1;
+                int degree = 0, extent;
                 while (true)
                 {
                     extent = len + extra;
-                    if (extent > maxChain) throw new InvalidOperationException($"The Krylov chain would exceed {maxChain} sites; shorten the time window.");
+                    if (extent > maxChain) break;
                     rho = 0;
                     for (int n = 0; n < extent; n++) rho = Math.Max(rho, B(n) + B(n + 1));
                     rho = rho * 1.01 + 1e-300;
@@ -80,6 +85,17 @@ public static class KrylovChain
                     while (degree > 1 && 2 * Math.Abs(bess[degree]) < 1e-18) degree--;
                     if (len + degree + 1 <= extent) break;
                     extra = degree + 33;
+                }
+                if (extent > maxChain)
+                {
+                    limit = $"the Krylov chain would exceed {maxChain} sites after t = {t:G4}";
+                    break;
+                }
+                work += (long)extent * degree;
+                if (work > maxWork)
+                {
+                    limit = $"the integration work limit ({maxWork:G2} site-terms) was reached after t = {t:G4}";
+                    break;
                 }
                 if (w0.Length < extent + 1)
                 {
@@ -111,6 +127,7 @@ public static class KrylovChain
                 t += dt;
                 if (remaining < 1e-14 * Math.Max(1, Math.Abs(times[i]))) remaining = 0;
             }
+            if (limit is not null) break;
             t = times[i];
             double norm = 0, kc = 0;
             for (int n = 0; n < len; n++)
@@ -122,8 +139,17 @@ public static class KrylovChain
             c[i] = phi[0];
             k[i] = kc;
             normErr = Math.Max(normErr, Math.Abs(norm - 1));
+            done = i + 1;
         }
-        return new KrylovChainResult { Times = times.ToArray(), Autocorrelation = c, Complexity = k, ChainLength = maxLen, NormError = normErr };
+        return new KrylovChainResult
+        {
+            Times = times.Take(done).ToArray(),
+            Autocorrelation = c.Take(done).ToArray(),
+            Complexity = k.Take(done).ToArray(),
+            ChainLength = maxLen,
+            NormError = normErr,
+            Limit = limit,
+        };
     }
 
     /// <summary>dst = scale * M src (+ add * prev when prev is given), on indices 0..extent-1 (src zero beyond).</summary>

@@ -17,4 +17,7 @@ public sealed record KrylovChainResult
 
     /// <summary>Largest |sum_n phi_n^2 - 1| over the times: conservation check of the integrator.</summary>
     public required double NormError { get; init; }
+
+    /// <summary>Why the evolution stopped before the last requested time (null when all times were reached).</summary>
+    public string? Limit { get; init; }
 }

@@ -37,16 +37,17 @@ public static class KrylovDynamics
     /// coefficients earlier.
     /// </summary>
     public static KrylovDynamicsResult Compute(IReadOnlyList<double> b, GrowthFit fit, IReadOnlyList<double> times,
-        int? continuationStart = null, int sensitivityShift = 4, int maxChain = 2_000_000)
+        int? continuationStart = null, int sensitivityShift = 4, int maxChain = 2_000_000, long maxWork = 20_000_000_000)
     {
         ArgumentNullException.ThrowIfNull(b);
         ArgumentNullException.ThrowIfNull(fit);
         int start = continuationStart ?? b.Count + 1;
         int alt = Math.Max(2, start - Math.Max(1, sensitivityShift));
-        var main = KrylovChain.Evolve(Continue(b, fit, start), times, maxChain);
-        var other = KrylovChain.Evolve(Continue(b, fit, alt), times, maxChain);
+        var main = KrylovChain.Evolve(Continue(b, fit, start), times, maxChain, maxWork);
+        var other = KrylovChain.Evolve(Continue(b, fit, alt), times, maxChain, maxWork);
         double dc = 0, dk = 0;
-        for (int i = 0; i < times.Count; i++)
+        int common = Math.Min(main.Times.Count, other.Times.Count);
+        for (int i = 0; i < common; i++)
         {
             dc = Math.Max(dc, Math.Abs(main.Autocorrelation[i] - other.Autocorrelation[i]));
             dk = Math.Max(dk, Math.Abs(main.Complexity[i] - other.Complexity[i]) / Math.Max(main.Complexity[i], 1));

@@ -18,7 +18,7 @@ public sealed record KrylovDynamicsResult
     /// <summary>The fitted form used beyond the computed coefficients (null: none needed, b(n) supplied for all n).</summary>
     public GrowthFit? Continuation { get; init; }
 
-    /// <summary>Largest |C_main(t) - C_alt(t)| over the times.</summary>
+    /// <summary>Largest |C_main(t) - C_alt(t)| over the times both reached.</summary>
     public double MaxAutocorrelationChange { get; init; }
 
     /// <summary>Largest |K_main(t) - K_alt(t)| / max(K_main(t), 1) over the times.</summary>

@@ -21,6 +21,9 @@ public sealed record LanczosStep
     /// <summary>Wall time of the step in seconds.</summary>
     public required double Seconds { get; init; }
 
+    /// <summary>Processor time of the whole process during the step (all threads, GC included), in seconds: independent of machine load.</summary>
+    public double CpuSeconds { get; init; }
+
     /// <summary>Bytes held at the end of the step's accumulation (vectors + accumulator + kept vectors), by our own accounting.</summary>
     public required long AccountedBytes { get; init; }
 

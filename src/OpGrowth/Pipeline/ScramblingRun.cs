@@ -171,7 +171,19 @@ public static partial class ScramblingRun
         if (!model.Parameters.ContainsKey("N"))
             return new CrossCheck { SkipReason = $"the model's size is not set by a parameter N (lattice '{model.Lattice.Kind}'), so no smaller member of the family is defined", Tolerance = options.CrossCheckTolerance };
         int n = Math.Min(model.N, preset.ExactN);
-        var ov = new Dictionary<string, string>(options.Overrides) { ["N"] = n.ToString(Inv) };
+        double time = Math.Min(options.Time ?? preset.Time, preset.ExactTime);
+        return CompareEngines(path, options.Overrides, n, time, options.CrossCheckTolerance, options.Threads, log, ct);
+    }
+
+    /// <summary>
+    /// Pauli engine (no truncation, Taylor steps: exact to rounding) against the exact state-vector
+    /// engine (dense traces) for the model file at size <paramref name="n"/> (set through its parameter N):
+    /// OTOCs against X, Y, Z on every site and the autocorrelation of the first probe on the same times.
+    /// </summary>
+    public static CrossCheck CompareEngines(string path, IReadOnlyDictionary<string, string> overrides, int n, double time, double tolerance, int threads, ILogger? log, CancellationToken ct)
+    {
+        var options = new ScramblingRunOptions { Overrides = overrides, CrossCheckTolerance = tolerance, Threads = threads, Time = time };
+        var ov = new Dictionary<string, string>(overrides) { ["N"] = n.ToString(Inv) };
         Model small;
         try
         {
@@ -185,7 +197,6 @@ public static partial class ScramblingRun
             return new CrossCheck { SkipReason = $"N = {small.N} is too large for the dense exact engine", Tolerance = options.CrossCheckTolerance };
         var probe = small.Probes[0];
         double dt = small.Drive?.Period ?? 0.1;
-        double time = Math.Min(options.Time ?? preset.Time, preset.ExactTime);
         long steps = Math.Max(1, (long)Math.Ceiling(time / dt - 1e-9));
         var problem = new EvolutionProblem
         {

@@ -264,3 +264,38 @@ public class MeanSizeProbeTests
         }
     }
 }
+
+/// <summary>
+/// The typicality engine runs the two branches of every time point on separate threads when it has two
+/// threads and the state is large (N >= 15). Both schedules compute the same vectors with the same
+/// series, so they must agree to rounding (tolerance 1e-10: sums of 2^15 amplitudes in a different
+/// order and Chebyshev series summed on one thread instead of two).
+/// </summary>
+public class ExactOtocBranchParallelTests
+{
+    [Fact]
+    public void Typicality_N15_TwoThreadBranchesEqualOneThread()
+    {
+        int n = 15;
+        var h = TestModels.MixedFieldIsing(n);
+        ExactOtocResult Run(int threads) => ExactOtoc.Run(h, new ExactOtocOptions
+        {
+            Operator = PauliString.Parse("Z_0", n),
+            Times = [0.5, 1.0, 1.5],
+            Sites = [7],
+            Probes = [PauliString.Parse("X_3", n)],
+            EstimateMeanSize = true,
+            Samples = 1,
+            Method = OtocMethod.Typicality,
+            Threads = threads,
+        });
+        var a = Run(1);
+        var b = Run(2);
+        for (int k = 0; k < 3; k++)
+        {
+            Assert.Equal(a.Sites[0].Z.Values[k], b.Sites[0].Z.Values[k], 1e-10);
+            Assert.Equal(a.Sites[0].X.Values[k], b.Sites[0].X.Values[k], 1e-10);
+        }
+        Assert.Equal(a.Cost.RealTimePropagations, b.Cost.RealTimePropagations);
+    }
+}

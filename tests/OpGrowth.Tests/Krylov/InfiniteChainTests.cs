@@ -6,6 +6,21 @@ namespace OpGrowth.Tests.Krylov;
 public class InfiniteChainTests
 {
     [Fact]
+    public void Run_TwoChainLengthsBeyondSupport_SameProbeSite_AgreeExactly()
+    {
+        // Source: conventions.md: while O_{n-1} stays r sites from both ends, b_n equal the infinite-chain values.
+        // Same probe site on a 35- and a 50-site chain: the extra sites are never reached, the strings and the
+        // order of every sum are the same, so the coefficients agree bit for bit.
+        var cell = KrylovTestModels.MixedIsing(1, 1.05, 0.5);
+        const int depth = 16;
+        var a = InfiniteChainLanczos.Run(cell, "Z", KrylovTestModels.Options(depth));
+        var b = InfiniteChainLanczos.Run(cell, "Z", KrylovTestModels.Options(depth), sites: a.Sites + 15, probeSite: (a.Sites - 1) / 2);
+        Assert.Equal(depth, a.VerifiedDepth);
+        Assert.Equal(depth, b.VerifiedDepth);
+        Assert.Equal(a.B, b.B);
+    }
+
+    [Fact]
     public void Run_TwoChainLengthsBeyondSupport_AgreeToRounding()
     {
         // Source: conventions.md: while O_{n-1} stays r sites from both ends, b_n equal the infinite-chain values,

@@ -27,7 +27,7 @@ public sealed class SlurmFactAttribute : FactAttribute
             var (code, stdout, _) = SlurmArray.RunProcess(sinfo, ["-h", "-o", "%T"], TimeSpan.FromSeconds(15));
             if (code != 0) return "Slurm is installed but no controller answers (run .ci/slurm/start-cluster.sh)";
             bool up = stdout.Split('\n', StringSplitOptions.RemoveEmptyEntries | StringSplitOptions.TrimEntries)
-                .Any(s => s.StartsWith("idle", StringComparison.Ordinal) || s.StartsWith("mixed", StringComparison.Ordinal) || s.StartsWith("alloc", StringComparison.Ordinal));
+                .Any(s => s is "idle" or "mixed" or "allocated");   // a trailing '*' means the node does not respond
             return up ? null : $"the Slurm controller answers but no node takes jobs (sinfo: {stdout.Trim()})";
         }
         catch (Exception ex) when (ex is System.ComponentModel.Win32Exception or InvalidOperationException or IOException)
