@@ -31,7 +31,7 @@ public sealed record DiagnosisOptions
     /// <summary>Memory budget of one Lanczos run in bytes.</summary>
     public long LanczosMemoryBytes { get; init; } = 1L << 30;
 
-    /// <summary>Wall-time limit of the Lanczos recursion per probe, in seconds (the coefficients finished by then are used).</summary>
+    /// <summary>Work limit of the Lanczos recursion per probe, in seconds on <see cref="EffectiveThreads"/> threads, counted in processor time (see <see cref="WorkBudget"/>; the coefficients finished by then are used).</summary>
     public double LanczosSeconds { get; init; } = 60;
 
     /// <summary>String budget of the Heisenberg evolution (tests 3 and 4).</summary>
@@ -43,7 +43,7 @@ public sealed record DiagnosisOptions
     /// <summary>Time step of the Heisenberg evolution, in units of 1/(motion scale) (second-order Trotter).</summary>
     public double EvolutionStep { get; init; } = 0.1;
 
-    /// <summary>Wall-time limit of the main probe's evolution in seconds (the other probes get a quarter); the records finished by then are used.</summary>
+    /// <summary>Work limit of the main probe's evolution in seconds on <see cref="EffectiveThreads"/> threads, counted in processor time (see <see cref="WorkBudget"/>); the records finished by then are used.</summary>
     public double EvolutionSeconds { get; init; } = 150;
 
     /// <summary>Size of the smaller member whose operator size is computed exactly (test 3).</summary>

@@ -139,8 +139,7 @@ public static class SpreadingCheck
             LadderRungs = 1,
             Truncation = new TruncationPolicy { MaxStrings = maxStrings },
         };
-        using var limit = CancellationTokenSource.CreateLinkedTokenSource(ct);
-        limit.CancelAfter(TimeSpan.FromSeconds(seconds));
+        using var limit = new WorkBudget(seconds, o.EffectiveThreads, ct);
         var progress = o.Logger is null ? null : new ProgressLog(o.Logger, probe.ToString());
         var result = OperatorEvolution.Run(problem, options, geometry: null, logger: null, progress: progress, ct: limit.Token);
         ct.ThrowIfCancellationRequested();
@@ -159,7 +158,7 @@ public static class SpreadingCheck
             MaxStrings = maxStrings,
             PeakStrings = s.PeakStrings,
             Completed = s.Completed,
-            StopReason = limit.IsCancellationRequested ? $"time limit of {seconds:0} s" : s.StopReason,
+            StopReason = limit.Spent ? limit.Describe(seconds, o.EffectiveThreads) : s.StopReason,
             Seconds = sw.Elapsed.TotalSeconds,
         };
     }
