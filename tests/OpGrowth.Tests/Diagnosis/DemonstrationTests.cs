@@ -14,7 +14,7 @@ namespace OpGrowth.Tests.Diagnosis;
 /// </summary>
 public class DemonstrationTests(ITestOutputHelper output)
 {
-    /// <summary>Reduced battery for tests: small members of 8-10 sites, small string budgets, two temperatures.</summary>
+    /// <summary>Reduced battery for tests: small members of 8-10 sites, small string budgets and work limits (10 s per Lanczos probe, 20 s of evolution, on 2 threads in processor time), two temperatures.</summary>
     internal static DiagnosisOptions TestOptions => new()
     {
         LevelN = 10,
@@ -28,11 +28,11 @@ public class DemonstrationTests(ITestOutputHelper output)
         LanczosDepth = 24,
         LanczosMaxStrings = 20_000,
         LanczosMemoryBytes = 256L << 20,
-        LanczosSeconds = 30,
+        LanczosSeconds = 10,
         EvolutionMaxStrings = 8_000,
         EvolutionTime = 16,
         EvolutionStep = 0.1,
-        EvolutionSeconds = 60,
+        EvolutionSeconds = 20,
         Threads = 2,
     };
 
