@@ -26,12 +26,7 @@ public class EvolutionBenchmarks
     [GlobalSetup]
     public void Setup()
     {
-        const int n = 128;
-        var terms = new List<PauliTerm>();
-        for (int i = 0; i + 1 < n; i++) terms.Add(new PauliTerm(new PauliString.Builder(n).Set(i, 'Z').Set(i + 1, 'Z').Build(), 1.0));
-        for (int i = 0; i < n; i++) terms.Add(new PauliTerm(PauliString.Single(n, i, 'X'), 1.05));
-        for (int i = 0; i < n; i++) terms.Add(new PauliTerm(PauliString.Single(n, i, 'Z'), 0.5));
-        var problem = new EvolutionProblem { N = n, Hamiltonian = new Hamiltonian(n, terms), Initial = EvolutionProblem.Probe(PauliString.Single(n, 64, 'Z')) };
+        var problem = Workloads.MixedFieldIsingProblem128();
         var options = new EvolutionOptions
         {
             Method = IntegrationMethod.Trotter2,

@@ -1,3 +1,4 @@
+using OpGrowth.Evolution;
 using OpGrowth.Pauli;
 
 namespace OpGrowth.Benchmarks;
@@ -43,5 +44,16 @@ public static class Workloads
             }
         }
         return c;
+    }
+
+    /// <summary>The evolution workload: mixed-field Ising chain on 128 sites, probe Z_64.</summary>
+    public static EvolutionProblem MixedFieldIsingProblem128()
+    {
+        const int n = 128;
+        var terms = new List<PauliTerm>();
+        for (int i = 0; i + 1 < n; i++) terms.Add(new PauliTerm(new PauliString.Builder(n).Set(i, 'Z').Set(i + 1, 'Z').Build(), 1.0));
+        for (int i = 0; i < n; i++) terms.Add(new PauliTerm(PauliString.Single(n, i, 'X'), 1.05));
+        for (int i = 0; i < n; i++) terms.Add(new PauliTerm(PauliString.Single(n, i, 'Z'), 0.5));
+        return new EvolutionProblem { N = n, Hamiltonian = new Hamiltonian(n, terms), Initial = EvolutionProblem.Probe(PauliString.Single(n, 64, 'Z')) };
     }
 }

@@ -165,7 +165,7 @@ internal static class SweepCommand
     private static int RunLocal(SweepPlan plan, string dir, int? jobs, string? memory, int? threads, bool figures, ILogger log, CancellationToken ct)
     {
         var points = plan.Expand();
-        var store = Prepare(plan, points, dir);
+        var store = Prepare(plan, points, dir, log);
         int cores = Environment.ProcessorCount;
         int j = Math.Max(1, jobs ?? cores);
         if (jobs is < 1) throw new InputException($"found --jobs {jobs}; expected at least 1");
@@ -227,7 +227,7 @@ internal static class SweepCommand
         bool figures, ILogger log, CancellationToken ct)
     {
         var points = plan.Expand();
-        var store = Prepare(plan, points, dir);
+        var store = Prepare(plan, points, dir, log);
         var runner = PointRunners.Create(so.CpusPerTask, log);
         long mem = points.Max(p => runner.EstimateMemoryBytes(p));
         so = so with { MemoryPerTaskBytes = mem + (256L << 20) };
@@ -260,9 +260,9 @@ internal static class SweepCommand
     }
 
     /// <summary>Creates the results folder with the resolved plan and the manifest of points.</summary>
-    private static PointStore Prepare(SweepPlan plan, IReadOnlyList<SweepPoint> points, string dir)
+    private static PointStore Prepare(SweepPlan plan, IReadOnlyList<SweepPoint> points, string dir, ILogger log)
     {
-        var store = new PointStore(dir);
+        var store = new PointStore(dir, log);
         Directory.CreateDirectory(store.PointsDirectory);
         store.RemoveStaleTemporaryFiles(TimeSpan.FromMinutes(10));
         AtomicFile.WriteAllText(store.PlanPath, plan.ToToml());

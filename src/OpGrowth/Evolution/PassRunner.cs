@@ -146,32 +146,19 @@ internal sealed class PassRunner<T> where T : unmanaged, IPauliKey<T>
             MergeOwner(buffers, threads, target, 0);
             return;
         }
-        // Each owner thread merges the partitions it owns (p % threads), reading the buffers in slice order.
+        // Each owner thread merges the partition groups it owns (g % threads), reading the buffers in slice order.
         Parallel.For(0, threads, options, u => MergeOwner(buffers, threads, target, u));
     }
 
-    private const int Ahead = 8;
-
-    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     private static void MergeOwner(EmitBuffer<T>[] buffers, int threads, PassAccumulator<T> target, int owner)
+        => EmitBuffer<T>.MergeGroups(buffers, threads, owner, threads, new PassTarget(target.Parts, target.Shift));
+
+    private readonly struct PassTarget(PassAccumulator<T>.Part[] parts, int shift) : IGroupTarget<T>
     {
-        var parts = target.Parts;
-        int shift = target.Shift;
-        for (int b = 0; b < threads; b++)
-        {
-            var buf = buffers[b];
-            var entries = buf.Streams[owner];
-            int c = buf.Counts[owner];
-            for (int i = 0; i < c; i++)
-            {
-                if (i + Ahead < c)
-                {
-                    ulong ha = entries[i + Ahead].Hash;
-                    parts[(int)(ha >> shift)].Prefetch(ha);
-                }
-                ref var e = ref entries[i];
-                parts[(int)(e.Hash >> shift)].Add(e.Key, e.Value, e.Hash);
-            }
-        }
+        [MethodImpl(MethodImplOptions.AggressiveInlining)]
+        public void Prefetch(ulong hash) => parts[(int)(hash >> shift)].Prefetch(hash);
+
+        [MethodImpl(MethodImplOptions.AggressiveInlining)]
+        public void Add(in T key, double value, ulong hash) => parts[(int)(hash >> shift)].Add(key, value, hash);
     }
 }

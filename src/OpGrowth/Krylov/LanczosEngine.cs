@@ -76,7 +76,7 @@ internal static class LanczosEngine
             // The map driver's emit buffers: one block of inputs times the products per input (sampled),
             // with up to 2x slack from doubling, plus their initial streams.
             double products = ProductsPerInput(basis, cur);
-            long emitAllowance = ((long)opt.Threads * opt.Threads * 1024 + (long)(Math.Min(cur.Count, PauliMapper.BlockSize) * products * 2)) * entryBytes;
+            long emitAllowance = ((long)opt.Threads * opt.Threads * 1024 + PauliMapper.BufferedEmissionsBound(cur.Count, products) * 2) * entryBytes;
             long held = cur.AllocatedBytes + (prev?.AllocatedBytes ?? 0) + kept.Sum(v => v.Bytes) + emitAllowance;
             long predictedBytes = held + (long)(predicted * (accBytesPerString + perString));
             if (predictedBytes * HeapOverhead > opt.MemoryBudgetBytes)

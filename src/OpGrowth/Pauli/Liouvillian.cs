@@ -9,7 +9,7 @@ public static class Liouvillian
     {
         var acc = PauliAccumulator<T>.For(o.N, EstimateImage(h, o));
         PauliMapper.Run(o, new CommutatorMap<T>(h, scale), acc, threads);
-        return acc.ToOperator();
+        return acc.ToOperator(threads);
     }
 
     /// <summary>Accumulates scale * i[H, O] into an existing accumulator.</summary>

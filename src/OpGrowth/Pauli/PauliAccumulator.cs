@@ -94,21 +94,43 @@ public sealed class PauliAccumulator<T> where T : unmanaged, IPauliKey<T>
     /// <summary>
     /// Compacts into an operator (partition order, slot order within a partition; deterministic),
     /// dropping strings whose coefficients cancelled to exactly zero. The accumulator is cleared.
+    /// With <paramref name="threads"/> &gt; 1 the partitions are counted and copied in parallel (each to
+    /// its own precomputed offset, so the result is the same at any thread count).
     /// </summary>
-    public PauliOperator<T> ToOperator()
+    public PauliOperator<T> ToOperator(int threads = 1)
     {
+        var counts = new int[Parts.Length];
+        var options = new ParallelOptions { MaxDegreeOfParallelism = Math.Max(1, threads) };
+        bool parallel = threads > 1 && Parts.Length >= 16;
+        if (parallel) Parallel.For(0, Parts.Length, options, i => counts[i] = Parts[i].CountNonZero());
+        else for (int i = 0; i < Parts.Length; i++) counts[i] = Parts[i].CountNonZero();
         long total = 0;
-        foreach (var p in Parts) total += p.CountNonZero();
-        if (total > Array.MaxLength) throw new InsufficientMemoryException($"{total} strings exceed one array's capacity.");
+        var offsets = new int[Parts.Length];
+        for (int i = 0; i < Parts.Length; i++)
+        {
+            if (total + counts[i] > Array.MaxLength) throw new InsufficientMemoryException($"More than {Array.MaxLength} strings exceed one array's capacity.");
+            offsets[i] = (int)total;
+            total += counts[i];
+        }
         var keys = GC.AllocateUninitializedArray<T>((int)total);
         var vals = GC.AllocateUninitializedArray<double>((int)total);
-        int w = 0;
-        foreach (var p in Parts)
+        if (parallel)
         {
-            w = p.CopyTo(keys, vals, w);
-            p.Release();
+            Parallel.For(0, Parts.Length, options, i =>
+            {
+                Parts[i].CopyTo(keys, vals, offsets[i]);
+                Parts[i].Release();
+            });
         }
-        return new PauliOperator<T>(N, keys, vals, w);
+        else
+        {
+            for (int i = 0; i < Parts.Length; i++)
+            {
+                Parts[i].CopyTo(keys, vals, offsets[i]);
+                Parts[i].Release();
+            }
+        }
+        return new PauliOperator<T>(N, keys, vals, (int)total);
     }
 
     /// <summary>A (key, value) slot; the all-zero key means empty.</summary>

@@ -3,19 +3,41 @@ namespace OpGrowth.Pauli;
 /// <summary>
 /// Drives a string-by-string linear map over an operator on several threads without locks.
 /// Input is processed in blocks; each block is cut into one contiguous slice per thread; each
-/// thread appends its contributions to one stream per owner (target partitions are dealt to the
-/// threads round-robin, partition p to thread p mod T); then each owner inserts the streams of
-/// all threads, in slice order, into its own partitions. Every string's contributions are
-/// therefore summed in input order whatever the thread count: results are bit-identical at 1 and
-/// 2 threads (the partition count depends on the data size only).
+/// thread appends its contributions to one stream per partition group (see <see cref="EmitBuffer{T}"/>);
+/// then group g is merged by thread g mod T, which reads the streams of all threads in slice order.
+/// Every string's contributions are therefore summed in input order whatever the thread count:
+/// results are bit-identical at 1 and 2 threads (the partition count depends on the data size only).
+/// Blocks are sized so that one block emits about <see cref="TargetBlockEmissions"/> contributions:
+/// enough that each group's tables, once fetched, absorb many updates while they are in cache.
+/// The block size never changes a result.
 /// </summary>
 public static class PauliMapper
 {
-    /// <summary>Input strings per block: bounds the buffered contributions (memory) per pass.</summary>
-    public const int BlockSize = 1 << 14;
+    /// <summary>Input strings in the first block of a pass (it measures the contributions per input).</summary>
+    public const int BlockSize = 1 << 12;
 
-    /// <summary>Prefetch distance of the merge: far enough ahead to hide a memory miss, short enough to stay in L1.</summary>
-    private const int Ahead = 12;
+    /// <summary>Most contributions buffered per block (all threads together) once the rate is known.</summary>
+    public const long TargetBlockEmissions = 1 << 21;
+
+    /// <summary>Contributions per block into a target small enough to stay in the last-level cache.</summary>
+    private const long MinBlockEmissions = 1 << 18;
+
+    /// <summary>Below this many bytes of tables the target stays in cache and small blocks are best.</summary>
+    private const long SmallTargetBytes = 16L << 20;
+
+    /// <summary>Largest block of input strings.</summary>
+    private const int MaxBlock = 1 << 20;
+
+    /// <summary>
+    /// Upper bound on the contributions held in the emit buffers at once during a pass over
+    /// <paramref name="inputs"/> strings that emit <paramref name="perInput"/> each (for memory accounting).
+    /// </summary>
+    public static long BufferedEmissionsBound(long inputs, double perInput)
+    {
+        double p = Math.Max(1.0, perInput);
+        long block = Math.Max(BlockSize, (long)Math.Ceiling(TargetBlockEmissions / p));
+        return (long)Math.Ceiling(Math.Min(inputs, block) * p);
+    }
 
     /// <summary>Accumulates map(O) into <paramref name="target"/>.</summary>
     public static void Run<T, TMap>(PauliOperator<T> source, TMap map, PauliAccumulator<T> target, int threads)
@@ -51,23 +73,37 @@ public static class PauliMapper
         var keys = source.KeyArray;
         var coeffs = source.CoefficientArray;
         var options = new ParallelOptions { MaxDegreeOfParallelism = threads };
-        for (int b0 = 0; b0 < n; b0 += BlockSize)
+        int blockSize = BlockSize;
+        for (int b0 = 0, b1; b0 < n; b0 = b1)
         {
-            int b1 = Math.Min(n, b0 + BlockSize);
+            b1 = (int)Math.Min(n, (long)b0 + blockSize);
             if (threads == 1)
             {
                 Produce(keys, coeffs, b0, b1, map, buffers[0]);
-                MergeOwner(buffers, target, 0);
-                continue;
             }
-            int start = b0, len = b1 - b0;
-            Parallel.For(0, threads, options, t =>
+            else
             {
-                int s = start + (int)((long)len * t / threads);
-                int e = start + (int)((long)len * (t + 1) / threads);
-                Produce(keys, coeffs, s, e, map, buffers[t]);
-            });
-            Parallel.For(0, threads, options, u => MergeOwner(buffers, target, u));
+                int start = b0, len = b1 - b0;
+                Parallel.For(0, threads, options, t =>
+                {
+                    int s = start + (int)((long)len * t / threads);
+                    int e = start + (int)((long)len * (t + 1) / threads);
+                    Produce(keys, coeffs, s, e, map, buffers[t]);
+                });
+            }
+            long emitted = 0;
+            foreach (var buf in buffers)
+            {
+                foreach (int c in buf.Counts) emitted += c;
+            }
+            if (threads == 1) MergeOwner(buffers, target, 0, 1);
+            else Parallel.For(0, threads, options, u => MergeOwner(buffers, target, u, threads));
+            // A target far larger than cache gets large blocks, so each group's tables, fetched once per
+            // block, absorb many updates; a target that fits in cache gets small blocks, so the buffer
+            // stays in cache too.
+            double perInput = Math.Max(1.0, emitted / (double)(b1 - b0));
+            long wanted = target.AllocatedBytes < SmallTargetBytes ? MinBlockEmissions : TargetBlockEmissions;
+            blockSize = (int)Math.Clamp(wanted / perInput, BlockSize, MaxBlock);
         }
     }
 
@@ -79,26 +115,18 @@ public static class PauliMapper
         for (int i = start; i < end; i++) map.Apply(keys[i], coeffs[i], sink);
     }
 
-    private static void MergeOwner<T>(EmitBuffer<T>[] buffers, PauliAccumulator<T> target, int owner)
+    private static void MergeOwner<T>(EmitBuffer<T>[] buffers, PauliAccumulator<T> target, int owner, int owners)
+        where T : unmanaged, IPauliKey<T>
+        => EmitBuffer<T>.MergeGroups(buffers, buffers.Length, owner, owners, new AccumulatorTarget<T>(target.Parts, target.Shift));
+
+    private readonly struct AccumulatorTarget<T>(PauliAccumulator<T>.Partition[] parts, int shift) : IGroupTarget<T>
         where T : unmanaged, IPauliKey<T>
     {
-        var parts = target.Parts;
-        int shift = target.Shift;
-        foreach (var buf in buffers)
-        {
-            var entries = buf.Streams[owner];
-            int c = buf.Counts[owner];
-            for (int i = 0; i < c; i++)
-            {
-                if (i + Ahead < c)
-                {
-                    ulong ha = entries[i + Ahead].Hash;
-                    parts[(int)(ha >> shift)].Prefetch(ha);
-                }
-                ref var e = ref entries[i];
-                parts[(int)(e.Hash >> shift)].Add(e.Key, e.Value, e.Hash);
-            }
-        }
+        [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveInlining)]
+        public void Prefetch(ulong hash) => parts[(int)(hash >> shift)].Prefetch(hash);
+
+        [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveInlining)]
+        public void Add(in T key, double value, ulong hash) => parts[(int)(hash >> shift)].Add(key, value, hash);
     }
 
     /// <summary>Drops the pooled emit buffers (they hold up to a block's worth of contributions per thread).</summary>

@@ -126,7 +126,7 @@ public class ResultsStoreTests
         var points = kit.LoadPlan(SweepTestKit.SyntheticPlan(delay: 0.05)).Expand();
         var store = new PointStore(kit.Path("out"));
         // Each point declares 64 MiB (synthetic default); a 150 MiB budget allows two at once although 4 jobs are allowed.
-        var runner = new CountingRunner(new SyntheticPointRunner());
+        var runner = new CountingRunner(new SyntheticPointRunner()) { HoldUntil = 3 };
         new SweepExecutor(store, runner).Run(points, new SweepExecution(4, 150L << 20), default);
         Assert.Equal(points.Count, runner.Calls);
         Assert.Equal(2, runner.MaxInFlight);
@@ -141,7 +141,7 @@ public class ResultsStoreTests
     {
         using var kit = new SweepTestKit();
         var points = kit.LoadPlan(SweepTestKit.SyntheticPlan(delay: 0.05)).Expand();
-        var runner = new CountingRunner(new SyntheticPointRunner());
+        var runner = new CountingRunner(new SyntheticPointRunner()) { HoldUntil = 4 };
         new SweepExecutor(new PointStore(kit.Path("out")), runner).Run(points, new SweepExecution(3, 1L << 40), default);
         Assert.Equal(3, runner.MaxInFlight);
     }
@@ -193,6 +193,12 @@ public class ResultsStoreTests
 
         public int? FailIndex { get; init; }
 
+        /// <summary>
+        /// Each call waits (at most 1 s) until this many points are in flight, so that the concurrency the
+        /// scheduler allows is actually reached on a loaded machine, where 50 ms points may not overlap.
+        /// </summary>
+        public int? HoldUntil { get; init; }
+
         public long EstimateMemoryBytes(SweepPoint point) => inner.EstimateMemoryBytes(point);
 
         public PointResult Run(SweepPoint point, CancellationToken cancellationToken)
@@ -206,6 +212,11 @@ public class ResultsStoreTests
             try
             {
                 _seen.Add(point.Index);
+                if (HoldUntil is int hold)
+                {
+                    var wait = System.Diagnostics.Stopwatch.StartNew();
+                    while (Volatile.Read(ref _inFlight) < hold && wait.ElapsedMilliseconds < 1000) Thread.Sleep(1);
+                }
                 if (point.Index == FailIndex) throw new ResourceLimitException("budget too small for this point (test)");
                 return inner.Run(point, cancellationToken);
             }

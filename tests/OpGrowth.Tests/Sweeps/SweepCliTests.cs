@@ -26,9 +26,7 @@ public class SweepCliTests(ITestOutputHelper output)
             var sw = Stopwatch.StartNew();
             string points = Path.Combine(killed, "points");
             while (sw.Elapsed < TimeSpan.FromSeconds(60) && (!Directory.Exists(points) || Directory.GetFiles(points, "*.json").Length < 5)) Thread.Sleep(20);
-            p.Kill(entireProcessTree: false);   // SIGKILL on Linux
-            p.WaitForExit();
-            Assert.NotEqual(0, p.ExitCode);
+            Assert.Equal(137, SweepTestKit.SigKill(p));   // 128 + SIGKILL: killed, not finished
         }
         int done = Directory.GetFiles(Path.Combine(killed, "points"), "*.json").Length;
         output.WriteLine($"killed after {done} of {total} points");
@@ -53,6 +51,104 @@ public class SweepCliTests(ITestOutputHelper output)
         }
         Assert.Equal(total + 1, File.ReadAllLines(Path.Combine(killed, "table.csv")).Length);
         output.WriteLine(rerun.Stdout);
+    }
+
+#if OPGROWTH_EXACT
+    /// <summary>
+    /// The same kill-and-rerun with real physics: the exact engine (dense traces) on a small disordered Ising
+    /// chain, N = 5..7, two seeds. The sweep is ended by SIGKILL once at least one point file exists and before
+    /// the last one; the rerun computes only the missing points, and every merged output (table, averages, fits,
+    /// series) is byte-identical to that of an uninterrupted sweep in another folder. Reference: an
+    /// uninterrupted run of the same plan (dense traces are deterministic, so identity is exact).
+    /// </summary>
+    [Fact]
+    public void Sweep_ExactEngineKilledBySigkill_RerunGivesIdenticalMergedTable()
+    {
+        using var kit = new SweepTestKit();
+        string plan = kit.WritePlan("""
+            name = "resume-exact"
+            [model]
+            file = "model.toml"
+            sizes = [5, 6, 7]
+            seeds = [1, 2]
+            probes = ["Z_0"]
+            [engine]
+            engine = "exact"
+            time = 3
+            dt = 0.05
+            record_every = 2
+            """);
+        string killed = kit.Path("killed"), clean = kit.Path("clean");
+        const int total = 6;
+        var clock = Stopwatch.StartNew();
+        int done;
+        using (var p = SweepTestKit.StartCli("sweep", plan, "--results", killed, "--jobs", "1", "--no-figures"))
+        {
+            p.StandardOutput.ReadToEndAsync();
+            p.StandardError.ReadToEndAsync();
+            string points = Path.Combine(killed, "points");
+            while (clock.Elapsed < TimeSpan.FromSeconds(60) && !p.HasExited && (!Directory.Exists(points) || Directory.GetFiles(points, "*.json").Length < 1)) Thread.Sleep(5);
+            Assert.False(p.HasExited, "the sweep finished before it could be killed");
+            Assert.Equal(137, SweepTestKit.SigKill(p));
+            done = Directory.GetFiles(points, "*.json").Length;
+        }
+        output.WriteLine($"SIGKILL after {done} of {total} points ({clock.Elapsed.TotalSeconds:0.0} s)");
+        Assert.InRange(done, 1, total - 1);
+        Assert.False(File.Exists(Path.Combine(killed, "table.csv")));
+
+        var rerun = SweepTestKit.RunCli(TimeSpan.FromMinutes(2), "sweep", plan, "--results", killed, "--jobs", "1", "--no-figures");
+        Assert.True(rerun.Code == 0, rerun.Stderr);
+        Assert.Contains($"{done} already done, {total - done} to run", rerun.Stderr, StringComparison.Ordinal);
+        var fresh = SweepTestKit.RunCli(TimeSpan.FromMinutes(2), "sweep", plan, "--results", clean, "--jobs", "1", "--no-figures");
+        Assert.True(fresh.Code == 0, fresh.Stderr);
+        foreach (string f in new[] { "table.csv", "table.json", "averages.csv", "fits.json", "series.csv" })
+        {
+            Assert.Equal(File.ReadAllText(Path.Combine(clean, f)), File.ReadAllText(Path.Combine(killed, f)));
+        }
+        var rows = File.ReadAllLines(Path.Combine(killed, "table.csv"));
+        Assert.Equal(total + 1, rows.Length);
+        Assert.All(rows.Skip(1), r => Assert.Contains(",exact,", r, StringComparison.Ordinal));
+        output.WriteLine(rerun.Stdout);
+        output.WriteLine($"total {clock.Elapsed.TotalSeconds:0.0} s");
+    }
+#endif
+
+    /// <summary>
+    /// Damage found by the sweep itself (no collect in between): one point file truncated mid-write and one
+    /// whose t* was edited (valid JSON, checksum no longer matches). The rerun reports both, moves them to
+    /// corrupt/, recomputes exactly those two, and the merged table equals an undamaged sweep's, so the edited
+    /// value was never merged.
+    /// </summary>
+    [Fact]
+    public void Sweep_RerunOverTruncatedAndTamperedFiles_ReportsRecomputesNeverMerges()
+    {
+        using var kit = new SweepTestKit();
+        string plan = kit.WritePlan(SweepTestKit.SyntheticPlan(sizes: "[8, 12, 16]", seeds: "[1, 2]"));
+        string dir = kit.Path("out"), clean = kit.Path("clean");
+        var first = SweepTestKit.RunCli(TimeSpan.FromMinutes(1), "sweep", plan, "--results", dir);
+        Assert.True(first.Code == 0, first.Stderr);
+        string reference = File.ReadAllText(Path.Combine(dir, "table.csv"));
+        var files = Directory.GetFiles(Path.Combine(dir, "points"), "*.json").Order(StringComparer.Ordinal).ToArray();
+        string truncated = files[0], tampered = files[1];
+        File.WriteAllText(truncated, File.ReadAllText(truncated)[..(File.ReadAllText(truncated).Length / 2)]);
+        string text = File.ReadAllText(tampered);
+        int i = text.IndexOf("\"tStar\": ", StringComparison.Ordinal) + 9;
+        File.WriteAllText(tampered, text[..i] + "9" + text[i..]);   // t* gains a leading 9: still valid JSON
+        File.Delete(Path.Combine(dir, "table.csv"));
+
+        var again = SweepTestKit.RunCli(TimeSpan.FromMinutes(1), "sweep", plan, "--results", dir);
+        Assert.True(again.Code == 0, again.Stderr);
+        output.WriteLine(again.Stderr);
+        Assert.Contains($"corrupt point file {truncated}: is not valid JSON (truncated or damaged", again.Stderr, StringComparison.Ordinal);
+        Assert.Contains($"corrupt point file {tampered}: fails its checksum", again.Stderr, StringComparison.Ordinal);
+        Assert.Contains("4 already done, 2 to run", again.Stderr, StringComparison.Ordinal);
+        Assert.Contains("2 computed, 4 skipped, 0 failed, 2 corrupt files replaced", again.Stderr, StringComparison.Ordinal);
+        Assert.Equal(2, Directory.GetFiles(Path.Combine(dir, "corrupt")).Length);
+        Assert.Equal(reference, File.ReadAllText(Path.Combine(dir, "table.csv")));
+        var fresh = SweepTestKit.RunCli(TimeSpan.FromMinutes(1), "sweep", plan, "--results", clean);
+        Assert.True(fresh.Code == 0, fresh.Stderr);
+        Assert.Equal(File.ReadAllText(Path.Combine(clean, "table.csv")), File.ReadAllText(Path.Combine(dir, "table.csv")));
+        Assert.Equal(File.ReadAllText(Path.Combine(clean, "fits.json")), File.ReadAllText(Path.Combine(dir, "fits.json")));
     }
 
     [Fact]

@@ -124,6 +124,22 @@ internal sealed class SweepTestKit : IDisposable
         return (p.ExitCode, o.Result, e.Result);
     }
 
+    /// <summary>
+    /// Sends SIGKILL to a running child (through the kill program, so the signal is explicit rather than
+    /// whatever Process.Kill uses) and waits for it to end. Returns the exit code: 137 = 128 + SIGKILL(9)
+    /// is how .NET reports a child ended by that signal.
+    /// </summary>
+    public static int SigKill(Process p)
+    {
+        string kill = SlurmArray.FindOnPath("kill") ?? "/bin/kill";
+        using (var k = Process.Start(new ProcessStartInfo(kill) { ArgumentList = { "-KILL", p.Id.ToString(System.Globalization.CultureInfo.InvariantCulture) }, UseShellExecute = false })!)
+        {
+            k.WaitForExit();
+        }
+        p.WaitForExit();
+        return p.ExitCode;
+    }
+
     public void Dispose()
     {
         try
