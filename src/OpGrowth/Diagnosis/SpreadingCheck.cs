@@ -360,7 +360,7 @@ public static class SpreadingCheck
         var inv = System.Globalization.CultureInfo.InvariantCulture;
         if (f is null || f.Kind == "not applicable")
         {
-            return TestVerdict.NotRun(4, FrontName, $"no front to follow: on a {model.Lattice.Kind} lattice every site is within distance {(f?.MaxDistance ?? model.Lattice.Diameter)} of the probe") with
+            return TestVerdict.NotRun(4, FrontName, $"no front to follow: with {model.Lattice.Kind} couplings every site is within distance {(f?.MaxDistance ?? model.Lattice.Diameter)} of the probe") with
             {
                 Figure = "not applicable",
             };
