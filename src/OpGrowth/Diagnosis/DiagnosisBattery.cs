@@ -145,6 +145,7 @@ public static class DiagnosisBattery
             N = model.N,
             Lattice = model.Lattice.Kind,
             Epsilon = eps,
+            MotionScale = OperatorAlgebra.MotionScale(model.Hamiltonian),
             Probes = LanczosGrowthCheck.ProbesOf(model).Select(p => p.ToString()).ToArray(),
             Tests = tests,
             Overall = overall,

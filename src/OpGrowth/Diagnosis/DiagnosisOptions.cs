@@ -31,19 +31,19 @@ public sealed record DiagnosisOptions
     /// <summary>Memory budget of one Lanczos run in bytes.</summary>
     public long LanczosMemoryBytes { get; init; } = 1L << 30;
 
-    /// <summary>Wall-time limit of the Lanczos recursion per probe, in seconds (the coefficients finished by then are used).</summary>
+    /// <summary>Work limit of the Lanczos recursion per probe, in seconds on <see cref="EffectiveThreads"/> threads, counted in processor time (see <see cref="WorkBudget"/>; the coefficients finished by then are used).</summary>
     public double LanczosSeconds { get; init; } = 60;
 
     /// <summary>String budget of the Heisenberg evolution (tests 3 and 4).</summary>
     public long EvolutionMaxStrings { get; init; } = 1L << 16;
 
-    /// <summary>Final time of the Heisenberg evolution, in units of 1/epsilon.</summary>
+    /// <summary>Final time of the Heisenberg evolution (and of the exact operator-size series), in units of 1/(motion scale), see <see cref="OperatorAlgebra.MotionScale"/>; in periods for a drive.</summary>
     public double EvolutionTime { get; init; } = 24;
 
-    /// <summary>Time step of the Heisenberg evolution, in units of 1/epsilon (second-order Trotter).</summary>
+    /// <summary>Time step of the Heisenberg evolution, in units of 1/(motion scale) (second-order Trotter).</summary>
     public double EvolutionStep { get; init; } = 0.1;
 
-    /// <summary>Wall-time limit of the main probe's evolution in seconds (the other probes get a quarter); the records finished by then are used.</summary>
+    /// <summary>Work limit of the main probe's evolution in seconds on <see cref="EffectiveThreads"/> threads, counted in processor time (see <see cref="WorkBudget"/>); the records finished by then are used.</summary>
     public double EvolutionSeconds { get; init; } = 150;
 
     /// <summary>Size of the smaller member whose operator size is computed exactly (test 3).</summary>

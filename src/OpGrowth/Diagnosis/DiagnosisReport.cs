@@ -24,6 +24,9 @@ public sealed record DiagnosisReport
     /// <summary>Local energy scale epsilon = sqrt(||H||^2/N) (time unit 1/epsilon).</summary>
     public required double Epsilon { get; init; }
 
+    /// <summary>Motion scale (couplings on two or more sites per site); evolution times are in units of its inverse.</summary>
+    public required double MotionScale { get; init; }
+
     /// <summary>Probes used (the first is the main probe).</summary>
     public required IReadOnlyList<string> Probes { get; init; }
 
@@ -73,8 +76,8 @@ public sealed record DiagnosisReport
     {
         var inv = CultureInfo.InvariantCulture;
         var sb = new StringBuilder();
-        sb.Append(inv, $"diagnosis of {Model}: N = {N} ({Lattice}), probes {string.Join(", ", Probes)}, epsilon = {Epsilon:0.###} (time unit 1/epsilon), {Seconds:0} s").AppendLine();
-        sb.Append(inv, $"small members: level statistics N = {Settings.LevelN}, conserved quantities N = {Settings.ClusterN}, operator size N = {Settings.SizeN}, finite temperature N = {Settings.ThermalN}").AppendLine();
+        Wrap(sb, string.Create(inv, $"diagnosis of {Model}: N = {N} ({Lattice}), probes {string.Join(", ", Probes)}, epsilon = {Epsilon:0.###}, motion scale {MotionScale:0.###}, {Seconds:0} s"), width, "  ");
+        Wrap(sb, string.Create(inv, $"small members: level statistics N = {Settings.LevelN}, conserved quantities N = {Settings.ClusterN}, operator size N = {Settings.SizeN}, finite temperature N = {Settings.ThermalN}"), width, "  ");
         sb.AppendLine();
         int wNum = 2, wName = 20, wVerdict = 12;
         int rest = Math.Max(40, width - wNum - wName - wVerdict - 8);
@@ -113,7 +116,7 @@ public sealed record DiagnosisReport
             foreach (var c in Caveats) Wrap(sb, $"  - {c}", width, "    ");
         }
         sb.AppendLine();
-        sb.Append("time per test: ").AppendJoin(", ", Tests.Select(t => string.Create(inv, $"{t.Number}: {t.Seconds:0} s"))).AppendLine();
+        Wrap(sb, "time per test: " + string.Join(", ", Tests.Select(t => string.Create(inv, $"{t.Number}: {t.Seconds:0} s"))), width, "  ");
         return sb.ToString();
     }
 

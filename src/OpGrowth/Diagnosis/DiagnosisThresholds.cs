@@ -61,6 +61,9 @@ public static class DiagnosisThresholds
     /// <summary>A front that never passes this distance from the probe during the run is "no front" (common practice).</summary>
     public const int StalledFrontDistance = 1;
 
+    /// <summary>A stopped front counts as localization only if truncation discarded at most this weight (common practice: a top-M budget also stops fronts).</summary>
+    public const double FrontMaxDiscarded = 0.1;
+
     /// <summary>An exponential OTOC regime needs at least this many points in the fit window (common practice).</summary>
     public const int ExponentialMinPoints = 5;
 

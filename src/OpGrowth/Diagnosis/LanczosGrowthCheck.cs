@@ -66,8 +66,7 @@ public static class LanczosGrowthCheck
     private static LanczosProbeFindings RunProbe(Model model, PauliString probe, bool chain, DiagnosisOptions o, CancellationToken ct)
     {
         var sw = Stopwatch.StartNew();
-        using var limit = CancellationTokenSource.CreateLinkedTokenSource(ct);
-        limit.CancelAfter(TimeSpan.FromSeconds(o.LanczosSeconds));
+        using var limit = new WorkBudget(o.LanczosSeconds, o.EffectiveThreads, ct);
         var lo = new LanczosOptions
         {
             Depth = o.LanczosDepth,
@@ -97,7 +96,7 @@ public static class LanczosGrowthCheck
         }
         var (kind, formula, delta, alpha, alphaErr, window) = Classify(b.Take(used).ToArray());
         string stop = est.Reference.StopMessage;
-        if (limit.IsCancellationRequested && !ct.IsCancellationRequested) stop = $"time limit of {o.LanczosSeconds:0} s reached after b_{b.Count}";
+        if (limit.Spent && !ct.IsCancellationRequested) stop = $"{limit.Describe(o.LanczosSeconds, o.EffectiveThreads)} after b_{b.Count}";
         return new LanczosProbeFindings
         {
             Probe = probe.ToString(),

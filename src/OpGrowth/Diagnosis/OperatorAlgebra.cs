@@ -18,6 +18,19 @@ public static class OperatorAlgebra
         return s > 0 ? Math.Sqrt(s / h.N) : 1.0;
     }
 
+    /// <summary>
+    /// Motion scale: sqrt(sum of squared coefficients of the terms acting on two or more sites / N), the
+    /// energy per site of the couplings that move operators from site to site (hopping, exchange). Strong
+    /// on-site fields raise epsilon without moving anything, so the evolution time of tests 3 and 4 is
+    /// measured in units of 1/(motion scale); falls back to epsilon when H has no such terms.
+    /// </summary>
+    public static double MotionScale(Hamiltonian h)
+    {
+        ArgumentNullException.ThrowIfNull(h);
+        double s = h.Terms.Where(t => t.String.Weight >= 2).Sum(t => t.Coefficient * t.Coefficient);
+        return s > 0 ? Math.Sqrt(s / h.N) : EnergyScale(h);
+    }
+
     /// <summary>||i[H, Q]|| / ||Q|| in the normalised trace norm (A|A) = Tr(A^dagger A)/2^N.</summary>
     public static double CommutatorNorm(Hamiltonian h, IReadOnlyList<PauliTerm> q)
     {

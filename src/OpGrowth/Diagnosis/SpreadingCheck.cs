@@ -72,7 +72,7 @@ public static class SpreadingCheck
         ArgumentNullException.ThrowIfNull(model);
         ArgumentNullException.ThrowIfNull(probe);
         ArgumentNullException.ThrowIfNull(o);
-        double eps = OperatorAlgebra.EnergyScale(model.Hamiltonian);
+        double eps = OperatorAlgebra.MotionScale(model.Hamiltonian);
         bool driven = model.Drive is not null;
         int points = Math.Max(8, o.SizeTimePoints);
         double tMax = driven ? Math.Ceiling(o.EvolutionTime) : o.EvolutionTime / eps;
@@ -113,7 +113,7 @@ public static class SpreadingCheck
         ArgumentNullException.ThrowIfNull(probe);
         ArgumentNullException.ThrowIfNull(o);
         var sw = Stopwatch.StartNew();
-        double eps = OperatorAlgebra.EnergyScale(model.Hamiltonian);
+        double eps = OperatorAlgebra.MotionScale(model.Hamiltonian);
         bool driven = model.Drive is not null;
         double time = driven ? Math.Ceiling(o.EvolutionTime) * model.Drive!.Period : o.EvolutionTime / eps;
         double dt = o.EvolutionStep / eps;
@@ -139,8 +139,7 @@ public static class SpreadingCheck
             LadderRungs = 1,
             Truncation = new TruncationPolicy { MaxStrings = maxStrings },
         };
-        using var limit = CancellationTokenSource.CreateLinkedTokenSource(ct);
-        limit.CancelAfter(TimeSpan.FromSeconds(seconds));
+        using var limit = new WorkBudget(seconds, o.EffectiveThreads, ct);
         var progress = o.Logger is null ? null : new ProgressLog(o.Logger, probe.ToString());
         var result = OperatorEvolution.Run(problem, options, geometry: null, logger: null, progress: progress, ct: limit.Token);
         ct.ThrowIfCancellationRequested();
@@ -159,7 +158,7 @@ public static class SpreadingCheck
             MaxStrings = maxStrings,
             PeakStrings = s.PeakStrings,
             Completed = s.Completed,
-            StopReason = limit.IsCancellationRequested ? $"time limit of {seconds:0} s" : s.StopReason,
+            StopReason = limit.Spent ? limit.Describe(seconds, o.EffectiveThreads) : s.StopReason,
             Seconds = sw.Elapsed.TotalSeconds,
         };
     }
@@ -218,7 +217,7 @@ public static class SpreadingCheck
         double theta = DiagnosisThresholds.FrontFraction * 0.75;
         var dist = model.Lattice.DistancesFrom(run.ProbeSite);
         int rmax = dist.Max();
-        double eps = OperatorAlgebra.EnergyScale(model.Hamiltonian);
+        double eps = OperatorAlgebra.MotionScale(model.Hamiltonian);
         var t = run.Times;
         var arrival = Enumerable.Repeat(double.NaN, rmax + 1).ToArray();
         int reached = 0;
@@ -251,9 +250,14 @@ public static class SpreadingCheck
             Kind = kind,
             TimeReached = t[^1],
             TimeInLocalUnits = tUnits,
+            Discarded = run.Discarded[^1],
         };
         if (rmax < 3) return F("not applicable");
-        if (reached <= DiagnosisThresholds.StalledFrontDistance) return F("none");
+        if (reached <= DiagnosisThresholds.StalledFrontDistance && run.Discarded[^1] <= DiagnosisThresholds.FrontMaxDiscarded) return F("none");
+        // A front that has not crossed and made no progress during the second half of the run has stopped,
+        // unless truncation removed much weight: a top-M budget also stops fronts (a budget effect).
+        bool stalled = reached < rmax - 1 && arrival[reached] < 0.5 * t[^1];
+        if (stalled && run.Discarded[^1] > DiagnosisThresholds.FrontMaxDiscarded) return F("undetermined");
         var rs = new List<double>();
         var ts = new List<double>();
         // Skip distance 1 (the onset) when enough later arrivals exist, as the v_B fit of conventions.md does.
@@ -264,13 +268,11 @@ public static class SpreadingCheck
             rs.Add(r);
             ts.Add(arrival[r]);
         }
-        if (rs.Count < 3) return F("undetermined");
+        if (rs.Count < 3) return F(stalled ? "stalled" : "undetermined");
         var lin = LineFit.Of(ts, rs);
         var lg = LineFit.Of(ts.Select(x => Math.Log(x)).ToArray(), rs);
         bool significant = lin.Slope > DiagnosisThresholds.VelocitySigmas * lin.SlopeError;
         bool crossed = reached >= rmax - 1;
-        // A front that has not crossed and made no progress during the second half of the run has stopped.
-        bool stalled = !crossed && arrival[reached] < 0.5 * t[^1];
         if (stalled) return F("stalled", lin, lg);
         if (significant && (crossed || lin.Rss <= lg.Rss)) return F("ballistic", lin, lg);
         if (!crossed && lg.Rss < lin.Rss) return F("logarithmic", lin, lg);
@@ -358,13 +360,13 @@ public static class SpreadingCheck
         var inv = System.Globalization.CultureInfo.InvariantCulture;
         if (f is null || f.Kind == "not applicable")
         {
-            return TestVerdict.NotRun(4, FrontName, $"no front to follow: on a {model.Lattice.Kind} lattice every site is within distance {(f?.MaxDistance ?? model.Lattice.Diameter)} of the probe") with
+            return TestVerdict.NotRun(4, FrontName, $"no front to follow: with {model.Lattice.Kind} couplings every site is within distance {(f?.MaxDistance ?? model.Lattice.Diameter)} of the probe") with
             {
                 Figure = "not applicable",
             };
         }
         string v = f.Linear is { } l && double.IsFinite(l.Slope) ? string.Create(inv, $"v_B = {l.Slope:0.###} +- {l.SlopeError:0.###} sites per unit time") : "no v_B";
-        string figure = string.Create(inv, $"front reached distance {f.Reached} of {f.MaxDistance} by t = {f.TimeReached:0.#} ({f.TimeInLocalUnits:0} / epsilon); {v}{(f.Logarithmic is { } g && double.IsFinite(g.Slope) ? $"; log fit r = {g.Intercept:0.##} + {g.Slope:0.##} ln t (rss {g.Rss:G2} vs linear {f.Linear!.Rss:G2})" : string.Empty)}");
+        string figure = string.Create(inv, $"front reached distance {f.Reached} of {f.MaxDistance} by t = {f.TimeReached:0.#} ({f.TimeInLocalUnits:0} / motion scale); {v}{(f.Logarithmic is { } g && double.IsFinite(g.Slope) ? $"; log fit r = {g.Intercept:0.##} + {g.Slope:0.##} ln t (rss {g.Rss:G2} vs linear {f.Linear!.Rss:G2})" : string.Empty)}");
         string threshold = string.Create(inv,
             $"front at rho_j >= {f.Threshold:0.###} ({DiagnosisThresholds.FrontFraction} x 3/4); ballistic when v_B > {DiagnosisThresholds.VelocitySigmas:0} standard errors and r = v t + c fits at least as well as r = a + b ln t (or the front crossed the system); stalled when it has not crossed and did not advance in the second half of the run; no front when it never passes distance {DiagnosisThresholds.StalledFrontDistance}");
         const string source = "conventions.md (front and v_B fit); v_B = 0 for the disordered XX chain (check-values.md); thresholds: common practice";
@@ -386,7 +388,9 @@ public static class SpreadingCheck
             "logarithmic" => V(TestOutcome.Fails, "the front creeps like a + b ln t: a logarithmic light cone, the mark of many-body localization", Mechanism.Localized),
             "none" => V(TestOutcome.Fails, string.Create(inv, $"the front never passes distance {f.Reached} in {f.TimeInLocalUnits:0} local time units: v_B = 0, the operator is localized"), Mechanism.Localized, Mechanism.Frozen),
             "stalled" => V(TestOutcome.Fails, string.Create(inv, $"the front stops at distance {f.Reached} of {f.MaxDistance}: it made no progress in the second half of the run (t = {f.ArrivalTimes[f.Reached]:0.#} to {f.TimeReached:0.#}), so v_B = 0 at long times: localization"), Mechanism.Localized),
-            _ => V(TestOutcome.Inconclusive, "the front neither moves at a clear constant speed nor follows a logarithm over the run"),
+            _ => V(TestOutcome.Inconclusive, f.Reached < f.MaxDistance - 1 && f.Discarded > DiagnosisThresholds.FrontMaxDiscarded
+                ? string.Create(inv, $"the front stops at distance {f.Reached}, but truncation discarded {f.Discarded:0.##} of the weight there: a string-budget effect cannot be told from localization (raise --effort)")
+                : "the front neither moves at a clear constant speed nor follows a logarithm over the run"),
         };
     }
 

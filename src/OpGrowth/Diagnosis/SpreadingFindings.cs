@@ -119,7 +119,10 @@ public sealed record FrontFigures
     /// <summary>Final time of the run.</summary>
     public required double TimeReached { get; init; }
 
-    /// <summary>Time of the run in units of 1/epsilon.</summary>
+    /// <summary>Weight discarded by truncation over the run.</summary>
+    public double Discarded { get; init; }
+
+    /// <summary>Time of the run in units of 1/(motion scale) (see <see cref="OperatorAlgebra.MotionScale"/>).</summary>
     public required double TimeInLocalUnits { get; init; }
 }
 

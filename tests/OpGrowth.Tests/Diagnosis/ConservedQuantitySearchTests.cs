@@ -1,4 +1,5 @@
 using OpGrowth.Diagnosis;
+using OpGrowth.Models;
 using OpGrowth.Pauli;
 
 namespace OpGrowth.Tests.Diagnosis;
@@ -86,5 +87,50 @@ public class ConservedQuantitySearchTests
     {
         // 3 C(n,1) + 9 C(n,2) + 27 C(n,3) for n = 6: 18 + 135 + 540.
         Assert.Equal(18 + 135 + 540, ConservedQuantitySearch.EnumerateStrings(6, 3).Count);
+    }
+
+    [Fact]
+    public void Run_XxzChain_ExplainsEverythingUpToWeightTwo()
+    {
+        // Up to weight 2 the open XXZ chain conserves H, total Z and the weight-2 part of (total Z)^2
+        // (a function of total Z); nothing else (its next local charge has weight 3).
+        var h = Chain(8, false, (_, _) => [("XX", 1.0), ("YY", 1.0), ("ZZ", 0.5)], _ => []);
+        var r = ConservedQuantitySearch.Run(h, new ConservedSearchOptions(MaxWeight: 2));
+        Assert.Equal(["H", "total Z", "total Z^2"], r.Recognised);
+        Assert.Equal(0, r.Unexplained);
+    }
+
+    [Fact]
+    public void Run_RandomHeisenbergCluster_FindsTotalSpinAndItsProducts()
+    {
+        // SU(2): total X, Y, Z are conserved, and so are the weight-2 parts of their six products.
+        var h = Families.HeisenbergAllToAll(6, seed: 4);
+        var r = ConservedQuantitySearch.Run(h, new ConservedSearchOptions(MaxWeight: 2));
+        Assert.Contains("H", r.Recognised);
+        Assert.Contains("total X", r.Recognised);
+        Assert.Contains("total Y", r.Recognised);
+        Assert.Contains("total Z", r.Recognised);
+        Assert.Equal(0, r.Unexplained);
+    }
+
+    public static IEnumerable<object[]> HamiltonianModels()
+        => ShippedModels.Files.Select(ShippedModels.NameOf).Where(n => !n.Contains("kicked", StringComparison.Ordinal)).Select(n => new object[] { n });
+
+    [Theory]
+    [MemberData(nameof(HamiltonianModels))]
+    public void Run_EveryShippedHamiltonianModel_FindsH(string name)
+    {
+        // Every H commutes with itself; the search space must hold H, so k is raised to H's locality
+        // (the SYK model's four-Majorana terms are Pauli strings of weight up to N: there the cluster is cut
+        // to N = 4, 255 strings, to keep the dense Gram matrix small).
+        string path = ShippedModels.Resolve(name);
+        var loaded = ModelLoader.Load(path);
+        var member = FamilyMembers.FromFile(path, null, loaded);
+        var small = member(6, 0) ?? loaded;
+        if (small.Hamiltonian.Locality > 3) small = member(4, 0) ?? small;
+        int k = Math.Max(2, small.Hamiltonian.Locality);
+        var r = ConservedQuantitySearch.Run(small.Hamiltonian, new ConservedSearchOptions(MaxWeight: k));
+        Assert.True(r.ContainsHamiltonian, $"{name} at N = {small.N}: H not found ({string.Join(", ", r.Recognised)})");
+        Assert.Equal("H", r.Recognised[0]);
     }
 }

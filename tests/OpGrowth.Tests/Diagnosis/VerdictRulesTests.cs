@@ -1,0 +1,116 @@
+using OpGrowth.Diagnosis;
+
+namespace OpGrowth.Tests.Diagnosis;
+
+/// <summary>The overall verdict from synthetic test verdicts: each rule of <see cref="VerdictRules"/> in turn.</summary>
+public class VerdictRulesTests
+{
+    private static TestVerdict T(int n, TestOutcome o, params Mechanism[] ev) => new()
+    {
+        Number = n,
+        Name = $"test {n}",
+        Outcome = o,
+        Figure = "-",
+        Threshold = "-",
+        Source = "-",
+        Reason = "-",
+        Evidence = ev,
+    };
+
+    private static readonly Mechanism[] Poisson = [Mechanism.InteractingIntegrable, Mechanism.FreeFermions, Mechanism.Localized, Mechanism.Frozen];
+
+    private static SpreadingFindings Front(string kind) => new([], [], new FrontFigures
+    {
+        Probe = "Z_0",
+        Threshold = 0.19,
+        MaxDistance = 11,
+        Reached = 3,
+        ArrivalTimes = [],
+        Kind = kind,
+        TimeReached = 10,
+        TimeInLocalUnits = 10,
+    });
+
+    private static TestVerdict[] Chaotic() =>
+    [
+        T(1, TestOutcome.Scrambles, Mechanism.Scrambles),
+        T(2, TestOutcome.Scrambles, Mechanism.Scrambles),
+        T(3, TestOutcome.Scrambles, Mechanism.Scrambles),
+        T(4, TestOutcome.Scrambles, Mechanism.Scrambles),
+        T(5, TestOutcome.Scrambles, Mechanism.Scrambles),
+        T(6, TestOutcome.Inconclusive),
+    ];
+
+    [Fact]
+    public void Decide_AllChaotic_Scrambles()
+    {
+        var v = VerdictRules.Decide(Chaotic(), Front("ballistic"));
+        Assert.Equal(TestOutcome.Scrambles, v.Outcome);
+        Assert.Equal(Mechanism.Scrambles, v.Leading);
+    }
+
+    [Fact]
+    public void Decide_StalledFrontWithPlateau_IsLocalized()
+    {
+        var t = Chaotic();
+        t[2] = T(3, TestOutcome.Fails, Mechanism.Frozen, Mechanism.Localized);
+        t[3] = T(4, TestOutcome.Fails, Mechanism.Localized);
+        t[1] = T(2, TestOutcome.Fails, Mechanism.FreeFermions, Mechanism.Localized);
+        var v = VerdictRules.Decide(t, Front("stalled"));
+        Assert.Equal(Mechanism.Localized, v.Leading);
+        Assert.Equal(TestOutcome.Fails, v.Outcome);
+    }
+
+    [Fact]
+    public void Decide_PlateauWithoutFront_IsFrozen()
+    {
+        var t = Chaotic();
+        t[2] = T(3, TestOutcome.Fails, Mechanism.Frozen, Mechanism.Localized);
+        t[3] = TestVerdict.NotRun(4, "front", "all-to-all");
+        Assert.Equal(Mechanism.Frozen, VerdictRules.Decide(t, Front("not applicable")).Leading);
+    }
+
+    [Fact]
+    public void Decide_BoundedLanczos_IsFreeFermions()
+    {
+        var t = Chaotic();
+        t[0] = T(1, TestOutcome.Fails, Poisson);
+        t[1] = T(2, TestOutcome.Fails, Mechanism.FreeFermions, Mechanism.Localized);
+        Assert.Equal(Mechanism.FreeFermions, VerdictRules.Decide(t, Front("ballistic")).Leading);
+    }
+
+    [Fact]
+    public void Decide_PoissonWithBallisticFront_IsInteractingIntegrable()
+    {
+        var t = Chaotic();
+        t[0] = T(1, TestOutcome.Fails, Poisson);
+        t[1] = T(2, TestOutcome.Inconclusive);
+        Assert.Equal(Mechanism.InteractingIntegrable, VerdictRules.Decide(t, Front("ballistic")).Leading);
+    }
+
+    [Fact]
+    public void Decide_SqrtAgainstWignerDyson_StillScramblesWithCaveat()
+    {
+        var t = Chaotic();
+        t[1] = T(2, TestOutcome.Fails, Mechanism.InteractingIntegrable);
+        var v = VerdictRules.Decide(t, Front("ballistic"));
+        Assert.Equal(TestOutcome.Scrambles, v.Outcome);
+        Assert.Contains("sqrt(n)", v.Reason);
+    }
+
+    [Fact]
+    public void Decide_LargeMazurBoundWithChaoticSpectrum_IsConservationLaws()
+    {
+        var t = Chaotic();
+        t[4] = T(5, TestOutcome.Fails, Mechanism.ConservationLaws);
+        Assert.Equal(Mechanism.ConservationLaws, VerdictRules.Decide(t, Front("ballistic")).Leading);
+    }
+
+    [Fact]
+    public void Decide_NothingDecisive_IsInconclusive()
+    {
+        var t = Chaotic().Select(x => x with { Outcome = TestOutcome.Inconclusive, Evidence = [] }).ToArray();
+        var v = VerdictRules.Decide(t, Front("undetermined"));
+        Assert.Equal(TestOutcome.Inconclusive, v.Outcome);
+    }
+}
