@@ -33,6 +33,16 @@ public static class LevelStatistics
     public static (double[] Ratios, int Degeneracies) GapRatios(ReadOnlySpan<double> sortedLevels, double centralFraction = 1.0)
     {
         if (!(centralFraction > 0 && centralFraction <= 1)) throw new ArgumentOutOfRangeException(nameof(centralFraction), centralFraction, "Fraction must lie in (0, 1].");
+        int multiplicity = UniformMultiplicity(sortedLevels);
+        if (multiplicity > 1)
+        {
+            // Every level sits in a multiplet of the same size (Kramers pairs of an anti-unitary
+            // symmetry, e.g. SYK with 2N mod 8 = 4 Majoranas, or a non-abelian symmetry): the statistics
+            // of the distinct levels are the meaningful ones, so keep one level per multiplet.
+            var distinct = new double[sortedLevels.Length / multiplicity];
+            for (int i = 0; i < distinct.Length; i++) distinct[i] = sortedLevels[i * multiplicity];
+            return GapRatios(distinct, centralFraction);
+        }
         int l = sortedLevels.Length;
         int lo = (int)Math.Floor((1 - centralFraction) / 2 * l);
         int hi = l - lo;
@@ -52,6 +62,26 @@ public static class LevelStatistics
             r.Add(Math.Min(s1, s2) / mx);
         }
         return ([.. r], deg);
+    }
+
+    /// <summary>
+    /// The common size m &gt; 1 of exact multiplets when every level of the spectrum belongs to one of
+    /// that size (levels equal to 1e-10 of the spectrum's width), else 1.
+    /// </summary>
+    public static int UniformMultiplicity(ReadOnlySpan<double> sortedLevels)
+    {
+        int l = sortedLevels.Length;
+        if (l < 8) return 1;
+        double tol = 1e-10 * Math.Max(1e-300, sortedLevels[l - 1] - sortedLevels[0]);
+        int m = 1;
+        while (m < l && sortedLevels[m] - sortedLevels[0] <= tol) m++;
+        if (m == 1 || l % m != 0 || l / m < 4) return 1;
+        for (int start = 0; start < l; start += m)
+        {
+            if (sortedLevels[start + m - 1] - sortedLevels[start] > tol) return 1;
+            if (start + m < l && sortedLevels[start + m] - sortedLevels[start + m - 1] <= tol) return 1;
+        }
+        return m;
     }
 
     /// <summary>Mean and standard error of a set of ratios.</summary>

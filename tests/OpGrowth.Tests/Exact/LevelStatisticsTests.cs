@@ -83,6 +83,23 @@ public class LevelStatisticsTests
     }
 
     [Fact]
+    public void GapRatio_UniformPairs_UsesOneLevelPerPair()
+    {
+        // A spectrum in which every level is exactly twofold degenerate (Kramers pairs of an anti-unitary
+        // symmetry, as in SYK with 2N mod 8 = 4 Majoranas: You, Ludwig and Xu, PRB 95, 115150 (2017), from
+        // memory) must give the ratios of the distinct levels, not r = 0. Reference: the same levels undoubled.
+        var rng = new Random(3);
+        var lv = Enumerable.Range(0, 2000).Select(_ => rng.NextDouble()).OrderBy(x => x).ToArray();
+        var doubled = lv.SelectMany(x => new[] { x, x }).ToArray();
+        Assert.Equal(2, LevelStatistics.UniformMultiplicity(doubled));
+        Assert.Equal(1, LevelStatistics.UniformMultiplicity(lv));
+        Assert.Equal(LevelStatistics.GapRatios(lv).Ratios, LevelStatistics.GapRatios(doubled).Ratios);
+        // One unpaired level breaks uniformity: no collapsing then.
+        var broken = doubled.Take(doubled.Length - 1).ToArray();
+        Assert.Equal(1, LevelStatistics.UniformMultiplicity(broken));
+    }
+
+    [Fact]
     public void ManagedEigenvalues_MatchMathNet()
     {
         // Householder + QL against MathNet's symmetric eigendecomposition; tolerance 1e-10 (rounding).
