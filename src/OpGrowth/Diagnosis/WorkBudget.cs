@@ -20,7 +20,8 @@ public sealed class WorkBudget : IDisposable
     private readonly Stopwatch _wall = Stopwatch.StartNew();
     private readonly double _cpuSeconds;
     private readonly double _wallSeconds;
-    private int _reason; // 0 running, 1 processor time, 2 wall clock
+    private readonly double _nominalSeconds;
+    private int _reason; // 0 running, 1 processor time, 2 wall clock, 3 nominal wall time with the processor available
 
     /// <summary>Starts a budget of <paramref name="seconds"/> on <paramref name="threads"/> threads, linked to <paramref name="outer"/>.</summary>
     public WorkBudget(double seconds, int threads, CancellationToken outer)
@@ -28,6 +29,7 @@ public sealed class WorkBudget : IDisposable
         _cts = CancellationTokenSource.CreateLinkedTokenSource(outer);
         _cpuSeconds = seconds * Math.Max(1, threads);
         _wallSeconds = seconds * WallFactor;
+        _nominalSeconds = seconds;
         _startCpu = ProcessorTime();
         _timer = new Timer(_ => Check(), null, TimeSpan.FromMilliseconds(200), TimeSpan.FromMilliseconds(200));
     }
@@ -46,13 +48,18 @@ public sealed class WorkBudget : IDisposable
     {
         1 => FormattableString.Invariant($"work budget of {nominalSeconds:0} s on {Math.Max(1, threads)} threads ({_cpuSeconds:0} processor-seconds) spent"),
         2 => FormattableString.Invariant($"wall-clock backstop of {_wallSeconds:0} s reached (the machine is busy)"),
+        3 => FormattableString.Invariant($"work budget of {nominalSeconds:0} s spent (wall time, with at least one processor available throughout)"),
         _ => string.Empty,
     };
 
     private void Check()
     {
         if (_reason != 0 || _cts.IsCancellationRequested) return;
-        int r = ProcessorSecondsUsed >= _cpuSeconds ? 1 : _wall.Elapsed.TotalSeconds >= _wallSeconds ? 2 : 0;
+        double cpu = ProcessorSecondsUsed, wall = _wall.Elapsed.TotalSeconds;
+        // Rule 3: a stage that cannot use every thread (a mostly serial one) would otherwise run for
+        // threads x seconds of wall time on an idle machine; once the nominal seconds have passed while
+        // the process had at least a processor's worth of time (it was not starved), the budget is spent.
+        int r = cpu >= _cpuSeconds ? 1 : wall >= _wallSeconds ? 2 : wall >= _nominalSeconds && cpu >= 0.9 * wall ? 3 : 0;
         if (r == 0) return;
         if (Interlocked.CompareExchange(ref _reason, r, 0) != 0) return;
         try
