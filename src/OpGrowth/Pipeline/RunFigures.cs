@@ -81,30 +81,5 @@ public static class RunFigures
     }
 
     /// <summary>The t*(N) points of a sweep series with both fitted laws (null with fewer than two sizes that reached t*).</summary>
-    public static ScramblingTimeSeries? TStarSeries(OpGrowth.Sweeps.SeriesFit s)
-    {
-        var data = s.Data.Where(a => a.TStar is not null).ToList();
-        if (data.Count < 2) return null;
-        var series = new ScramblingTimeSeries(
-            data.Select(a => (double)a.N).ToArray(),
-            data.Select(a => a.TStar!.Value).ToArray(),
-            data.Select(a => a.TStarTotalError).ToArray());
-        if (s.Comparison is { } c)
-        {
-            series = series with
-            {
-                Logarithmic = new ScalingFit(ScalingForm.Logarithmic, c.Log.A, c.Log.AError, c.Log.Slope, c.Log.SlopeError)
-                {
-                    ReducedChiSquare = double.IsFinite(c.Log.ReducedChiSquared) ? c.Log.ReducedChiSquared : null,
-                },
-                Ballistic = c.Linear.V is double v
-                    ? new ScalingFit(ScalingForm.Ballistic, c.Linear.A, c.Linear.AError, v, c.Linear.VError ?? double.NaN)
-                    {
-                        ReducedChiSquare = double.IsFinite(c.Linear.ReducedChiSquared) ? c.Linear.ReducedChiSquared : null,
-                    }
-                    : null,
-            };
-        }
-        return series;
-    }
+    public static ScramblingTimeSeries? TStarSeries(OpGrowth.Sweeps.SeriesFit s) => OpGrowth.Sweeps.SweepFigures.TStarSeries(s);
 }

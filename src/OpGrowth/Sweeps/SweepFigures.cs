@@ -21,28 +21,8 @@ public static class SweepFigures
         foreach (var s in collection.Series)
         {
             k++;
-            var data = s.Data.Where(a => a.TStar is not null).ToList();
-            if (data.Count < 2) continue;
-            var series = new ScramblingTimeSeries(
-                data.Select(a => (double)a.N).ToArray(),
-                data.Select(a => a.TStar!.Value).ToArray(),
-                data.Select(a => a.TStarTotalError).ToArray());
-            if (s.Comparison is { } c)
-            {
-                series = series with
-                {
-                    Logarithmic = new Reporting.ScalingFit(ScalingForm.Logarithmic, c.Log.A, c.Log.AError, c.Log.Slope, c.Log.SlopeError)
-                    {
-                        ReducedChiSquare = double.IsFinite(c.Log.ReducedChiSquared) ? c.Log.ReducedChiSquared : null,
-                    },
-                    Ballistic = c.Linear.V is double v
-                        ? new Reporting.ScalingFit(ScalingForm.Ballistic, c.Linear.A, c.Linear.AError, v, c.Linear.VError ?? double.NaN)
-                        {
-                            ReducedChiSquare = double.IsFinite(c.Linear.ReducedChiSquared) ? c.Linear.ReducedChiSquared : null,
-                        }
-                        : null,
-                };
-            }
+            var series = TStarSeries(s);
+            if (series is null) continue;
             string name = $"tstar-{k.ToString(CultureInfo.InvariantCulture)}-{Slug(s.Model)}";
             string caption = s.Comparison?.Verdict ?? s.Note ?? "t* at each N with its total uncertainty";
             var fig = Charts.ScramblingTime(series, name: name, title: $"t*(N): {s.Label}", caption: caption);
@@ -51,6 +31,35 @@ public static class SweepFigures
             files.Add(svg);
         }
         return files;
+    }
+
+    /// <summary>The t*(N) points of a sweep series with both fitted laws (null with fewer than two sizes that reached t*).</summary>
+    public static ScramblingTimeSeries? TStarSeries(SeriesFit s)
+    {
+        ArgumentNullException.ThrowIfNull(s);
+        var data = s.Data.Where(a => a.TStar is not null).ToList();
+        if (data.Count < 2) return null;
+        var series = new ScramblingTimeSeries(
+            data.Select(a => (double)a.N).ToArray(),
+            data.Select(a => a.TStar!.Value).ToArray(),
+            data.Select(a => a.TStarTotalError).ToArray());
+        if (s.Comparison is { } c)
+        {
+            series = series with
+            {
+                Logarithmic = new Reporting.ScalingFit(ScalingForm.Logarithmic, c.Log.A, c.Log.AError, c.Log.Slope, c.Log.SlopeError)
+                {
+                    ReducedChiSquare = double.IsFinite(c.Log.ReducedChiSquared) ? c.Log.ReducedChiSquared : null,
+                },
+                Ballistic = c.Linear.V is double v
+                    ? new Reporting.ScalingFit(ScalingForm.Ballistic, c.Linear.A, c.Linear.AError, v, c.Linear.VError ?? double.NaN)
+                    {
+                        ReducedChiSquare = double.IsFinite(c.Linear.ReducedChiSquared) ? c.Linear.ReducedChiSquared : null,
+                    }
+                    : null,
+            };
+        }
+        return series;
     }
 
     private static string Slug(string s)
