@@ -188,6 +188,15 @@ public static class ExactOtoc
         var g = new[] { new Complex[dim], new Complex[dim] };
         var wq = new[] { new Complex[dim], new Complex[dim] };
         var tmp = new Complex[dim];
+        // One time point for both branches e: carry u_e = U(t) q psi_e forward from t0, then
+        // g_e = q U(t)^dagger W U(t) q psi_e (q = e^{-beta H/4}; nothing at beta = 0).
+        void Advance(double t, double t0) => RunBranches((e, b) =>
+        {
+            if (t > t0) b.Evolve(u[e], t - t0);
+            StateVector.ApplyPauli(w, u[e], g[e]);
+            if (t > 0) b.Evolve(g[e], -t);
+            b.Q(g[e]);
+        });
         bool sizeProbe = o.EstimateMeanSize && !(sites.Length == n);
         int blocks = sites.Length + o.Probes.Count + (sizeProbe ? 1 : 0);
         int done = 0;
@@ -226,15 +235,8 @@ public static class ExactOtoc
                 for (int k = 0; k < times.Length; k++)
                 {
                     ct.ThrowIfCancellationRequested();
-                    double t = times[k], t0 = tPrev;
-                    RunBranches((e, b) =>
-                    {
-                        if (t > t0) b.Evolve(u[e], t - t0);      // U(t) q psi_e, carried forward
-                        StateVector.ApplyPauli(w, u[e], g[e]);
-                        if (t > 0) b.Evolve(g[e], -t);          // U(t)^dagger W U(t) q psi_e
-                        b.Q(g[e]);                               // g_e = q W(t) q psi_e
-                    });
-                    tPrev = t;
+                    Advance(times[k], tPrev);
+                    tPrev = times[k];
                     var gram = SiteGram(g[0], g[1], n, j, threads);
                     for (int a = 0; a < 3; a++)
                     {
@@ -288,15 +290,8 @@ public static class ExactOtoc
                 for (int k = 0; k < times.Length; k++)
                 {
                     ct.ThrowIfCancellationRequested();
-                    double t = times[k], t0 = tPrev;
-                    RunBranches((e, b) =>
-                    {
-                        if (t > t0) b.Evolve(u[e], t - t0);
-                        StateVector.ApplyPauli(w, u[e], g[e]);
-                        if (t > 0) b.Evolve(g[e], -t);
-                        b.Q(g[e]);
-                    });
-                    tPrev = t;
+                    Advance(times[k], tPrev);
+                    tPrev = times[k];
                     // F = <h|V|g> / zc with g = g[0], h = g[1]
                     Complex num = StateVector.PauliMatrixElement(g[1], v, g[0]);
                     acc.Probe[p][s].Add(num.Real / zc);
@@ -335,14 +330,8 @@ public static class ExactOtoc
                 for (int k = 0; k < times.Length; k++)
                 {
                     ct.ThrowIfCancellationRequested();
-                    double t = times[k], t0 = tPrev;
-                    RunBranches((e, b) =>
-                    {
-                        if (t > t0) b.Evolve(u[e], t - t0);
-                        StateVector.ApplyPauli(w, u[e], g[e]);
-                        if (t > 0) b.Evolve(g[e], -t);
-                    });
-                    tPrev = t;
+                    Advance(times[k], tPrev);
+                    tPrev = times[k];
                     Complex sum = 0;
                     for (int q = 0; q < 3 * n; q++) sum += xi[q] * StateVector.PauliMatrixElement(g[0], paulis[q], g[1]);
                     acc.Size[s].Add(0.75 * n - 0.25 * sum.Real);
