@@ -179,21 +179,24 @@ public static partial class ScramblingRun
         return result;
     }
 
+    /// <summary>The evolution problem of a model's Hamiltonian (or drive) for one probe.</summary>
+    private static EvolutionProblem ProblemOf(Model model, PauliString probe) => new()
+    {
+        N = model.N,
+        Name = model.Name,
+        Hamiltonian = model.Drive is null ? model.Hamiltonian : null,
+        Drive = DriveOf(model),
+        Initial = EvolutionProblem.Probe(probe),
+        CountMajoranas = model.SizeMeasure == SizeMeasure.Majoranas,
+    };
+
     /// <summary>The evolution problem and options the pipeline uses for a model (also for tests and reruns).</summary>
     public static (EvolutionProblem Problem, EvolutionOptions Options) EvolutionInputs(Model model, PauliString probe, ScramblingRunOptions options, EffortPreset preset)
     {
         double time = options.Time ?? preset.Time;
         double stepTime = model.Drive?.Period ?? preset.Dt;
         long steps = (long)Math.Ceiling(time / stepTime - 1e-9);
-        var problem = new EvolutionProblem
-        {
-            N = model.N,
-            Name = model.Name,
-            Hamiltonian = model.Drive is null ? model.Hamiltonian : null,
-            Drive = DriveOf(model),
-            Initial = EvolutionProblem.Probe(probe),
-            CountMajoranas = model.SizeMeasure == SizeMeasure.Majoranas,
-        };
+        var problem = ProblemOf(model, probe);
         var evo = new EvolutionOptions
         {
             Method = IntegrationMethod.Trotter2,
@@ -256,15 +259,7 @@ public static partial class ScramblingRun
         var probe = small.Probes[0];
         double dt = small.Drive?.Period ?? 0.1;
         long steps = Math.Max(1, (long)Math.Ceiling(time / dt - 1e-9));
-        var problem = new EvolutionProblem
-        {
-            N = small.N,
-            Name = small.Name,
-            Hamiltonian = small.Drive is null ? small.Hamiltonian : null,
-            Drive = DriveOf(small),
-            Initial = EvolutionProblem.Probe(probe),
-            CountMajoranas = small.SizeMeasure == SizeMeasure.Majoranas,
-        };
+        var problem = ProblemOf(small, probe);
         // Taylor: exact to rounding at any dt; no truncation: the Pauli engine is then exact as well.
         var evoOptions = new EvolutionOptions
         {
