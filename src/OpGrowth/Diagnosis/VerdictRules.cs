@@ -14,14 +14,19 @@ namespace OpGrowth.Diagnosis;
 ///    every symmetry resolved, or extra local conserved operators;
 /// 6. conservation laws (any remaining case where they were flagged);
 /// 7. scrambles: no test fails (a sqrt(n) Lanczos reading against Wigner-Dyson levels is only noted) and at
-///    least two of level statistics, Lanczos growth and operator size say so.
+///    least two of level statistics, Lanczos growth and operator size say so; for a periodic drive, where
+///    the Lanczos test (and level statistics, when not measured) do not apply, a ballistic front counts as
+///    one of the two.
 /// Otherwise the verdict is inconclusive. OTOC decay is never used on its own: test 6 enters only through
 /// freezing (rule 2) or as support.
 /// </summary>
 public static class VerdictRules
 {
     /// <summary>Applies the rules.</summary>
-    public static OverallVerdict Decide(IReadOnlyList<TestVerdict> tests, SpreadingFindings? spreading = null)
+    /// <param name="tests">The test verdicts.</param>
+    /// <param name="spreading">Findings of tests 3-4 (front kind).</param>
+    /// <param name="driven">True for a periodic drive (no Hamiltonian: the Lanczos test does not apply).</param>
+    public static OverallVerdict Decide(IReadOnlyList<TestVerdict> tests, SpreadingFindings? spreading = null, bool driven = false)
     {
         ArgumentNullException.ThrowIfNull(tests);
         TestVerdict? T(int n) => tests.FirstOrDefault(t => t.Number == n);
@@ -99,6 +104,12 @@ public static class VerdictRules
         }
         var core = new[] { 1, 2, 3 };
         int votes = core.Count(n => Is(n, TestOutcome.Scrambles));
+        // A periodic drive has no Hamiltonian for the Lanczos test (2) and, without quasienergy statistics,
+        // none for test 1 either: then the two spreading tests are all the infinite-temperature evidence
+        // there is, and a size that reaches the random-operator value together with a ballistic front counts
+        // as the second vote.
+        bool driveWithoutSpectrum = driven && !Is(1, TestOutcome.Fails) && !Is(2, TestOutcome.Scrambles);
+        if (driveWithoutSpectrum && ballistic && Is(4, TestOutcome.Scrambles)) votes++;
         // A sqrt(n) reading of test 2 against Wigner-Dyson levels is noted, not counted as a failure.
         bool Overruled(TestVerdict t) => t.Number == 2 && sqrt && chaoticSpectrum;
         bool anyFail = tests.Any(t => t.Outcome == TestOutcome.Fails && !Overruled(t));
@@ -111,6 +122,7 @@ public static class VerdictRules
             if (Is(1, TestOutcome.Scrambles)) agree.Add("chaotic level statistics");
             if (Is(2, TestOutcome.Scrambles)) agree.Add("linear Lanczos growth");
             if (Is(3, TestOutcome.Scrambles)) agree.Add("operator growth to the random-operator size");
+            if (driveWithoutSpectrum && ballistic) agree.Add("a ballistic front (a periodic drive: the Hamiltonian-based tests do not apply)");
             return new OverallVerdict(TestOutcome.Scrambles, Mechanism.Scrambles,
                 string.Join(", ", agree) + " agree" + caveat, sup, others);
         }

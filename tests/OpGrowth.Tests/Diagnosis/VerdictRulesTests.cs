@@ -50,6 +50,30 @@ public class VerdictRulesTests
     }
 
     [Fact]
+    public void Decide_DriveWithSizeAndBallisticFront_Scrambles()
+    {
+        // A periodic drive: tests 1, 2, 5 and 6 do not apply (no Hamiltonian); size and front both scramble.
+        TestVerdict[] t =
+        [
+            TestVerdict.NotRun(1, "level statistics", "a driven model has no energy levels"),
+            TestVerdict.NotRun(2, "Lanczos growth", "a driven model has no Liouvillian"),
+            T(3, TestOutcome.Scrambles, Mechanism.Scrambles),
+            T(4, TestOutcome.Scrambles, Mechanism.Scrambles),
+            TestVerdict.NotRun(5, "conserved quantities", "a driven model has no H"),
+            TestVerdict.NotRun(6, "finite temperature", "a driven model has no temperature"),
+        ];
+        var v = VerdictRules.Decide(t, Front("ballistic"), driven: true);
+        Assert.Equal(TestOutcome.Scrambles, v.Outcome);
+        Assert.Contains("periodic drive", v.Reason, StringComparison.Ordinal);
+        // The same two votes for a Hamiltonian model are not enough.
+        Assert.Equal(TestOutcome.Inconclusive, VerdictRules.Decide(t, Front("ballistic")).Outcome);
+        // Nor for a drive whose front stops.
+        var stalled = t.ToArray();
+        stalled[3] = T(4, TestOutcome.Fails, Mechanism.Localized);
+        Assert.NotEqual(TestOutcome.Scrambles, VerdictRules.Decide(stalled, Front("stalled"), driven: true).Outcome);
+    }
+
+    [Fact]
     public void Decide_StalledFrontWithPlateau_IsLocalized()
     {
         var t = Chaotic();
