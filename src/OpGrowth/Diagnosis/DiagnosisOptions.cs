@@ -70,6 +70,12 @@ public sealed record DiagnosisOptions
     /// <summary>Random states per finite-temperature estimate (typicality).</summary>
     public int ThermalSamples { get; init; } = 6;
 
+    /// <summary>
+    /// Estimated-cost limit of test 6 in seconds (all temperatures): when the typicality estimate exceeds
+    /// it, fewer random states are used (at least 2), and the report says so.
+    /// </summary>
+    public double ThermalSeconds { get; init; } = 180;
+
     /// <summary>Tests to skip (numbers 1..6).</summary>
     public IReadOnlySet<int> Skip { get; init; } = new HashSet<int>();
 
@@ -110,6 +116,7 @@ public sealed record DiagnosisOptions
             EvolutionTime = EvolutionTime * root,
             EvolutionSeconds = EvolutionSeconds * effort,
             ThermalSamples = Math.Max(1, (int)Math.Round(ThermalSamples * effort)),
+            ThermalSeconds = ThermalSeconds * effort,
         };
     }
 

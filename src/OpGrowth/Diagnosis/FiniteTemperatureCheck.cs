@@ -38,10 +38,26 @@ public static class FiniteTemperatureCheck
         double tMax = options.ThermalTime / eps;
         var times = Enumerable.Range(0, options.ThermalTimePoints).Select(i => tMax * i / (options.ThermalTimePoints - 1)).ToArray();
         var points = new List<ThermalPoint>();
+        // Keep the test within its budget: the typicality cost is proportional to the number of random states.
+        int samples = Math.Max(1, options.ThermalSamples);
+        string? reduced = null;
+        if (small.N > 8)
+        {
+            double perState = ExactCost.TypicalitySeconds(small.Hamiltonian, ExactCost.HalfWidth(small.Hamiltonian, options.EffectiveThreads), times, 1) * options.BetaEpsilon.Count;
+            int fit = (int)Math.Floor(options.ThermalSeconds / Math.Max(perState, 1e-9));
+            if (fit < samples && samples > 2)
+            {
+                int k = Math.Max(2, fit);
+                reduced = FormattableString.Invariant($"{k} random states instead of {samples}: the estimated cost of {samples} was {perState * samples:0} s against the {options.ThermalSeconds:0} s budget (raise --effort for more)");
+                log?.LogInformation("finite temperature: {Reason}", reduced);
+                samples = k;
+            }
+        }
+        var run = options with { ThermalSamples = samples };
         foreach (double be in options.BetaEpsilon.Order())
         {
             ct.ThrowIfCancellationRequested();
-            points.Add(Measure(small, w, partner, be, eps, times, options, withOtoc: true, ct));
+            points.Add(Measure(small, w, partner, be, eps, times, run, withOtoc: true, ct));
             var p = points[^1];
             log?.LogInformation("finite temperature: beta epsilon = {BE}: lambda/(2 pi T) = {Ratio} (R^2 {R2:F3}, {Pts} points), autocorrelation plateau {P:F3} +- {E:F3}",
                 be, double.IsNaN(p.BoundRatio) ? "-" : p.BoundRatio.ToString("F3", System.Globalization.CultureInfo.InvariantCulture), p.Growth.RSquared, p.Growth.Points, p.Plateau, p.PlateauError);
@@ -54,7 +70,7 @@ public static class FiniteTemperatureCheck
             if (m.N > PauliMask.MaxQubits || m.N == small.N) continue;
             double e2 = OperatorAlgebra.EnergyScale(m.Hamiltonian);
             var t2 = Enumerable.Range(0, options.ThermalTimePoints).Select(i => options.ThermalTime / e2 * i / (options.ThermalTimePoints - 1)).ToArray();
-            var p = Measure(m, m.Probes[0], PartnerSite(m, m.Probes[0]), lowest, e2, t2, options, withOtoc: false, ct);
+            var p = Measure(m, m.Probes[0], PartnerSite(m, m.Probes[0]), lowest, e2, t2, run, withOtoc: false, ct);
             bySize.Add(new PlateauAtSize(m.N, lowest, p.Plateau, p.PlateauError));
             log?.LogInformation("finite temperature: N = {N}, beta epsilon = {BE}: plateau {P:F3} +- {E:F3}", m.N, lowest, p.Plateau, p.PlateauError);
         }
@@ -65,7 +81,7 @@ public static class FiniteTemperatureCheck
             PartnerSite = partner,
             Epsilon = eps,
             TimeMax = tMax,
-            Method = $"typicality, {options.ThermalSamples} random states",
+            Method = reduced is null ? $"typicality, {samples} random states" : $"typicality, {reduced}",
             Points = points,
             PlateauBySize = bySize.OrderBy(b => b.N).ToArray(),
         };

@@ -23,13 +23,15 @@ public static class LanczosGrowthCheck
     /// <summary>Largest relative uncertainty of a b_n used in the fit (common practice).</summary>
     public const double MaxRelativeUncertainty = 0.1;
 
-    /// <summary>The probes used: the model's first probe and, when it sits on one site, X and Z on that site.</summary>
+    /// <summary>The probes used: the model's first probe and, when it sits on one site, X and Z on that site (not when H has SU(2) symmetry, which makes them equivalent).</summary>
     public static IReadOnlyList<PauliString> ProbesOf(Model model)
     {
         ArgumentNullException.ThrowIfNull(model);
         var first = model.Probes[0];
         var list = new List<PauliString> { first };
-        if (first.Weight == 1 && model.SizeMeasure == SizeMeasure.Qubits)
+        // With SU(2) spin-rotation symmetry a global rotation maps X_j onto Z_j (and leaves H alone), so the
+        // other letters on the probe's site give the same size, autocorrelation and Lanczos coefficients.
+        if (first.Weight == 1 && model.SizeMeasure == SizeMeasure.Qubits && !OperatorAlgebra.HasSpinRotationSymmetry(model.Hamiltonian))
         {
             int s = first.Support()[0];
             foreach (char a in "XZ")

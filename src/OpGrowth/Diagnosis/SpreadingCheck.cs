@@ -39,23 +39,35 @@ public static class SpreadingCheck
         var sw = Stopwatch.StartNew();
         var log = options.Logger;
         var sizes = new List<SizeFigures>();
+        var main = model.Probes[0];
+        ProbeEvolution? exactMain = null;
         if (small is not null && small.N <= Exact.PauliMask.MaxQubits)
         {
             foreach (var p in LanczosGrowthCheck.ProbesOf(small))
             {
                 ct.ThrowIfCancellationRequested();
-                var f = ExactSize(small, p, mazurSmall(p.ToString()), options, ct);
+                var (f, exactRun) = ExactRun(small, p, mazurSmall(p.ToString()), options, ct);
+                if (small.N == model.N && p.Equals(main)) exactMain = exactRun;
                 sizes.Add(f);
                 log?.LogInformation("operator size: {Probe} at N = {N} (exact): size {S:0.00} = {F:0.00} x 3N/4, autocorrelation {A:0.000} (Mazur {M:0.000})",
                     f.Probe, f.N, f.LateSize, f.Fraction, f.LateAutocorrelation, f.Mazur);
             }
         }
-        var main = model.Probes[0];
-        var run = Evolve(model, main, options.EvolutionMaxStrings, options.EvolutionSeconds, options, ct);
-        log?.LogInformation("operator size: {Probe} at N = {N} evolved to t = {T:0.##} ({Recs} records, peak {Peak} strings, discarded {D:G3}, {S:F1} s{Stop})",
-            run.Probe, model.N, run.Times[^1], run.Times.Length, run.PeakStrings, run.Discarded[^1], run.Seconds, run.Completed ? string.Empty : $", stopped: {run.StopReason}");
-        var full = SizeOf(model, run, mazurFull(run.Probe));
-        sizes.Add(full);
+        ProbeEvolution run;
+        if (exactMain is not null)
+        {
+            // The model is as small as the exact member: its exact evolution already is the full-size one,
+            // and a truncated Pauli run could only be worse.
+            run = exactMain;
+            log?.LogInformation("operator size: {Probe} at N = {N}: the exact evolution is the full-size one (no truncated run needed)", run.Probe, model.N);
+        }
+        else
+        {
+            run = Evolve(model, main, options.EvolutionMaxStrings, options.EvolutionSeconds, options, ct);
+            log?.LogInformation("operator size: {Probe} at N = {N} evolved to t = {T:0.##} ({Recs} records, peak {Peak} strings, discarded {D:G3}, {S:F1} s{Stop})",
+                run.Probe, model.N, run.Times[^1], run.Times.Length, run.PeakStrings, run.Discarded[^1], run.Seconds, run.Completed ? string.Empty : $", stopped: {run.StopReason}");
+            sizes.Add(SizeOf(model, run, mazurFull(run.Probe)));
+        }
         var front = FrontOf(model, run, options);
         var findings = new SpreadingFindings([run], sizes, front);
         var sizeVerdict = JudgeSize(sizes) with { Seconds = sw.Elapsed.TotalSeconds };
@@ -68,6 +80,9 @@ public static class SpreadingCheck
     /// typicality: n(t) = (3/4) sum_x (1 - Fbar_x(t)) (the OTOC-size identity of conventions.md).
     /// </summary>
     public static SizeFigures ExactSize(Model model, PauliString probe, double mazur, DiagnosisOptions o, CancellationToken ct)
+        => ExactRun(model, probe, mazur, o, ct).Size;
+
+    private static (SizeFigures Size, ProbeEvolution Run) ExactRun(Model model, PauliString probe, double mazur, DiagnosisOptions o, CancellationToken ct)
     {
         ArgumentNullException.ThrowIfNull(model);
         ArgumentNullException.ThrowIfNull(probe);
@@ -103,20 +118,16 @@ public static class SpreadingCheck
         };
         // Qubit size from the exact engine also for Majorana models: a random operator has 3N/4 in either reading.
         var f = SizeOf(model, run, mazur, qubitSize: true);
-        return f with { Engine = $"exact ({res.Method}), N = {model.N}", SizeTrusted = true };
+        return (f with { Engine = $"exact ({res.Method}), N = {model.N}", SizeTrusted = true }, run);
     }
 
     /// <summary>
     /// Dense traces or typicality for the exact size of an N-qubit Hamiltonian, whichever is estimated to
-    /// be cheaper. Dense: about 16 d^3 complex multiply-adds per time point (two products of d x d
-    /// matrices, d = 2^N), independent of t and of the number of terms; allowed up to
-    /// <see cref="Exact.DenseSpectrum.DefaultMaxQubits"/> qubits. Typicality: every site block carries two
-    /// branches forward and back to each time, about 2 N sum_k (w t_k + 10) Chebyshev steps of one
-    /// application of H each (w = half the spectral width), each costing one update per term and amplitude
-    /// (terms sharing an X mask are fused, but each still costs its own phase). Per-unit costs measured on
-    /// the 2-core test machine (AMD EPYC): 0.2 ns per dense multiply-add, 1.3 ns per term-amplitude update (mixed-field Ising chain, N = 10, 25 points to t = 18: dense 87 s,
-    /// typicality 2.5 s). The SYK model's thousands of terms and long times make typicality the slow
-    /// route there (557 s against about 90 s dense at N = 10).
+    /// be cheaper (<see cref="ExactCost"/>): dense traces cost the same at every time and for any number of
+    /// terms, and are allowed up to <see cref="Exact.DenseSpectrum.DefaultMaxQubits"/> qubits; typicality
+    /// costs one block per site, growing with the number of terms and the time. The SYK model's thousands
+    /// of terms and long times make typicality the slow route there (557 s measured against about 90 s
+    /// dense at N = 10).
     /// </summary>
     public static Exact.OtocMethod ChooseSizeMethod(Hamiltonian h, IReadOnlyList<double> times, DiagnosisOptions o)
     {
@@ -126,12 +137,8 @@ public static class SpreadingCheck
         int n = h.N;
         if (n <= 8) return Exact.OtocMethod.Dense;
         if (n > Exact.DenseSpectrum.DefaultMaxQubits) return Exact.OtocMethod.Typicality;
-        var applier = new Exact.PauliHamiltonianApplier(h, o.EffectiveThreads);
-        double w = Exact.SpectralBounds.Estimate(applier).HalfWidth;
-        double steps = 2.0 * n * times.Sum(t => w * Math.Abs(t) + 10);
-        double typicalitySeconds = steps * h.Terms.Count * Math.Pow(2, n) * 1.3e-9;
-        double d = Math.Pow(2, n);
-        double denseSeconds = (16.0 * times.Count + 10) * d * d * d * 0.2e-9;
+        double typicalitySeconds = ExactCost.TypicalitySeconds(h, ExactCost.HalfWidth(h, o.EffectiveThreads), times, n);
+        double denseSeconds = ExactCost.DenseSeconds(n, times.Count);
         var method = typicalitySeconds <= denseSeconds ? Exact.OtocMethod.Typicality : Exact.OtocMethod.Dense;
         o.Logger?.LogInformation("operator size at N = {N}: estimated {Typ:F0} s by typicality, {Dense:F0} s by dense traces; using {Method}", n, typicalitySeconds, denseSeconds, method);
         return method;
