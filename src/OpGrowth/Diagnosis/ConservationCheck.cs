@@ -141,8 +141,8 @@ public static class ConservationCheck
                 $"{f.Unexplained} local conserved operator(s) of weight <= {f.MaxWeight} beyond H and the totals: extensive conservation laws, the mark of integrability"),
                 Mechanism.FreeFermions, Mechanism.InteractingIntegrable);
         }
-        string what = f.Recognised.Count > 0 ? string.Join(" and ", f.Recognised) : "nothing";
+        string what = f.Recognised.Count > 0 ? $"only {string.Join(" and ", f.Recognised)}" : "nothing (H itself has larger weight)";
         return V(TestOutcome.Scrambles, FormattableString.Invariant(
-            $"only {what} conserved up to weight {f.MaxWeight}, and the Mazur bound ({(top?.Bound ?? 0):0.####}) leaves the probe free to decay"), Mechanism.Scrambles);
+            $"{what} conserved up to weight {f.MaxWeight}, and the Mazur bound ({(top?.Bound ?? 0):0.####}) leaves the probe free to decay"), Mechanism.Scrambles);
     }
 }

@@ -134,7 +134,7 @@ public static class DiagnosisBattery
         tests.Sort((a, b) => a.Number.CompareTo(b.Number));
         var overall = VerdictRules.Decide(tests, spreading, model.IsDriven);
         if (model.IsDisordered) caveats.Add("random couplings: one disorder realisation per size, and the smaller members draw their own couplings");
-        caveats.Add($"tests 1, 5 and 6 and the operator-size saturation of test 3 use smaller members of the family (N = {options.LevelN}, {options.ClusterN}, {options.ThermalN}, {options.SizeN}); finite-size effects are strong there");
+        caveats.Add($"tests 1, 5 and 6 and the operator-size saturation of test 3 use smaller members of the family (N = {Math.Min(model.N, options.LevelN)}, {Math.Min(model.N, options.ClusterN)}, {Math.Min(model.N, options.ThermalN)}, {Math.Min(model.N, options.SizeN)}); finite-size effects are strong there");
         if (spreading is not null && spreading.Runs.Any(r => r.Discarded[^1] > 0)) caveats.Add("tests 3 and 4 keep the top strings of the evolving operator; the discarded weight is reported per probe");
         if (lanczos is not null && lanczos.Probes.Any(p => p.DiscardedWeight > 0)) caveats.Add("test 2 truncated the Krylov vectors; coefficients whose budget spread exceeds 10% were not used");
         if (model.Lattice.Kind == "all-to-all") caveats.Add("all-to-all model: there is no front; fast-scrambling signatures (exponential size growth, t* ~ ln N) need several N to confirm");
@@ -150,7 +150,7 @@ public static class DiagnosisBattery
             Tests = tests,
             Overall = overall,
             Caveats = caveats,
-            Settings = new DiagnosisSettings(options.LevelN, options.ClusterN, options.MaxWeight, options.SizeN, options.ThermalN, options.BetaEpsilon,
+            Settings = new DiagnosisSettings(Math.Min(model.N, options.LevelN), Math.Min(model.N, options.ClusterN), options.MaxWeight, Math.Min(model.N, options.SizeN), Math.Min(model.N, options.ThermalN), options.BetaEpsilon,
                 options.LanczosDepth, options.LanczosMaxStrings, options.EvolutionMaxStrings, options.EvolutionTime, options.EffectiveThreads),
             Seconds = sw.Elapsed.TotalSeconds,
             Levels = levels,
