@@ -64,7 +64,7 @@ public class VerdictRulesTests
         ];
         var v = VerdictRules.Decide(t, Front("ballistic"), driven: true);
         Assert.Equal(TestOutcome.Scrambles, v.Outcome);
-        Assert.Contains("periodic drive", v.Reason, StringComparison.Ordinal);
+        Assert.Contains("ballistic front", v.Reason, StringComparison.Ordinal);
         // The same two votes for a Hamiltonian model are not enough.
         Assert.Equal(TestOutcome.Inconclusive, VerdictRules.Decide(t, Front("ballistic")).Outcome);
         // Nor for a drive whose front stops.
