@@ -74,7 +74,7 @@ public sealed record DiagnosisOptions
     /// Estimated-cost limit of test 6 in seconds (all temperatures): when the typicality estimate exceeds
     /// it, fewer random states are used (at least 2), and the report says so.
     /// </summary>
-    public double ThermalSeconds { get; init; } = 180;
+    public double ThermalSeconds { get; init; } = 240;
 
     /// <summary>Tests to skip (numbers 1..6).</summary>
     public IReadOnlySet<int> Skip { get; init; } = new HashSet<int>();
