@@ -44,7 +44,7 @@ internal static class EvolveCommand
             Description = "Memory budget for the run's arrays, e.g. 8GiB, 512MiB (default: half of the machine). Never exceeded: a run that cannot hold its requested accuracy stops with exit code 3 and keeps its partial results.",
             CustomParser = ParseMemory,
         };
-        var maxSize = new Option<int?>("--max-size") { Description = "Drop strings acting on more than K sites. WARNING: suppresses size growth by construction (mean size, growth rates, saturation, t* biased low, never above K)." };
+        var maxSize = new Option<int?>("--max-size") { Description = "Drop strings acting on more than K sites. WARNING: suppresses size growth by construction (mean size, growth rates and saturation biased low, t* late, size never above K)." };
         var damping = new Option<string?>("--damping") { Description = "DAOE damping GAMMA@LSTAR: multiply c_S by exp(-GAMMA (size - LSTAR)) per unit time for strings longer than LSTAR (Rakovszky, von Keyserlingk, Pollmann 2022). Biases long-string quantities (size, OTOC, front) low." };
         var ladder = new Option<int>("--ladder") { Description = "Convergence ladder: also rerun at half (and a quarter of) the budget and report how far each figure moved (its truncation uncertainty); 1 = off.", DefaultValueFactory = _ => 1 };
         var front = new Option<double>("--front-fraction") { Description = "Front threshold for v_B as a fraction of the scrambled site weight 3/4.", DefaultValueFactory = _ => 0.5 };

@@ -11,7 +11,7 @@ namespace OpGrowth.Evolution;
 /// as the threshold but with an adaptive cut; once the operator has spread, weight is lost every
 /// step and the late-time size distribution is biased towards the strings that carry most weight.</item>
 /// <item><see cref="MaxSize"/> (drop strings larger than K): suppresses size growth by construction;
-/// mean size, t*, the saturation value and growth rates are all biased low and can never exceed K.
+/// mean size, the saturation value and growth rates are all biased low (t* late), and the size can never exceed K.
 /// Use it only to study early times or short strings.</item>
 /// <item><see cref="DampingRate"/> (dissipation-assisted operator evolution: multiply c_S by
 /// exp(-gamma (size(S) - l*)) for size(S) &gt; l* per unit of time): keeps short-string (hydrodynamic)

@@ -304,7 +304,7 @@ public static class RunReport
     {
         var list = new List<string>
         {
-            $"Truncation bias: the evolution keeps the {r.Preset.MaxStrings:N0} strings of largest |c| after every pass. Dropping small coefficients removes weight mostly from large strings, so late-time mean size, saturation and t* are biased low; the discarded weight is recorded and the ladder (half and quarter budgets) shows how much each figure depends on the budget.",
+            $"Truncation bias: the evolution keeps the {r.Preset.MaxStrings:N0} strings of largest |c| after every pass. Dropping small coefficients removes weight mostly from large strings, so late-time mean size, saturation and t* shift with the budget (the direction depends on the model: on the mixed-field Ising chain at N = 20, t* moved later as the budget grew); the discarded weight is recorded and the ladder (half and quarter budgets) shows how much each figure depends on the budget.",
             $"Finite-size and boundary effects: N = {r.Model.N} on a {r.Model.Lattice.Kind}. The front velocity is fitted only before the front reaches the boundary; t* depends on N (a t*(N) sweep separates ballistic from logarithmic scaling); the exact cross-check is at a smaller N and checks the engine, not the large-N physics.",
             "Infinite temperature: every figure is computed with all states equally weighted (the trace inner product). An experiment at finite temperature or in a particular initial state may see slower or different dynamics; these numbers describe, and bound, the high-temperature regime.",
         };
