@@ -1,5 +1,6 @@
 using System.Diagnostics;
 using Microsoft.Extensions.Logging;
+using OpGrowth.Exact;
 using OpGrowth.IO;
 using OpGrowth.Models;
 
@@ -63,8 +64,9 @@ public static class DiagnosisBattery
         {
             log?.LogInformation("test 1/6: level statistics");
             int reals = model.IsDisordered ? Math.Max(1, options.LevelRealizations) : 1;
-            var members = Enumerable.Range(0, reals).Select(r => Small(options.LevelN, r)).Where(m => m is not null).Select(m => m!).ToList();
-            if (members.Count == 0) tests.Add(TestVerdict.NotRun(1, LevelStatisticsCheck.Name, $"no smaller member of N = {options.LevelN} (the model has no size parameter N)"));
+            int levelN = model.IsDriven ? FloquetLevelStatistics.DrivenSize(options.LevelN) : options.LevelN; // drives: general (non-Hermitian) blocks, costlier
+            var members = Enumerable.Range(0, reals).Select(r => Small(levelN, r)).Where(m => m is not null).Select(m => m!).ToList();
+            if (members.Count == 0) tests.Add(TestVerdict.NotRun(1, LevelStatisticsCheck.Name, $"no smaller member of N = {levelN} (the model has no size parameter N)"));
             else
             {
                 var (v, f) = Guard(1, LevelStatisticsCheck.Name, () => LevelStatisticsCheck.Run(members, options, ct));
