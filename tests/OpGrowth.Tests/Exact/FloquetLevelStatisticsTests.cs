@@ -22,11 +22,13 @@ public class FloquetLevelStatisticsTests(ITestOutputHelper output)
         return new FloquetDrive([l0, l1]);
     }
 
-    /// <summary>Commuting single-site Z rotations with random angles in [0, 4 pi): a diagonal U_F.</summary>
-    private static FloquetDrive RandomZ(int n, int seed)
+    /// <summary>Commuting single-site Z rotations (and, with <paramref name="bonds"/>, Z_i Z_i+1 rotations) with random
+    /// angles in [0, 4 pi): a diagonal U_F.</summary>
+    private static FloquetDrive RandomZ(int n, int seed, bool bonds = false)
     {
         var rng = new Random(seed);
         var l0 = Enumerable.Range(0, n).Select(i => new PauliRotation(P($"Z_{i}", n), 4 * Math.PI * rng.NextDouble())).ToList();
+        if (bonds) for (int i = 0; i + 1 < n; i++) l0.Add(new PauliRotation(P($"Z_{i} Z_{i + 1}", n), 4 * Math.PI * rng.NextDouble()));
         return new FloquetDrive([l0]);
     }
 
@@ -150,14 +152,17 @@ public class FloquetLevelStatisticsTests(ITestOutputHelper output)
     }
 
     [Fact]
-    public void Analyze_RandomCommutingZRotationsN10_NearPoisson()
+    public void Analyze_RandomCommutingZAndZZRotationsN10_NearPoisson()
     {
-        // Commuting single-site Z rotations: U_F is diagonal, the quasienergies of a total-Z sector are sums of
-        // independent random angles folded on the circle, an uncorrelated (integrable) spectrum.
+        // Commuting Z and Z_i Z_i+1 rotations with random angles: U_F is diagonal (integrable, every basis state
+        // conserved) and the quasienergies of a total-Z sector are random sums folded on the circle, an
+        // uncorrelated spectrum. Single-site Z rotations alone give an additive spectrum (like free fermions):
+        // measured <r> per drive scattered from 0.32 to 0.46 over six seeds, with sectors m and N-m mirror
+        // images; the random bond angles remove that structure (0.365-0.405 over six seeds).
         // Source: Poisson <r> = 2 ln 2 - 1 (Atas, Bogomolny, Giraud, Roux, PRL 110, 084101 (2013));
         // tolerance 3 error bars (common practice), error bar over 4 random drives.
         const int n = 10;
-        var drives = Enumerable.Range(0, 4).Select(s => RandomZ(n, 100 + s)).ToArray();
+        var drives = Enumerable.Range(0, 4).Select(s => RandomZ(n, 100 + s, bonds: true)).ToArray();
         var res = FloquetLevelStatistics.Analyze(drives, n);
         output.WriteLine($"<r> = {res.MeanRatio:F4} +- {res.StandardError:F4} over {res.Gaps} ratios; resolved {string.Join(", ", res.Resolved)}; {res.Solver}, {res.Seconds:F1} s");
         Assert.Contains("total-z", res.Resolved);
