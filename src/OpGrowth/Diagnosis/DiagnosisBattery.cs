@@ -1,5 +1,6 @@
 using System.Diagnostics;
 using Microsoft.Extensions.Logging;
+using OpGrowth.Exact;
 using OpGrowth.IO;
 using OpGrowth.Models;
 
@@ -39,6 +40,7 @@ public static class DiagnosisBattery
             }
         }
         bool Skip(int k) => options.Skip.Contains(k);
+        int levelN = model.IsDriven ? FloquetLevelStatistics.DrivenSize(options.LevelN) : options.LevelN; // drives: general (non-Hermitian) blocks, costlier
 
         // 5: conserved quantities first (test 3 compares with its Mazur bounds).
         ConservedFindings? conserved = null;
@@ -63,8 +65,8 @@ public static class DiagnosisBattery
         {
             log?.LogInformation("test 1/6: level statistics");
             int reals = model.IsDisordered ? Math.Max(1, options.LevelRealizations) : 1;
-            var members = Enumerable.Range(0, reals).Select(r => Small(options.LevelN, r)).Where(m => m is not null).Select(m => m!).ToList();
-            if (members.Count == 0) tests.Add(TestVerdict.NotRun(1, LevelStatisticsCheck.Name, $"no smaller member of N = {options.LevelN} (the model has no size parameter N)"));
+            var members = Enumerable.Range(0, reals).Select(r => Small(levelN, r)).Where(m => m is not null).Select(m => m!).ToList();
+            if (members.Count == 0) tests.Add(TestVerdict.NotRun(1, LevelStatisticsCheck.Name, $"no smaller member of N = {levelN} (the model has no size parameter N)"));
             else
             {
                 var (v, f) = Guard(1, LevelStatisticsCheck.Name, () => LevelStatisticsCheck.Run(members, options, ct));
@@ -134,7 +136,7 @@ public static class DiagnosisBattery
         tests.Sort((a, b) => a.Number.CompareTo(b.Number));
         var overall = VerdictRules.Decide(tests, spreading, model.IsDriven);
         if (model.IsDisordered) caveats.Add("random couplings: one disorder realisation per size, and the smaller members draw their own couplings");
-        caveats.Add($"tests 1, 5 and 6 and the operator-size saturation of test 3 use smaller members of the family (N = {Math.Min(model.N, options.LevelN)}, {Math.Min(model.N, options.ClusterN)}, {Math.Min(model.N, options.ThermalN)}, {Math.Min(model.N, options.SizeN)}); finite-size effects are strong there");
+        caveats.Add($"tests 1, 5 and 6 and the operator-size saturation of test 3 use smaller members of the family (N = {Math.Min(model.N, levelN)}, {Math.Min(model.N, options.ClusterN)}, {Math.Min(model.N, options.ThermalN)}, {Math.Min(model.N, options.SizeN)}); finite-size effects are strong there");
         if (spreading is not null && spreading.Runs.Any(r => r.Discarded[^1] > 0)) caveats.Add("tests 3 and 4 keep the top strings of the evolving operator; the discarded weight is reported per probe");
         if (lanczos is not null && lanczos.Probes.Any(p => p.DiscardedWeight > 0)) caveats.Add("test 2 truncated the Krylov vectors; coefficients whose budget spread exceeds 10% were not used");
         if (model.Lattice.Kind == "all-to-all") caveats.Add("all-to-all model: there is no front; fast-scrambling signatures (exponential size growth, t* ~ ln N) need several N to confirm");
@@ -150,7 +152,7 @@ public static class DiagnosisBattery
             Tests = tests,
             Overall = overall,
             Caveats = caveats,
-            Settings = new DiagnosisSettings(Math.Min(model.N, options.LevelN), Math.Min(model.N, options.ClusterN), options.MaxWeight, Math.Min(model.N, options.SizeN), Math.Min(model.N, options.ThermalN), options.BetaEpsilon,
+            Settings = new DiagnosisSettings(Math.Min(model.N, levelN), Math.Min(model.N, options.ClusterN), options.MaxWeight, Math.Min(model.N, options.SizeN), Math.Min(model.N, options.ThermalN), options.BetaEpsilon,
                 options.LanczosDepth, options.LanczosMaxStrings, options.EvolutionMaxStrings, options.EvolutionTime, options.EffectiveThreads),
             Seconds = sw.Elapsed.TotalSeconds,
             Levels = levels,

@@ -26,7 +26,7 @@ public static class LevelStatisticsCheck
         ArgumentNullException.ThrowIfNull(options);
         var sw = Stopwatch.StartNew();
         var m = realizations[0];
-        if (m.IsDriven) return (TestVerdict.NotRun(1, Name, "a driven model has no energy levels (quasienergy statistics are not implemented)"), null);
+        if (m.IsDriven) return FloquetLevelCheck.Run(realizations, options, ct);
         ct.ThrowIfCancellationRequested();
         var log = options.Logger;
         var h0 = m.Hamiltonian;
