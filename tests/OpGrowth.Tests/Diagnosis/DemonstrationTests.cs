@@ -46,6 +46,23 @@ public class DemonstrationTests(ITestOutputHelper output)
         return report;
     }
 
+    /// <summary>
+    /// A periodic drive: the self-dual kicked Ising chain with a longitudinal field is a standard chaotic
+    /// Floquet chain (quasienergies with COE statistics: Bertini, Kos, Prosen, PRL 121, 264101 (2018);
+    /// D'Alessio and Rigol, PRX 4, 041048 (2014)). Tests 2, 5 and 6 need a Hamiltonian; test 1 runs on
+    /// the quasienergies, and tests 1, 3 and 4 carry the verdict.
+    /// </summary>
+    [Fact]
+    [Trait("Category", "Slow")]
+    public void Run_KickedIsing_ScramblesFromQuasienergiesSizeAndFront()
+    {
+        var r = Diagnose("kicked-ising", 12);
+        Assert.Equal(TestOutcome.Scrambles, r.Overall.Outcome);
+        var levels = r.Tests.Single(t => t.Number == 1);
+        Assert.Equal(TestOutcome.Scrambles, levels.Outcome);
+        Assert.Contains("COE", levels.Threshold, StringComparison.Ordinal);
+    }
+
     [Fact]
     [Trait("Category", "Slow")]
     public void Run_TransverseFieldIsing_FailsAsFreeFermions()
