@@ -85,6 +85,33 @@ public class CheckTests
         Assert.NotEqual(string.Empty, v.Reason);
     }
 
+    [Fact]
+    public void LevelCheck_SquareIsing3x3_ResolvesThePointGroup()
+    {
+        // The shipped square-lattice model shrunk to 3x3: the check takes the mirrors from the lattice and
+        // resolves mirror x, mirror y (their product is the declared "reflection") and the diagonal, so no
+        // spatial symmetry is left unresolved (a Poisson-like <r> would then be trusted).
+        var model = ModelLoader.Load(ShippedModels.Resolve("square-ising"), new Dictionary<string, string> { ["Lx"] = "3", ["Ly"] = "3" });
+        var (_, f) = LevelStatisticsCheck.Run([model], new DiagnosisOptions { Threads = 2 });
+        Assert.NotNull(f);
+        Assert.Equal(["mirror-x", "mirror-y", "reflection", "diagonal"], f!.Resolved);
+        Assert.Empty(f.Unresolved);
+        Assert.Equal(5, f.Sectors.Count);
+    }
+
+    [Fact]
+    public void SpatialCandidates_LadderAndSquare_AreLatticeMirrors()
+    {
+        // Ladder sites 2x + leg: mirror y swaps the legs; the product of the mirrors is the reversal N-1-j.
+        var (lad, swap) = LevelStatisticsCheck.SpatialCandidates(Lattice.Ladder(3));
+        Assert.Null(swap);
+        Assert.Equal([1, 0, 3, 2, 5, 4], lad.Single(p => p.Name == "mirror-y").Map);
+        Assert.Equal([4, 5, 2, 3, 0, 1], lad.Single(p => p.Name == "mirror-x").Map);
+        var (sq, diag) = LevelStatisticsCheck.SpatialCandidates(Lattice.Square(2, 2));
+        Assert.Equal([0, 2, 1, 3], diag!.Map);
+        Assert.Equal([3, 2, 1, 0], sq.Single(p => p.Name == "reflection").Map);
+    }
+
     // ---------------- test 2: Lanczos growth ----------------
 
     [Fact]
