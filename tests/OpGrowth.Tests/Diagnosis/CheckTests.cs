@@ -203,6 +203,29 @@ public class CheckTests
     }
 
     [Fact]
+    public void JudgeFront_LogarithmicFrontUnderHeavyTruncation_IsInconclusive()
+    {
+        // A logarithmic creep r = 3 ln(1 + t) is localization (Fails) only when truncation kept the weight:
+        // with 0.99 discarded (what the 2D runs showed at 24 sites) a top-M budget can stop a front by
+        // itself, so the verdict is inconclusive and names the discarded weight. Threshold
+        // FrontMaxDiscarded = 0.1 (common practice).
+        int n = 24;
+        var model = Model.Of(Families.MixedFieldIsing(n));
+        var o = new DiagnosisOptions();
+        var kept = SpreadingCheck.FrontOf(model, Synthetic(n, 0, (t, r) => r <= 3 * Math.Log(1 + t) ? 0.75 : 0, 400, discarded: 0.01), o);
+        Assert.Equal("logarithmic", kept.Kind);
+        Assert.Equal(TestOutcome.Fails, SpreadingCheck.JudgeFront(kept, model).Outcome);
+        var cut = SpreadingCheck.FrontOf(model, Synthetic(n, 0, (t, r) => r <= 3 * Math.Log(1 + t) ? 0.75 : 0, 400, discarded: 0.99), o);
+        var v = SpreadingCheck.JudgeFront(cut, model);
+        Assert.Equal(TestOutcome.Inconclusive, v.Outcome);
+        Assert.Contains("0.99", v.Reason, StringComparison.Ordinal);
+        Assert.Contains("discarded", v.Reason, StringComparison.Ordinal);
+        // The pure judge guards every localization reading, also a stalled figure handed to it directly.
+        var stalled = kept with { Kind = "stalled", Discarded = 0.5 };
+        Assert.Equal(TestOutcome.Inconclusive, SpreadingCheck.JudgeFront(stalled, model).Outcome);
+    }
+
+    [Fact]
     public void FrontOf_SyntheticFronts_AreClassified()
     {
         int n = 24;
