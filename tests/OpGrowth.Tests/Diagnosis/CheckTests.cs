@@ -170,6 +170,76 @@ public class CheckTests
         Assert.True(err < 0.05, $"error {err}");
     }
 
+    [Fact]
+    public void PatternOrder_SquareIsing2x3_MatchesDenseThermalCorrelations()
+    {
+        // Staggered order of Z on a 2x3 antiferromagnetic tilted-field Ising patch (J = +1 > 0), against the
+        // dense thermal trace (MathNet eigenvectors): C_ij = Tr(rho Z_i Z_j) - Tr(rho Z_i) Tr(rho Z_j),
+        // order = sum_{i != j} s_i s_j C_ij / (N (N-1)) / (1 - <Z_probe>^2). Typicality with 400 states on
+        // d = 64: statistical error ~ 0.01; tolerance 0.05.
+        const int lx = 2, ly = 3, n = lx * ly;
+        double beta = 1.5;
+        var h = Families.SquareIsing(lx, ly);
+        var lattice = Lattice.Square(lx, ly);
+        var model = Model.Of(h, lattice);
+        var w = model.Probes[0];
+        int p0 = w.Support()[0];
+        var evd = Dense.Of(n, h.Terms).Evd(Symmetricity.Hermitian);
+        var e = evd.EigenValues.Select(z => z.Real).ToArray();
+        double e0 = e.Min();
+        var weights = e.Select(x => Math.Exp(-beta * (x - e0))).ToArray();
+        double zsum = weights.Sum();
+        double Thermal(Matrix<Complex> op)
+        {
+            double acc = 0;
+            for (int k = 0; k < e.Length; k++)
+            {
+                var col = evd.EigenVectors.Column(k);
+                acc += weights[k] * (col.Conjugate() * (op * col)).Real;
+            }
+            return acc / zsum;
+        }
+        var zi = Enumerable.Range(0, n).Select(i => Thermal(Dense.Of(PauliString.Single(n, i, 'Z')))).ToArray();
+        var sign = FiniteTemperatureCheck.TwoColouring(lattice)!;
+        double sum = 0;
+        for (int i = 0; i < n; i++)
+            for (int j = 0; j < n; j++)
+                if (i != j) sum += sign[i] * sign[j] * (Thermal(Dense.Of(PauliString.Parse($"Z_{i} Z_{j}", n))) - zi[i] * zi[j]);
+        double exact = sum / (n * (n - 1)) / (1 - zi[p0] * zi[p0]);
+        var (order, pattern) = FiniteTemperatureCheck.PatternOrder(model, w, beta, samples: 400, seed: 3, threads: 2);
+        Assert.Equal("staggered", pattern);
+        Assert.True(exact > 0.3, $"dense staggered order {exact}");
+        Assert.True(Math.Abs(order - exact) < 0.05, $"typicality {order}, dense {exact}");
+    }
+
+    private static ThermalFindings Thermal(double plateau, double order) => new()
+    {
+        N = 12,
+        Operator = "Z_4",
+        PartnerSite = 5,
+        Epsilon = 1,
+        TimeMax = 10,
+        Method = "test",
+        Points = [new ThermalPoint(2, 2, ExponentialRegime.Fit([], []), double.NaN, 0.1, plateau, 0.02, 0.5) { Order = order, OrderPattern = "staggered" }],
+        PlateauBySize = [new PlateauAtSize(12, 2, plateau, 0.02)],
+    };
+
+    [Fact]
+    public void ThermalJudge_FrozenPlateau_GlassUnlessLatticeOrderExplainsIt()
+    {
+        // A plateau of 0.8 (threshold 0.5, common practice) with no lattice order is glass-like freezing;
+        // matched by staggered order 0.7 (>= 0.5 of the plateau) it is an ordered phase: not a failure.
+        var glass = FiniteTemperatureCheck.Judge(Thermal(0.8, 0.05));
+        Assert.Equal(TestOutcome.Fails, glass.Outcome);
+        Assert.Contains(Mechanism.Frozen, glass.Evidence);
+        var ordered = FiniteTemperatureCheck.Judge(Thermal(0.8, 0.7));
+        Assert.Equal(TestOutcome.Inconclusive, ordered.Outcome);
+        Assert.Contains("order", ordered.Reason, StringComparison.Ordinal);
+        Assert.DoesNotContain(Mechanism.Frozen, ordered.Evidence);
+        // Order not measured (multi-site probe): the old reading stands.
+        Assert.Equal(TestOutcome.Fails, FiniteTemperatureCheck.Judge(Thermal(0.8, double.NaN)).Outcome);
+    }
+
     // ---------------- exponential regime ----------------
 
     [Fact]
