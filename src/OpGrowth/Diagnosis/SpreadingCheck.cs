@@ -392,7 +392,7 @@ public static class SpreadingCheck
                 _ => "does not leave the probe",
             };
             return V(TestOutcome.Inconclusive, string.Create(inv,
-                $"the front {shape} (distance {f.Reached} of {f.MaxDistance}), but truncation discarded {f.Discarded:0.##} of the weight (more than {DiagnosisThresholds.FrontMaxDiscarded}): a string-budget effect cannot be told from localization (raise --effort)"));
+                $"the front {shape} (distance {f.Reached} of {f.MaxDistance}), but truncation discarded {f.Discarded:0.###} of the weight (more than {DiagnosisThresholds.FrontMaxDiscarded}): a string-budget effect cannot be told from localization (raise --effort)"));
         }
         return f.Kind switch
         {
