@@ -52,6 +52,13 @@ public static class DiagnosisThresholds
     /// <summary>A connected single-site autocorrelation whose late-time plateau is at least this (normalised to 1 at t = 0) is frozen (common practice).</summary>
     public const double FrozenPlateau = 0.5;
 
+    /// <summary>
+    /// A frozen plateau counts as long-range order (a symmetry-broken phase), not glass-like freezing, when the
+    /// lattice-pattern order of the probe's letter is at least this fraction of the plateau (common practice:
+    /// order then accounts for most of the memory; a glass freezes in a random pattern with no lattice order).
+    /// </summary>
+    public const double OrderShare = 0.5;
+
     /// <summary>Front threshold on the site weight rho_j, as a fraction of the scrambled value 3/4 (common practice; conventions: a fixed fraction of 3/4).</summary>
     public const double FrontFraction = 0.25;
 

@@ -51,9 +51,12 @@ public static class LevelStatisticsCheck
     {
         var m = realizations[0];
         var hs = realizations.Select(r => r.Hamiltonian).ToArray();
+        var (candidates, swap) = SpatialCandidates(m.Lattice);
         var res = LevelStatistics.Analyze(hs, new LevelStatisticsOptions
         {
             DeclaredSymmetries = m.Symmetries,
+            SpatialCandidates = candidates,
+            SwapCandidate = swap,
             Threads = options.EffectiveThreads,
             Logger = options.Logger,
         });
@@ -133,6 +136,14 @@ public static class LevelStatisticsCheck
         var resolved = new List<string> { "total spin (SU(2) multiplets)", "total-z" };
         if (refl) resolved.Add("reflection");
         var unresolved = m.Symmetries.Where(s => s is not ("time-reversal" or "total-z" or "spin-flip" or "fermion-parity") && !(s == "reflection" && refl)).ToList();
+        // lattice mirrors other than the chain reversal are not resolved on this path
+        var (candidates, swap) = SpatialCandidates(m.Lattice);
+        foreach (var name in LevelStatistics.DetectSymmetries(m.Hamiltonian, candidates, swap))
+        {
+            if (name is "total-z" or "spin-flip" || (name == "reflection" && refl) || unresolved.Contains(name)) continue;
+            unresolved.Add(name);
+            warnings.Add($"H maps onto itself under '{name}', which the total-spin path does not resolve: independent blocks are mixed");
+        }
         return new LevelFindings
         {
             N = m.N,
@@ -149,6 +160,35 @@ public static class LevelStatisticsCheck
             Warnings = warnings,
             Realizations = realizations.Count,
         };
+    }
+
+    /// <summary>
+    /// Spatial symmetries to test: for a square lattice (sites y Lx + x) and a ladder (sites 2x + leg) the
+    /// mirrors x -&gt; Lx-1-x and y -&gt; Ly-1-y and their product (the reversal j -&gt; N-1-j), plus the
+    /// diagonal mirror of a square; otherwise the reversal j -&gt; N-1-j only.
+    /// </summary>
+    internal static (IReadOnlyList<SitePermutation> Mirrors, SitePermutation? Swap) SpatialCandidates(Lattice lattice)
+    {
+        ArgumentNullException.ThrowIfNull(lattice);
+        int n = lattice.N;
+        if (lattice.Kind is "square" or "ladder" && lattice.Width * lattice.Height == n)
+        {
+            int w = lattice.Width, hgt = lattice.Height;
+            var coords = Enumerable.Range(0, n).Select(lattice.Coordinate).ToArray();
+            var site = new Dictionary<(int, int), int>();
+            for (int j = 0; j < n; j++) site[coords[j]] = j;
+            SitePermutation Make(string name, Func<int, int, (int, int)> f)
+                => new(name, Enumerable.Range(0, n).Select(j => site[f(coords[j].X, coords[j].Y)]).ToArray());
+            var list = new List<SitePermutation>
+            {
+                Make("mirror-x", (x, y) => (w - 1 - x, y)),
+                Make("mirror-y", (x, y) => (x, hgt - 1 - y)),
+                SitePermutation.Reversal(n),
+            };
+            SitePermutation? diag = w == hgt && w > 1 ? Make("diagonal", (x, y) => (y, x)) : null;
+            return (list.Where(p => !p.IsIdentity).ToArray(), diag);
+        }
+        return ([SitePermutation.Reversal(n)], null);
     }
 
     /// <summary>The verdict from the measured &lt;r&gt; (pure: no computation).</summary>

@@ -406,7 +406,7 @@ public static class SpreadingCheck
         string v = f.Linear is { } l && double.IsFinite(l.Slope) ? string.Create(inv, $"v_B = {l.Slope:0.###} +- {l.SlopeError:0.###} sites per unit time") : "no v_B";
         string figure = string.Create(inv, $"front reached distance {f.Reached} of {f.MaxDistance} by t = {f.TimeReached:0.#} ({f.TimeInLocalUnits:0} / motion scale); {v}{(f.Logarithmic is { } g && double.IsFinite(g.Slope) ? $"; log fit r = {g.Intercept:0.##} + {g.Slope:0.##} ln t (rss {g.Rss:G2} vs linear {f.Linear!.Rss:G2})" : string.Empty)}");
         string threshold = string.Create(inv,
-            $"front at rho_j >= {f.Threshold:0.###} ({DiagnosisThresholds.FrontFraction} x 3/4); ballistic when v_B > {DiagnosisThresholds.VelocitySigmas:0} standard errors and r = v t + c fits at least as well as r = a + b ln t (or the front crossed the system); stalled when it has not crossed and did not advance in the second half of the run; no front when it never passes distance {DiagnosisThresholds.StalledFrontDistance}");
+            $"front at rho_j >= {f.Threshold:0.###} ({DiagnosisThresholds.FrontFraction} x 3/4); ballistic when v_B > {DiagnosisThresholds.VelocitySigmas:0} standard errors and r = v t + c fits at least as well as r = a + b ln t (or the front crossed the system); stalled when it has not crossed and did not advance in the second half of the run; no front when it never passes distance {DiagnosisThresholds.StalledFrontDistance}; a logarithmic, stalled or absent front counts only with discarded weight <= {DiagnosisThresholds.FrontMaxDiscarded}");
         const string source = "conventions.md (front and v_B fit); v_B = 0 for the disordered XX chain (check-values.md); thresholds: common practice";
         TestVerdict V(TestOutcome o, string reason, params Mechanism[] ev) => new()
         {
@@ -419,6 +419,19 @@ public static class SpreadingCheck
             Reason = reason,
             Evidence = ev,
         };
+        // A top-M string budget also stops fronts: a localization reading (logarithmic, stalled or no front)
+        // counts only when truncation kept the weight, as for the other branches.
+        if (f.Kind is "logarithmic" or "stalled" or "none" && f.Discarded > DiagnosisThresholds.FrontMaxDiscarded)
+        {
+            string shape = f.Kind switch
+            {
+                "logarithmic" => "creeps like a + b ln t",
+                "stalled" => "stops",
+                _ => "does not leave the probe",
+            };
+            return V(TestOutcome.Inconclusive, string.Create(inv,
+                $"the front {shape} (distance {f.Reached} of {f.MaxDistance}), but truncation discarded {f.Discarded:0.###} of the weight (more than {DiagnosisThresholds.FrontMaxDiscarded}): a string-budget effect cannot be told from localization (raise --effort)"));
+        }
         return f.Kind switch
         {
             "ballistic" => V(TestOutcome.Scrambles, string.Create(inv, $"the front moves ballistically ({v}) and crosses {f.Reached} of {f.MaxDistance} sites: no localization"),

@@ -9,7 +9,20 @@ namespace OpGrowth.Diagnosis;
 /// <param name="Plateau">Late-time mean of the connected, normalised autocorrelation (1 at t = 0).</param>
 /// <param name="PlateauError">Its uncertainty (sampling error and spread over the window).</param>
 /// <param name="FinalOtoc">F(t)/F(0) at the last time (how far the OTOC decayed).</param>
-public sealed record ThermalPoint(double Beta, double BetaEpsilon, ExponentialRegime Growth, double BoundRatio, double ThermalValue, double Plateau, double PlateauError, double FinalOtoc);
+public sealed record ThermalPoint(double Beta, double BetaEpsilon, ExponentialRegime Growth, double BoundRatio, double ThermalValue, double Plateau, double PlateauError, double FinalOtoc)
+{
+    /// <summary>
+    /// Long-range order of the probe's letter at this temperature: the largest over lattice patterns s (uniform,
+    /// and the two-sublattice sign on a bipartite lattice) of sum_{i != j} s_i s_j (&lt;W_i W_j&gt; - &lt;W_i&gt;&lt;W_j&gt;)
+    /// / (N (N-1)), divided by the probe's connected variance 1 - &lt;W&gt;^2 so that it compares with
+    /// <see cref="Plateau"/> (an ordered state with order parameter m gives about m^2 / (1 - &lt;W&gt;^2) for both).
+    /// NaN when not measured (multi-site probe).
+    /// </summary>
+    public double Order { get; init; } = double.NaN;
+
+    /// <summary>The pattern of <see cref="Order"/>: "uniform" or "staggered" (null when not measured).</summary>
+    public string? OrderPattern { get; init; }
+}
 
 /// <summary>Low-temperature plateau at one system size (its N dependence).</summary>
 /// <param name="N">System size.</param>

@@ -3,7 +3,8 @@ namespace OpGrowth.Diagnosis;
 /// <summary>
 /// Combines the six test verdicts into the overall verdict. The rules are ordered; the first that applies
 /// names the leading mechanism:
-/// 1. localized: no front (or a logarithmic one) together with a memory plateau, Poisson levels or bounded
+/// 1. localized: no front (or a logarithmic one, in both cases with at most FrontMaxDiscarded weight lost to
+///    truncation) together with a memory plateau, Poisson levels or bounded
 ///    Lanczos coefficients;
 /// 2. frozen (glass-like): an infinite-temperature autocorrelation plateau that conservation laws do not
 ///    explain, without a ballistic front; or low-temperature freezing when the infinite-temperature size
@@ -33,7 +34,8 @@ public static class VerdictRules
         bool Is(int n, TestOutcome o) => T(n)?.Outcome == o;
         bool Has(int n, TestOutcome o, Mechanism m) => T(n) is { } t && t.Outcome == o && t.Evidence.Contains(m);
         string frontKind = spreading?.Front?.Kind ?? "not measured";
-        bool noFront = frontKind is "none" or "logarithmic" or "stalled";
+        // A front stopped under heavy truncation is not evidence of localization (same guard as test 4).
+        bool noFront = frontKind is "none" or "logarithmic" or "stalled" && spreading!.Front!.Discarded <= DiagnosisThresholds.FrontMaxDiscarded;
         bool ballistic = frontKind == "ballistic";
         bool plateau3 = Has(3, TestOutcome.Fails, Mechanism.Frozen);
         bool frozen6 = Has(6, TestOutcome.Fails, Mechanism.Frozen);

@@ -26,7 +26,7 @@ public static class LevelStatistics
     /// <summary>GUE mean gap ratio at large dimension (Atas et al. 2013).</summary>
     public const double GueRatio = 0.5996;
 
-    /// <summary>Names of the symmetries this class can resolve.</summary>
+    /// <summary>Names of the symmetries resolved by default (no spatial candidates given: the chain reflection only).</summary>
     public static readonly IReadOnlyList<string> Supported = ["total-z", "reflection", "spin-flip"];
 
     /// <summary>Gap ratios of sorted levels, keeping the central <paramref name="centralFraction"/> of the levels; exact 0/0 ratios are skipped and counted.</summary>
@@ -134,16 +134,50 @@ public static class LevelStatistics
         return res;
     }
 
-    /// <summary>Supported symmetries that commute with H.</summary>
+    /// <summary>Supported symmetries that commute with H (total Z, the chain reflection, spin flip).</summary>
     public static IReadOnlyList<string> DetectSymmetries(Hamiltonian h)
+        => DetectSymmetries(h, [SitePermutation.Reversal(h.N)], null);
+
+    /// <summary>
+    /// Symmetries that commute with H: "total-z", the names of the candidate site permutations (and of the
+    /// swap) that map H onto itself, and "spin-flip", in that order.
+    /// </summary>
+    public static IReadOnlyList<string> DetectSymmetries(Hamiltonian h, IReadOnlyList<SitePermutation> candidates, SitePermutation? swap)
     {
         ArgumentNullException.ThrowIfNull(h);
+        ArgumentNullException.ThrowIfNull(candidates);
         var found = new List<string>();
         if (CommutesWithTotalZ(h)) found.Add("total-z");
-        if (IsReflectionSymmetric(h)) found.Add("reflection");
+        foreach (var p in candidates) if (p.N == h.N && !p.IsIdentity && p.IsSymmetryOf(h)) found.Add(p.Name);
+        if (swap is not null && swap.N == h.N && !swap.IsIdentity && swap.IsSymmetryOf(h)) found.Add(swap.Name);
         // prod_j X_j commutes with a string iff the string has an even number of Z-type letters (Z or Y).
         if (h.Terms.All(t => (ZCount(t.String) & 1) == 0)) found.Add("spin-flip");
         return found;
+    }
+
+    /// <summary>
+    /// The mirrors to resolve among <paramref name="candidates"/> named in <paramref name="wanted"/>: each is
+    /// taken when it is an involution commuting with those already taken and not their product. Also
+    /// returns the names of every candidate that lies in the group they generate (resolved implicitly).
+    /// </summary>
+    public static (IReadOnlyList<SitePermutation> Mirrors, IReadOnlyList<string> Covered) ChooseMirrors(IReadOnlyList<SitePermutation> candidates, IEnumerable<string> wanted)
+    {
+        ArgumentNullException.ThrowIfNull(candidates);
+        ArgumentNullException.ThrowIfNull(wanted);
+        var want = wanted.ToHashSet();
+        var chosen = new List<SitePermutation>();
+        var group = new List<SitePermutation>();
+        foreach (var p in candidates)
+        {
+            if (!want.Contains(p.Name) || p.IsIdentity || !p.IsInvolution) continue;
+            if (group.Any(g => g.SameMap(p))) continue;
+            if (!chosen.All(q => q.CommutesWith(p))) continue;
+            chosen.Add(p);
+            if (group.Count == 0) group.Add(new SitePermutation("identity", Enumerable.Range(0, p.N).ToArray()));
+            group.AddRange(group.Select(g => p.After(g)).ToArray());
+        }
+        var covered = candidates.Where(p => want.Contains(p.Name) && group.Any(g => g.SameMap(p))).Select(p => p.Name).ToList();
+        return (chosen, covered);
     }
 
     private static int ZCount(PauliString s)
@@ -168,20 +202,6 @@ public static class LevelStatistics
         return acc.Values.All(v => v.Magnitude <= 1e-12 * scale);
     }
 
-    private static bool IsReflectionSymmetric(Hamiltonian h)
-    {
-        var map = h.Terms.ToDictionary(t => t.String, t => t.Coefficient);
-        double scale = h.Terms.Sum(t => Math.Abs(t.Coefficient)) + 1e-300;
-        foreach (var t in h.Terms)
-        {
-            var b = new PauliString.Builder(h.N);
-            for (int j = 0; j < h.N; j++) b.Set(h.N - 1 - j, t.String[j]);
-            var r = b.Build();
-            if (!map.TryGetValue(r, out double c) || Math.Abs(c - t.Coefficient) > 1e-12 * scale) return false;
-        }
-        return true;
-    }
-
     /// <summary>Level statistics of one Hamiltonian.</summary>
     public static LevelStatisticsResult Analyze(Hamiltonian h, LevelStatisticsOptions? options = null)
         => Analyze([h], options);
@@ -201,39 +221,63 @@ public static class LevelStatistics
         int n = h0.N;
         if (n > 24) throw new ArgumentOutOfRangeException(nameof(realizations), n, "Level statistics are limited to N <= 24.");
         var warnings = new List<string>();
-        var detected = DetectSymmetries(h0);
-        var resolve = (o.Resolve ?? detected).Distinct().ToList();
-        foreach (var name in resolve.ToArray())
+        var candidates = (o.SpatialCandidates ?? [SitePermutation.Reversal(n)]).Where(p => p.N == n && !p.IsIdentity).ToList();
+        var swapCandidate = o.SwapCandidate is { } sc && sc.N == n && !sc.IsIdentity ? sc : null;
+        var detected = DetectSymmetries(h0, candidates, swapCandidate);
+        var supported = new List<string> { "total-z" };
+        supported.AddRange(candidates.Select(p => p.Name));
+        if (swapCandidate is not null) supported.Add(swapCandidate.Name);
+        supported.Add("spin-flip");
+        var requested = (o.Resolve ?? detected).Distinct().ToList();
+        foreach (var name in requested.ToArray())
         {
-            if (!Supported.Contains(name))
+            if (!supported.Contains(name))
             {
-                warnings.Add($"symmetry '{name}' cannot be resolved here (supported: {string.Join(", ", Supported)}); <r> may be biased toward Poisson");
-                resolve.Remove(name);
+                warnings.Add($"symmetry '{name}' cannot be resolved here (supported: {string.Join(", ", supported)}); <r> may be biased toward Poisson");
+                requested.Remove(name);
             }
             else if (!detected.Contains(name))
             {
                 warnings.Add($"symmetry '{name}' was requested but H does not commute with it; not used");
-                resolve.Remove(name);
+                requested.Remove(name);
             }
         }
-        foreach (var name in detected.Where(d => !resolve.Contains(d))) warnings.Add($"H commutes with '{name}' but it was not resolved: independent blocks are mixed and <r> is biased toward Poisson");
+        var (mirrors, covered) = ChooseMirrors(candidates, requested);
+        SitePermutation? swap = null;
+        if (swapCandidate is not null && requested.Contains(swapCandidate.Name))
+        {
+            if (mirrors.Count > 0 && SymmetrySector.IsCompatibleSwap(mirrors, swapCandidate)) swap = swapCandidate;
+            else if (mirrors.Count == 0 && swapCandidate.IsInvolution) mirrors = [swapCandidate]; // alone it is a mirror
+        }
+        var resolve = new List<string>();
+        bool tz = requested.Contains("total-z"), flip = requested.Contains("spin-flip");
+        if (tz) resolve.Add("total-z");
+        resolve.AddRange(covered);
+        foreach (var p in mirrors) if (!resolve.Contains(p.Name)) resolve.Add(p.Name);
+        if (swap is not null) resolve.Add(swap.Name);
+        if (flip) resolve.Add("spin-flip");
+        foreach (var name in detected.Where(d => !resolve.Contains(d)))
+        {
+            warnings.Add(requested.Contains(name)
+                ? $"H commutes with '{name}' but it could not be combined with the other resolved symmetries: independent blocks are mixed and <r> is biased toward Poisson"
+                : $"H commutes with '{name}' but it was not resolved: independent blocks are mixed and <r> is biased toward Poisson");
+        }
         foreach (var declared in o.DeclaredSymmetries.Distinct())
         {
             // fermion parity is the spin flip prod_j X_j; time reversal is anti-unitary: it makes the
             // blocks real (GOE class) and has no sectors to resolve.
             string name = declared == "fermion-parity" ? "spin-flip" : declared;
             if (name == "time-reversal") continue;
-            if (Supported.Contains(name))
+            if (supported.Contains(name))
             {
                 if (!detected.Contains(name)) warnings.Add($"declared symmetry '{name}' does not commute with H (check the model)");
             }
             else if (o.Resolve is null || !o.Resolve.Contains(name))
             {
-                warnings.Add($"declared symmetry '{name}' is not resolved (supported: {string.Join(", ", Supported)}); <r> may be biased toward Poisson");
+                warnings.Add($"declared symmetry '{name}' is not resolved (supported: {string.Join(", ", supported)}); <r> may be biased toward Poisson");
             }
         }
-        bool tz = resolve.Contains("total-z"), refl = resolve.Contains("reflection"), flip = resolve.Contains("spin-flip");
-        var sectors = SymmetrySector.Enumerate(n, tz, refl, flip);
+        var sectors = SymmetrySector.Enumerate(n, tz, mirrors, flip, swap);
         bool real = realizations.All(h => h.Terms.All(t => PauliMask.From(t.String).IsReal));
         int threads = o.Threads > 0 ? o.Threads : Environment.ProcessorCount;
         var all = new List<double>();

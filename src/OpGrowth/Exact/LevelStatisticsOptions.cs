@@ -11,6 +11,20 @@ public sealed record LevelStatisticsOptions
     /// <summary>Symmetries to resolve; null = every supported symmetry that H is detected to have.</summary>
     public IReadOnlyList<string>? Resolve { get; init; }
 
+    /// <summary>
+    /// Site permutations (involutions) to test as spatial symmetries of H; each one that maps H onto itself
+    /// is resolved when it commutes with the ones already taken and is not their product. Null: the chain
+    /// reflection j -&gt; N-1-j only. For a rectangle use <see cref="SitePermutation.RectangleMirrors"/>.
+    /// </summary>
+    public IReadOnlyList<SitePermutation>? SpatialCandidates { get; init; }
+
+    /// <summary>
+    /// One more involution to test (e.g. <see cref="SitePermutation.RectangleDiagonal"/>) that need not commute
+    /// with the mirrors but maps them onto each other: it splits the sectors it maps onto themselves and
+    /// pairs the others (see <see cref="SymmetrySector"/>).
+    /// </summary>
+    public SitePermutation? SwapCandidate { get; init; }
+
     /// <summary>Fraction of each sector's levels kept around the middle of its spectrum (common practice: drop the edges, where the density of states is low).</summary>
     public double CentralFraction { get; init; } = 0.8;
 

@@ -19,8 +19,9 @@ public class VerdictRulesTests
 
     private static readonly Mechanism[] Poisson = [Mechanism.InteractingIntegrable, Mechanism.FreeFermions, Mechanism.Localized, Mechanism.Frozen];
 
-    private static SpreadingFindings Front(string kind) => new([], [], new FrontFigures
+    private static SpreadingFindings Front(string kind, double discarded = 0) => new([], [], new FrontFigures
     {
+        Discarded = discarded,
         Probe = "Z_0",
         Threshold = 0.19,
         MaxDistance = 11,
@@ -83,6 +84,23 @@ public class VerdictRulesTests
         var v = VerdictRules.Decide(t, Front("stalled"));
         Assert.Equal(Mechanism.Localized, v.Leading);
         Assert.Equal(TestOutcome.Fails, v.Outcome);
+    }
+
+    [Fact]
+    public void Decide_LogarithmicFrontUnderHeavyTruncation_IsNotLocalized()
+    {
+        // A logarithmic front with 0.99 of the weight discarded (FrontMaxDiscarded = 0.1, common practice) is a
+        // string-budget effect: with Poisson levels the rule falls through to "interacting integrable" instead
+        // of localization, and localization is not listed among the other mechanisms.
+        var t = Chaotic();
+        t[0] = T(1, TestOutcome.Fails, Poisson);
+        t[3] = T(4, TestOutcome.Inconclusive);
+        var cut = VerdictRules.Decide(t, Front("logarithmic", discarded: 0.99));
+        Assert.NotEqual(Mechanism.Localized, cut.Leading);
+        Assert.DoesNotContain(Mechanism.Localized, cut.Others);
+        // The same front with the weight kept still reads as localization.
+        t[3] = T(4, TestOutcome.Fails, Mechanism.Localized);
+        Assert.Equal(Mechanism.Localized, VerdictRules.Decide(t, Front("logarithmic", discarded: 0.01)).Leading);
     }
 
     [Fact]
