@@ -34,7 +34,7 @@ internal static class ExactCommand
         var tol = new Option<string>("--tolerance") { Description = "Error tolerance of each propagation.", DefaultValueFactory = _ => "1e-8" };
         var threads = new Option<string>("--threads") { Description = "Worker threads (0 = all cores).", DefaultValueFactory = _ => "0" };
         var fit = new Option<string>("--fit-range") { Description = "Growth-fit window on C = 1 - F/F(0): LOW:HIGH.", DefaultValueFactory = _ => "1e-3:0.3" };
-        var resolve = new Option<string?>("--resolve") { Description = "levels: symmetries to resolve (comma list of total-z, reflection, spin-flip; \"none\"); default: every one H has." };
+        var resolve = new Option<string?>("--resolve") { Description = "levels: symmetries to resolve (comma list of total-z, reflection, spin-flip; \"none\"); default: every one H has, with the lattice mirrors (and a square's diagonal) among the spatial ones." };
         var realizations = new Option<string>("--realizations") { Description = "levels: disorder realisations (the model's 'seed' parameter is stepped).", DefaultValueFactory = _ => "1" };
         var fraction = new Option<string>("--central-fraction") { Description = "levels: fraction of each sector's levels kept around the middle.", DefaultValueFactory = _ => "0.8" };
         var meanSize = new Option<bool>("--mean-size") { Description = "otoc: also estimate the mean size for all sites with one random-sign probe (cheap at large N; used when not every site is resolved)." };
@@ -207,10 +207,14 @@ internal static class ExactCommand
             "none" => [],
             _ => s.Resolve.Split(',', StringSplitOptions.RemoveEmptyEntries | StringSplitOptions.TrimEntries),
         };
+        // By default the lattice's mirrors (and a square's diagonal) are tested as well, as in the diagnosis battery.
+        var (mirrors, swap) = resolve is null ? OpGrowth.Diagnosis.LevelStatisticsCheck.SpatialCandidates(model.Lattice) : (null, null);
         var r = LevelStatistics.Analyze(hs, new LevelStatisticsOptions
         {
             DeclaredSymmetries = model.Symmetries,
             Resolve = resolve,
+            SpatialCandidates = mirrors,
+            SwapCandidate = swap,
             CentralFraction = ParseDouble(s.Fraction, "--central-fraction", 1e-3, 1),
             Threads = threads,
             Logger = log,

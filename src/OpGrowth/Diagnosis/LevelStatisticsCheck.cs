@@ -167,7 +167,7 @@ public static class LevelStatisticsCheck
     /// mirrors x -&gt; Lx-1-x and y -&gt; Ly-1-y and their product (the reversal j -&gt; N-1-j), plus the
     /// diagonal mirror of a square; otherwise the reversal j -&gt; N-1-j only.
     /// </summary>
-    internal static (IReadOnlyList<SitePermutation> Mirrors, SitePermutation? Swap) SpatialCandidates(Lattice lattice)
+    public static (IReadOnlyList<SitePermutation> Mirrors, SitePermutation? Swap) SpatialCandidates(Lattice lattice)
     {
         ArgumentNullException.ThrowIfNull(lattice);
         int n = lattice.N;
