@@ -125,14 +125,7 @@ public static class LevelStatisticsCheck
             all.AddRange(mine);
             perReal.Add(LevelStatistics.Mean(mine).Mean);
         }
-        var (mAll, seAll) = LevelStatistics.Mean(all);
-        double err = seAll;
-        string kind = "standard error over gap ratios (neighbouring ratios weakly correlated: common practice)";
-        if (realizations.Count >= 3)
-        {
-            err = LevelStatistics.Mean(perReal).StandardError;
-            kind = $"standard error over {realizations.Count} realisations";
-        }
+        var (mAll, err, kind) = LevelStatistics.Pooled(all, perReal);
         var resolved = new List<string> { "total spin (SU(2) multiplets)", "total-z" };
         if (refl) resolved.Add("reflection");
         var unresolved = m.Symmetries.Where(s => s is not ("time-reversal" or "total-z" or "spin-flip" or "fermion-parity") && !(s == "reflection" && refl)).ToList();

@@ -541,14 +541,6 @@ public static class FloquetLevelStatistics
         return ([.. r], deg);
     }
 
-    private static (double Mean, double StandardError) MeanOf(IReadOnlyList<double> r)
-    {
-        if (r.Count == 0) return (double.NaN, double.NaN);
-        double m = r.Average();
-        double se = r.Count > 1 ? Math.Sqrt(r.Sum(x => (x - m) * (x - m)) / (r.Count - 1) / r.Count) : double.NaN;
-        return (m, se);
-    }
-
     /// <summary>
     /// Quasienergy gap-ratio statistics of one or more drives on <paramref name="n"/> qubits (disorder
     /// realisations: the symmetries and the ensemble are taken from the first).
@@ -595,23 +587,16 @@ public static class FloquetLevelStatistics
                 mine.AddRange(r);
                 if (ri == 0)
                 {
-                    var (mean, se) = MeanOf(r);
+                    var (mean, se) = LevelStatistics.Mean(r);
                     stats.Add(new SectorStatistics(sector.Label, d, r.Length, mean, se, deg));
                 }
-                log?.LogInformation("quasienergy statistics: drive {R}, sector {Label}: D = {D}, <r> = {Mean:F4} ({S:F1} s, {Solver})", ri + 1, sector.Label, d, MeanOf(r).Mean, sw.Elapsed.TotalSeconds - t0, solver);
+                log?.LogInformation("quasienergy statistics: drive {R}, sector {Label}: D = {D}, <r> = {Mean:F4} ({S:F1} s, {Solver})", ri + 1, sector.Label, d, LevelStatistics.Mean(r).Mean, sw.Elapsed.TotalSeconds - t0, solver);
             }
             all.AddRange(mine);
-            perReal.Add(MeanOf(mine).Mean);
+            perReal.Add(LevelStatistics.Mean(mine).Mean);
         }
         if (maxLeak > 1e-10) warnings.Add(FormattableString.Invariant($"a sector basis vector lost {maxLeak:E1} of its weight over one period: the resolved symmetry does not hold exactly"));
-        var (mAll, seAll) = MeanOf(all);
-        double err = seAll;
-        string kind = "standard error over gap ratios (neighbouring ratios weakly correlated: common practice)";
-        if (realizations.Count >= 3)
-        {
-            err = MeanOf(perReal).StandardError;
-            kind = $"standard error over {realizations.Count} realisations";
-        }
+        var (mAll, err, kind) = LevelStatistics.Pooled(all, perReal);
         return new FloquetLevelResult
         {
             N = n,

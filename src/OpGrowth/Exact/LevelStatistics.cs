@@ -94,6 +94,21 @@ public static class LevelStatistics
         return (m, se);
     }
 
+    /// <summary>
+    /// Mean gap ratio pooled over every ratio, and its error bar: with three or more realisations the
+    /// standard error over realisation means (gaps within one spectrum are correlated), otherwise the
+    /// standard error over the ratios.
+    /// </summary>
+    public static (double Mean, double Error, string Kind) Pooled(IReadOnlyList<double> all, IReadOnlyList<double> perRealization)
+    {
+        ArgumentNullException.ThrowIfNull(all);
+        ArgumentNullException.ThrowIfNull(perRealization);
+        var (mean, seGaps) = Mean(all);
+        return perRealization.Count >= 3
+            ? (mean, Mean(perRealization).StandardError, $"standard error over {perRealization.Count} realisations")
+            : (mean, seGaps, "standard error over gap ratios (neighbouring ratios weakly correlated: common practice)");
+    }
+
     /// <summary>Eigenvalues (ascending) of a real symmetric matrix, row-major (overwritten); LAPACK when present.</summary>
     public static double[] SymmetricEigenvalues(double[] a, int n, int threads = 0, bool useNative = true)
     {
@@ -315,20 +330,7 @@ public static class LevelStatistics
         }
         if (sectors.Any(s => s.Dimension < o.MinimumSectorDimension)) warnings.Add($"sectors smaller than {o.MinimumSectorDimension} were skipped");
         if (all.Count > 0 && degTotal > 0.01 * all.Count) warnings.Add($"{degTotal} exactly degenerate level pairs: a symmetry is probably unresolved");
-        var (mean, seGaps) = Mean(all);
-        double se;
-        string kind;
-        if (realizations.Count >= 3)
-        {
-            var (_, seR) = Mean(perReal);
-            se = seR;
-            kind = $"standard error over {realizations.Count} realisations";
-        }
-        else
-        {
-            se = seGaps;
-            kind = "standard error over gap ratios (neighbouring ratios weakly correlated: common practice)";
-        }
+        var (mean, se, kind) = Pooled(all, perReal);
         if (all.Count == 0) warnings.Add("no sector was large enough for statistics");
         string closest = new[] { ("Poisson", PoissonRatio), ("GOE", GoeRatio), ("GUE", GueRatio) }.OrderBy(x => Math.Abs(x.Item2 - mean)).First().Item1;
         return new LevelStatisticsResult
