@@ -4,7 +4,7 @@ using System.Runtime.InteropServices;
 namespace OpGrowth.Exact;
 
 /// <summary>
-/// Optional LAPACK eigensolvers (dsyevd / zheevd) through the system's LAPACKE C interface
+/// Optional LAPACK eigensolvers (dsyevd / zheevd, and zgeev for general complex matrices) through the system's LAPACKE C interface
 /// (liblapacke.so.3, e.g. Debian's liblapacke with OpenBLAS). When the library is missing or fails to
 /// load, every method returns false and callers use the managed solvers; nothing else changes.
 /// Set OPGROWTH_NO_LAPACK=1 to force the managed path.
@@ -33,6 +33,22 @@ public static class NativeLapack
 
     [DllImport(Lib, EntryPoint = "LAPACKE_dsyevd")]
     private static extern int Dsyevd(int layout, byte jobz, byte uplo, int n, [In, Out] double[] a, int lda, [Out] double[] w);
+
+    private static readonly Lazy<bool> ProbeGeneral = new(() =>
+    {
+        if (!IsAvailable) return false;
+        try
+        {
+            return NativeLibrary.TryLoad(Lib, out var handle) && NativeLibrary.TryGetExport(handle, "LAPACKE_zgeev", out _);
+        }
+        catch (Exception ex) when (ex is DllNotFoundException or BadImageFormatException or EntryPointNotFoundException)
+        {
+            return false;
+        }
+    });
+
+    [DllImport(Lib, EntryPoint = "LAPACKE_zgeev")]
+    private static extern int Zgeev(int layout, byte jobvl, byte jobvr, int n, [In, Out] Complex[] a, int lda, [Out] Complex[] w, [Out] Complex[] vl, int ldvl, [Out] Complex[] vr, int ldvr);
 
     [DllImport(Lib, EntryPoint = "LAPACKE_zheevd")]
     private static extern int Zheevd(int layout, byte jobz, byte uplo, int n, [In, Out] Complex[] a, int lda, [Out] double[] w);
@@ -71,6 +87,30 @@ public static class NativeLapack
         {
             int info = Zheevd(ColMajor, vectors ? (byte)'V' : (byte)'N', (byte)'L', n, a, n, w);
             if (info != 0) return false;
+        }
+        catch (Exception ex) when (ex is DllNotFoundException or EntryPointNotFoundException)
+        {
+            return false;
+        }
+        eigenvalues = w;
+        return true;
+    }
+
+    /// <summary>
+    /// Eigenvalues of a general complex n x n matrix (column-major; the input is left untouched).
+    /// Returns false when LAPACK (with zgeev) is unavailable or fails.
+    /// </summary>
+    public static bool TryGeneralEigenvalues(Complex[] a, int n, out Complex[] eigenvalues)
+    {
+        ArgumentNullException.ThrowIfNull(a);
+        eigenvalues = [];
+        if (!ProbeGeneral.Value) return false;
+        var copy = (Complex[])a.Clone();
+        var w = new Complex[n];
+        var none = new Complex[1];
+        try
+        {
+            if (Zgeev(ColMajor, (byte)'N', (byte)'N', n, copy, n, w, none, 1, none, 1) != 0) return false;
         }
         catch (Exception ex) when (ex is DllNotFoundException or EntryPointNotFoundException)
         {

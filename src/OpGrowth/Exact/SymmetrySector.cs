@@ -295,6 +295,32 @@ public sealed class SymmetrySector
         return s;
     }
 
+    /// <summary>
+    /// The sector's basis written out in the computational basis: for every basis index t, the row of the
+    /// symmetrised state |a~&gt; that contains it (-1: none) and its amplitude there, chi(g) / sqrt(|orbit of a|)
+    /// with t = g a. Used to apply operators that are not Pauli sums (e.g. a one-period unitary) to the basis.
+    /// </summary>
+    public (int[] RowOf, double[] Amplitude) Expansion()
+    {
+        int dim = 1 << _n, full = dim - 1;
+        var rowOf = new int[dim];
+        var amp = new double[dim];
+        Array.Fill(rowOf, -1);
+        for (int row = 0; row < _reps.Length; row++)
+        {
+            int a = _reps[row];
+            double norm = Math.Sqrt((double)_stab[row] / _elements.Length);
+            for (int e = 0; e < _elements.Length; e++)
+            {
+                int t = Apply(_elements[e], a, full);
+                if (rowOf[t] >= 0) continue; // reached again through the stabiliser: same character
+                rowOf[t] = row;
+                amp[t] = _chi[e] * norm;
+            }
+        }
+        return (rowOf, amp);
+    }
+
     /// <summary>The block of H in this sector (row-major), complex; see <see cref="RealBlock"/> for real H.</summary>
     public Complex[] ComplexBlock(Hamiltonian h)
     {
