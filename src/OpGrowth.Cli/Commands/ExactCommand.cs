@@ -207,14 +207,13 @@ internal static class ExactCommand
             "none" => [],
             _ => s.Resolve.Split(',', StringSplitOptions.RemoveEmptyEntries | StringSplitOptions.TrimEntries),
         };
-        // By default the lattice's mirrors (and a square's diagonal) are tested as well, as in the diagnosis battery.
-        var (mirrors, swap) = resolve is null ? OpGrowth.Diagnosis.LevelStatisticsCheck.SpatialCandidates(model.Lattice) : (null, null);
+        if (resolve is null) return RunFoundLevels(model, path, hs, s, outDir, threads, log);
         var r = LevelStatistics.Analyze(hs, new LevelStatisticsOptions
         {
             DeclaredSymmetries = model.Symmetries,
             Resolve = resolve,
-            SpatialCandidates = mirrors,
-            SwapCandidate = swap,
+            SpatialCandidates = model.Lattice.Kind is "square" ? SitePermutation.RectangleMirrors(model.Lattice.Width, model.Lattice.Height) : null,
+            SwapCandidate = model.Lattice.Kind is "square" ? SitePermutation.RectangleDiagonal(model.Lattice.Width, model.Lattice.Height) : null,
             CentralFraction = ParseDouble(s.Fraction, "--central-fraction", 1e-3, 1),
             Threads = threads,
             Logger = log,
@@ -229,6 +228,35 @@ internal static class ExactCommand
         o.WriteLine(FormattableString.Invariant($"  reference: Poisson {r.Poisson:F4}, GOE {r.Goe:F4}, GUE {r.Gue:F4}; closest: {r.Closest}; blocks {(r.RealBlocks ? "real (GOE class)" : "complex (GUE class)")}; eigensolver {(NativeLapack.IsAvailable ? "LAPACK" : "managed")}"));
         o.WriteLine($"  detected: {(r.Detected.Count == 0 ? "none" : string.Join(", ", r.Detected))}; resolved: {(r.Resolved.Count == 0 ? "none" : string.Join(", ", r.Resolved))}");
         foreach (var sec in r.Sectors) o.WriteLine(FormattableString.Invariant($"  {sec.Label,-24} dim {sec.Dimension,6}  <r> {sec.MeanRatio:F4} +- {sec.StandardError:F4}"));
+        foreach (var wn in r.Warnings) o.WriteLine($"  warning: {wn}");
+        o.WriteLine($"wrote {Path.Combine(outDir, "exact-levels.json")} and .csv");
+        return ExitCodes.Ok;
+    }
+
+    /// <summary>Level statistics with every symmetry found from the terms resolved (the same engine as the diagnosis battery's test 1).</summary>
+    private static int RunFoundLevels(Model model, string path, List<Hamiltonian> hs, Settings s, string outDir, int threads, ILogger log)
+    {
+        _ = path;
+        var analyses = hs.Select(h => OpGrowth.Symmetry.SymmetryDiscovery.Analyze(h, model.Lattice, model.SizeMeasure == SizeMeasure.Majoranas)).ToList();
+        var sw = System.Diagnostics.Stopwatch.StartNew();
+        var r = SectorLevels.Run(analyses, threads, ParseDouble(s.Fraction, "--central-fraction", 1e-3, 1), log: log);
+        var a = analyses[0];
+        var doc = new
+        {
+            model = model.Name, source = model.SourceFile, n = model.N, parameters = model.Parameters, mode = "levels",
+            symmetries = new { resolved = a.Resolved, unresolved = a.Unresolved, conservedTotals = a.ConservedTotals.Select(c => c.ToString()), conservedStrings = a.ConservedStrings.Select(p => p.ToString()), commuting = a.Commuting, notes = a.Notes },
+            result = r,
+        };
+        AtomicFile.WriteJson(Path.Combine(outDir, "exact-levels.json"), doc);
+        var sb = new StringBuilder("sector,dimension,multiplicity,ensemble,gaps,mean_ratio,standard_error,degeneracies\n");
+        foreach (var b in r.Blocks) sb.Append(FormattableString.Invariant($"\"{b.Label}\",{b.Dimension},{b.Multiplicity},{b.Ensemble},{b.Ratios},{b.Mean:R},{b.Error:R},{b.Degenerate}\n"));
+        AtomicFile.WriteAllText(Path.Combine(outDir, "exact-levels.csv"), sb.ToString());
+        var o = CliHost.Out;
+        o.WriteLine(FormattableString.Invariant($"{model.Name} N={model.N}: <r> = {r.MeanRatio:F4} +- {r.Error:F4} over {r.Gaps} gap ratios, {r.Realizations} realisation(s) ({sw.Elapsed.TotalSeconds:F1} s)"));
+        o.WriteLine(FormattableString.Invariant($"  reference: Poisson {LevelStatistics.PoissonRatio:F4}, {r.WignerDysonClass} {r.WignerDysonRatio:F4}; sectors cover {r.DimensionCovered} of {r.FullDimension} states; eigensolver {(NativeLapack.IsAvailable ? "LAPACK" : "managed")}"));
+        o.WriteLine($"  resolved: {(a.Resolved.Count == 0 ? "none" : string.Join("; ", a.Resolved))}");
+        o.WriteLine($"  unresolved: {(a.Unresolved.Count == 0 ? "none" : string.Join("; ", a.Unresolved))}");
+        foreach (var b in r.Blocks) o.WriteLine(FormattableString.Invariant($"  {b.Label,-40} dim {b.Dimension,6}  {b.Ensemble}  <r> {b.Mean:F4} +- {b.Error:F4}"));
         foreach (var wn in r.Warnings) o.WriteLine($"  warning: {wn}");
         o.WriteLine($"wrote {Path.Combine(outDir, "exact-levels.json")} and .csv");
         return ExitCodes.Ok;

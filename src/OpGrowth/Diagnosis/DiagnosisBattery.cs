@@ -58,21 +58,15 @@ public static class DiagnosisBattery
             }
         }
 
-        // 1: level statistics.
+        // 1: level statistics (the member size is chosen inside, to fit the symmetry blocks to the budget).
         LevelFindings? levels = null;
         if (Skip(1)) tests.Add(TestVerdict.NotRun(1, LevelStatisticsCheck.Name, "skipped"));
         else
         {
             log?.LogInformation("test 1/6: level statistics");
-            int reals = model.IsDisordered ? Math.Max(1, options.LevelRealizations) : 1;
-            var members = Enumerable.Range(0, reals).Select(r => Small(levelN, r)).Where(m => m is not null).Select(m => m!).ToList();
-            if (members.Count == 0) tests.Add(TestVerdict.NotRun(1, LevelStatisticsCheck.Name, $"no smaller member of N = {levelN} (the model has no size parameter N)"));
-            else
-            {
-                var (v, f) = Guard(1, LevelStatisticsCheck.Name, () => LevelStatisticsCheck.Run(members, options, ct));
-                tests.Add(v);
-                levels = f;
-            }
+            var (v, f) = Guard(1, LevelStatisticsCheck.Name, () => LevelStatisticsCheck.Run(model, (n, r) => Small(n, r), options, ct));
+            tests.Add(v);
+            levels = f;
         }
 
         // 2: Lanczos growth.

@@ -13,6 +13,12 @@ public sealed record DiagnosisOptions
     /// <summary>Size of the smaller member of the family used for level statistics (test 1).</summary>
     public int LevelN { get; init; } = 12;
 
+    /// <summary>Estimated-cost budget of the level statistics in seconds (the member size is chosen to fit it).</summary>
+    public double LevelSeconds { get; init; } = 20;
+
+    /// <summary>Largest symmetry block diagonalised in test 1.</summary>
+    public int LevelMaxDimension { get; init; } = 4000;
+
     /// <summary>Disorder realisations for level statistics (disordered models only; the model's seed is stepped).</summary>
     public int LevelRealizations { get; init; } = 1;
 

@@ -1,17 +1,22 @@
 using System.Globalization;
+using OpGrowth.IO;
 using OpGrowth.Models;
 
 namespace OpGrowth.Diagnosis;
 
-/// <summary>Smaller members of a model family read from a model file, by overriding its size parameters.</summary>
+/// <summary>Smaller members of a model family read from a model file, by changing its size parameters.</summary>
 public static class FamilyMembers
 {
     /// <summary>
     /// A <see cref="SmallerMember"/> for the model file at <paramref name="path"/> loaded with
-    /// <paramref name="overrides"/>: the parameter <c>N</c> is set to n (or, for a square lattice with
-    /// <c>Lx</c> and <c>Ly</c>, the most nearly square Lx x Ly &lt;= n with both sides at least 2), and for
-    /// realisation r &gt; 0 the parameter <c>seed</c> is stepped by r. Returns null members when the file
-    /// has no such parameters.
+    /// <paramref name="overrides"/>. The size parameters are the model's <see cref="Model.SizeParameters"/>
+    /// (the file's <c>size</c> key, else <c>N</c>, else the parameters of the lattice's size keys). For a
+    /// target of n sites the member is the largest one with at most n sites, found by changing one size
+    /// parameter (the one that keeps the most sites; squares and ladders thus shrink along one direction),
+    /// or, when no single parameter reaches n, all of them together (the most nearly square choice). For
+    /// realisation r &gt; 0 the parameter <c>seed</c> is stepped by r. Members are loaded leniently: a term
+    /// that places nothing at the smaller size is dropped and noted (<see cref="Model.LoadNotes"/>). Returns
+    /// null when the file has no size parameter and the model is larger than n.
     /// </summary>
     public static SmallerMember FromFile(string path, IReadOnlyDictionary<string, string>? overrides, Model loaded)
     {
@@ -19,42 +24,87 @@ public static class FamilyMembers
         ArgumentNullException.ThrowIfNull(loaded);
         var baseOverrides = overrides ?? new Dictionary<string, string>();
         var parameters = loaded.Parameters;
+        var sizeParams = loaded.SizeParameters.Where(parameters.ContainsKey).ToArray();
         return (n, r) =>
         {
-            var ov = new Dictionary<string, string>(baseOverrides);
-            if (parameters.ContainsKey("N"))
-            {
-                ov["N"] = n.ToString(CultureInfo.InvariantCulture);
-            }
-            else if (parameters.ContainsKey("Lx") && parameters.ContainsKey("Ly"))
-            {
-                var (a, b) = NearSquare(n);
-                if (a < 2) return null;
-                ov["Lx"] = a.ToString(CultureInfo.InvariantCulture);
-                ov["Ly"] = b.ToString(CultureInfo.InvariantCulture);
-            }
-            else
-            {
-                return null;
-            }
+            Dictionary<string, string>? ov;
+            if (loaded.N <= n) ov = new Dictionary<string, string>(baseOverrides);
+            else if (sizeParams.Length == 0) return null;
+            else ov = Shrink(path, baseOverrides, parameters, sizeParams, n);
+            if (ov is null) return null;
             if (r > 0)
             {
                 if (!parameters.TryGetValue("seed", out double seed)) return null;
                 ov["seed"] = (seed + r).ToString(CultureInfo.InvariantCulture);
             }
-            return ModelLoader.Load(path, ov);
+            if (r == 0 && loaded.N <= n) return loaded;
+            return ModelLoader.Load(path, ov, lenient: true);
         };
     }
 
-    /// <summary>The factor pair a &lt;= b with a b &lt;= n, largest a b, then most nearly square.</summary>
-    internal static (int A, int B) NearSquare(int n)
+    /// <summary>Overrides that give the largest member with at most n sites, or null.</summary>
+    internal static Dictionary<string, string>? Shrink(string path, IReadOnlyDictionary<string, string> baseOverrides, IReadOnlyDictionary<string, double> parameters, IReadOnlyList<string> sizeParams, int n)
     {
-        (int, int) best = (0, 0);
-        for (int a = 2; a * a <= n; a++)
+        int Sites(IReadOnlyDictionary<string, double> values)
         {
-            int b = n / a;
-            if (a * b > best.Item1 * best.Item2 || (a * b == best.Item1 * best.Item2 && b - a < best.Item2 - best.Item1)) best = (a, b);
+            var ov = new Dictionary<string, string>(baseOverrides);
+            foreach (var (k, v) in values) ov[k] = v.ToString(CultureInfo.InvariantCulture);
+            try
+            {
+                return ModelLoader.CountSites(path, ov);
+            }
+            catch (InputException)
+            {
+                return int.MaxValue; // not a valid member (e.g. a lattice too small for its kind)
+            }
         }
-        return best;
+        var current = sizeParams.ToDictionary(p => p, p => Math.Round(parameters[p]));
+        Dictionary<string, double>? best = null;
+        int bestSites = 0;
+        bool bestJoint = true;
+        // One parameter at a time (largest member first): binary search for the largest value that fits,
+        // assuming the number of sites grows with each size parameter.
+        foreach (var p in sizeParams)
+        {
+            double hi = current[p];
+            if (hi < 1) continue;
+            double lo = 1;
+            var trial = new Dictionary<string, double>(current);
+            trial[p] = lo;
+            if (Sites(trial) > n) continue;
+            while (hi - lo > 1)
+            {
+                double mid = Math.Floor((lo + hi) / 2);
+                trial[p] = mid;
+                if (Sites(trial) <= n) lo = mid;
+                else hi = mid;
+            }
+            trial[p] = lo;
+            int sites = Sites(trial);
+            if (sites <= n && (sites > bestSites || (sites == bestSites && bestJoint)))
+            {
+                best = trial;
+                bestSites = sites;
+                bestJoint = false;
+            }
+        }
+        if (best is null && sizeParams.Count > 1)
+        {
+            // Every parameter together: the largest member, then the most nearly equal values.
+            for (double f = 0.95; f > 0.02; f -= 0.05)
+            {
+                var trial = current.ToDictionary(kv => kv.Key, kv => Math.Max(1, Math.Floor(kv.Value * f)));
+                int sites = Sites(trial);
+                if (sites <= n && sites > bestSites)
+                {
+                    best = trial;
+                    bestSites = sites;
+                }
+            }
+        }
+        if (best is null) return null;
+        var result = new Dictionary<string, string>(baseOverrides);
+        foreach (var (k, v) in best) result[k] = v.ToString(CultureInfo.InvariantCulture);
+        return result;
     }
 }

@@ -55,4 +55,25 @@ public sealed record LevelFindings
 
     /// <summary>Disorder realisations pooled.</summary>
     public required int Realizations { get; init; }
+
+    /// <summary>Conserved totals found ("total Z", ...).</summary>
+    public IReadOnlyList<string> ConservedTotals { get; init; } = [];
+
+    /// <summary>Number of independent conserved Pauli strings found (generators of their group).</summary>
+    public int ConservedStrings { get; init; }
+
+    /// <summary>Some of them, low weight first.</summary>
+    public IReadOnlyList<string> ConservedStringExamples { get; init; } = [];
+
+    /// <summary>True when every term of H commutes with every other.</summary>
+    public bool Commuting { get; init; }
+
+    /// <summary>Sum over the sectors of dimension times multiplicity (equals <see cref="FullDimension"/> when no level is lost or counted twice).</summary>
+    public long DimensionCovered { get; init; }
+
+    /// <summary>Dimension of the full space, 2^N.</summary>
+    public long FullDimension { get; init; }
+
+    /// <summary>Size of the member used, in the model's own unit ("12 sites", "16 Majoranas").</summary>
+    public string SizeMeasure { get; init; } = "";
 }

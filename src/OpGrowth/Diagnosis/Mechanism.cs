@@ -23,6 +23,9 @@ public enum Mechanism
 
     /// <summary>The probe overlaps conserved quantities: its autocorrelation cannot decay below the Mazur bound.</summary>
     ConservationLaws,
+
+    /// <summary>Every term of H commutes with every other: each term (and every local conserved string) is conserved, operators stay within a neighbourhood of their support.</summary>
+    Commuting,
 }
 
 /// <summary>Display names of <see cref="Mechanism"/> in the trade's words.</summary>
@@ -37,6 +40,7 @@ public static class MechanismNames
         Mechanism.Localized => "Anderson/many-body localized",
         Mechanism.Frozen => "frozen (glass-like)",
         Mechanism.ConservationLaws => "conservation laws",
+        Mechanism.Commuting => "commuting terms (frozen)",
         _ => "undetermined",
     };
 
@@ -45,6 +49,7 @@ public static class MechanismNames
     {
         TestOutcome.Scrambles => "scrambles",
         TestOutcome.Fails => "fails",
+        TestOutcome.NotRun => "not run",
         _ => "inconclusive",
     };
 }

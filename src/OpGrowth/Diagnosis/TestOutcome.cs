@@ -9,6 +9,9 @@ public enum TestOutcome
     /// <summary>The figure is on the non-scrambling side of the threshold.</summary>
     Fails,
 
-    /// <summary>The figure is too close to the threshold, too uncertain, or the test does not apply.</summary>
+    /// <summary>The figure is too close to the threshold or too uncertain, or the evidence is contradictory.</summary>
     Inconclusive,
+
+    /// <summary>The test did not run (not applicable, skipped, too little data, or over its budget); the reason says which.</summary>
+    NotRun,
 }

@@ -42,7 +42,7 @@ public sealed record TestVerdict
     {
         Number = number,
         Name = name,
-        Outcome = TestOutcome.Inconclusive,
+        Outcome = TestOutcome.NotRun,
         Figure = "not measured",
         Threshold = "-",
         Source = "-",

@@ -127,6 +127,39 @@ public sealed class Lattice
         }
     }
 
+    /// <summary>
+    /// Euclidean distance between the coordinates of two sites (<see cref="Coordinate"/>), with the nearest
+    /// image along periodic directions: |i - j| on a chain (and, since their coordinates are (i, 0), on
+    /// all-to-all clusters and edge lists), the shorter way round on a ring, sqrt(dx^2 + dy^2) on a ladder
+    /// or square lattice.
+    /// </summary>
+    public double EuclideanDistance(int i, int j)
+    {
+        var (xi, yi) = Coordinate(i);
+        var (xj, yj) = Coordinate(j);
+        int dx = Math.Abs(xi - xj), dy = Math.Abs(yi - yj);
+        if (Periodic && Kind is "ring" or "ladder" or "square") dx = Math.Min(dx, Width - dx);
+        if (Periodic && Kind == "square") dy = Math.Min(dy, Height - dy);
+        return Math.Sqrt((double)dx * dx + (double)dy * dy);
+    }
+
+    /// <summary>
+    /// The bonds of one orientation: "legs" (along a ladder) and "rungs" (across it), "horizontal" (same
+    /// row) and "vertical" (same column) of a square lattice; in the order of <see cref="Edges"/>.
+    /// </summary>
+    public IReadOnlyList<(int A, int B)> BondsOfKind(string kind)
+    {
+        ArgumentNullException.ThrowIfNull(kind);
+        return kind switch
+        {
+            "rungs" when Kind == "ladder" => Edges.Where(e => e.A / 2 == e.B / 2).ToArray(),
+            "legs" when Kind == "ladder" => Edges.Where(e => e.A / 2 != e.B / 2).ToArray(),
+            "horizontal" when Kind == "square" => Edges.Where(e => e.A / Width == e.B / Width).ToArray(),
+            "vertical" when Kind == "square" => Edges.Where(e => e.A / Width != e.B / Width).ToArray(),
+            _ => throw new ArgumentException($"No bonds of kind '{kind}' on a {Kind} lattice.", nameof(kind)),
+        };
+    }
+
     /// <summary>Distances from one site to all sites (breadth-first search; cached).</summary>
     public IReadOnlyList<int> DistancesFrom(int site)
     {

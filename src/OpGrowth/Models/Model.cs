@@ -49,6 +49,15 @@ public sealed class Model
     /// <summary>Seeds of the random couplings that were drawn (in file order, no repeats).</summary>
     public IReadOnlyList<long> Seeds { get; init; } = [];
 
+    /// <summary>
+    /// Parameters that set the system size (the file's <c>size</c> key, else <c>N</c>, else the parameters
+    /// the lattice's size keys are written with); the smaller members of the family change these.
+    /// </summary>
+    public IReadOnlyList<string> SizeParameters { get; init; } = [];
+
+    /// <summary>Notes made while loading leniently (terms dropped because they place nothing at this size).</summary>
+    public IReadOnlyList<string> LoadNotes { get; init; } = [];
+
     /// <summary>True when some coupling was drawn at random (and gave a nonzero term).</summary>
     public bool IsDisordered { get; init; }
 

@@ -6,17 +6,57 @@ namespace OpGrowth.Models;
 
 public static partial class ModelLoader
 {
-    /// <summary>A coupling or angle as written: fixed, or a random distribution.</summary>
-    private readonly record struct ValueSpec(string? Distribution, double A, double B, string Text)
+    /// <summary>
+    /// A coupling or angle as written: fixed, or a random distribution. Its numbers may depend on the
+    /// placement (site index, distance, coordinates: see <see cref="PlacementScope"/>); those are evaluated
+    /// once per placement.
+    /// </summary>
+    private sealed record ValueSpec(string? Distribution, Expression? AExpr, Expression? BExpr, double A, double B, string Text)
     {
         public bool IsRandom => Distribution is not null;
 
-        public double Draw(ModelRandom? rng) => Distribution switch
+        /// <summary>True when a number depends on the placement.</summary>
+        public bool PerPlacement => AExpr is not null || BExpr is not null;
+    }
+
+    /// <summary>
+    /// Parameter values plus the placement variables of the placement being expanded: i and j (first and
+    /// second site), d (graph distance between the first and last site), r (Euclidean distance between them
+    /// in lattice coordinates, nearest image on periodic lattices), x and y (coordinates of the first site).
+    /// </summary>
+    private sealed class PlacementScope(IReadOnlyDictionary<string, double> parameters) : IReadOnlyDictionary<string, double>
+    {
+        public double I, J, D, R, X, Y;
+
+        public double this[string key] => key switch
         {
-            null => A,
-            "normal" => rng!.Normal(A, B),
-            _ => rng!.Uniform(A, B),
+            "i" => I,
+            "j" => J,
+            "d" => D,
+            "r" => R,
+            "x" => X,
+            "y" => Y,
+            _ => parameters[key],
         };
+
+        public IEnumerable<string> Keys => PlacementVariables.Concat(parameters.Keys);
+
+        public IEnumerable<double> Values => Keys.Select(k => this[k]);
+
+        public int Count => PlacementVariables.Length + parameters.Count;
+
+        public bool ContainsKey(string key) => Array.IndexOf(PlacementVariables, key) >= 0 || parameters.ContainsKey(key);
+
+        public bool TryGetValue(string key, out double value)
+        {
+            bool ok = ContainsKey(key);
+            value = ok ? this[key] : 0;
+            return ok;
+        }
+
+        public IEnumerator<KeyValuePair<string, double>> GetEnumerator() => Keys.Select(k => new KeyValuePair<string, double>(k, this[k])).GetEnumerator();
+
+        System.Collections.IEnumerator System.Collections.IEnumerable.GetEnumerator() => GetEnumerator();
     }
 
     /// <summary>One pass over a parsed file: parameters, lattice, terms or drive, probes, symmetries.</summary>
@@ -34,9 +74,12 @@ public static partial class ModelLoader
         private int _count;
 
         private readonly int _lastLine;
+        private readonly bool _lenient;
+        private readonly List<string> _notes = [];
 
-        public Builder(string file, TomlTableNode root, IReadOnlyDictionary<string, string> overrides, int lastLine)
+        public Builder(string file, TomlTableNode root, IReadOnlyDictionary<string, string> overrides, int lastLine, bool lenient)
         {
+            _lenient = lenient;
             _lastLine = lastLine;
             _file = file;
             _root = root;
@@ -44,6 +87,13 @@ public static partial class ModelLoader
         }
 
         private InputException Err(int line, string problem) => new(_file, line, problem);
+
+        /// <summary>Reads only the parameters and the lattice: the number of sites at these parameter values.</summary>
+        public int CountSites()
+        {
+            ReadParameters();
+            return ReadLattice().N;
+        }
 
         public Model Build()
         {
@@ -94,6 +144,7 @@ public static partial class ModelLoader
 
             var probes = ReadProbes();
             var symmetries = ReadSymmetries(hamiltonian, drive);
+            var sizeParameters = ReadSize();
             var parameters = new Dictionary<string, double>(StringComparer.Ordinal);
             foreach (var p in _paramOrder) parameters[p] = _params[p];
             return new Model
@@ -109,11 +160,55 @@ public static partial class ModelLoader
                 SizeMeasure = _majorana ? SizeMeasure.Majoranas : SizeMeasure.Qubits,
                 Parameters = parameters,
                 Seeds = _seeds.Distinct().ToArray(),
+                SizeParameters = sizeParameters,
+                LoadNotes = _notes.ToArray(),
                 IsDisordered = _disordered,
                 IsTranslationInvariant = drive is null
                     ? SymmetryCheck.IsTranslationInvariant(hamiltonian.Terms, _lattice)
                     : drive.Layers.All(l => l.Count == 0 || SymmetryCheck.IsTranslationInvariant(l.Select(r => new PauliTerm(r.Generator, r.Angle)).ToArray(), _lattice)),
             };
+        }
+
+        /// <summary>
+        /// The parameters that set the system size: the file's <c>size</c> key (one name or a list), else
+        /// <c>N</c> when defined, else the parameters that the lattice's size keys are written with
+        /// (e.g. <c>length = "L"</c>, or <c>width = "Lx"</c> and <c>height = "Ly"</c>). Empty when the size
+        /// is fixed by numbers.
+        /// </summary>
+        private IReadOnlyList<string> ReadSize()
+        {
+            var node = _root.Get("size");
+            if (node is null)
+            {
+                if (_params.ContainsKey("N")) return ["N"];
+                var names = new List<string>();
+                if (_root.Get("lattice") is TomlTableNode lt)
+                {
+                    foreach (string key in new[] { "sites", "length", "width", "height" })
+                    {
+                        if (lt.Get(key) is TomlScalar { Value: string text } && Expression.TryParse(text, out var e, out _))
+                        {
+                            foreach (var n in e!.Names) if (!names.Contains(n)) names.Add(n);
+                        }
+                    }
+                }
+                return names;
+            }
+            var items = new List<(string, int)>();
+            if (node is TomlScalar { Value: string one }) items.Add((one, node.Line));
+            else if (node is TomlList { IsTableArray: false } list && list.Items.Count > 0 && list.Items.All(i => i is TomlScalar { Value: string }))
+            {
+                foreach (var item in list.Items) items.Add(((string)((TomlScalar)item).Value, item.Line));
+            }
+            else throw Err(node.Line, $"found {node.Describe()} for size; expected the name of the parameter that sets the system size, such as size = \"L\", or a list such as size = [\"Lx\", \"Ly\"]");
+            var result = new List<string>();
+            foreach (var (name, line) in items)
+            {
+                if (!_params.ContainsKey(name)) throw Err(line, $"found size = \"{TomlScalar.Shorten(name)}\", which is not a parameter{ClosestOf(name, _paramOrder)}; expected the name of a parameter from [parameters] that sets the system size");
+                if (result.Contains(name)) throw Err(line, $"found the size parameter \"{name}\" twice; expected each once");
+                result.Add(name);
+            }
+            return result;
         }
 
         /// <summary>The last non-blank line: where something missing from the file would have gone.</summary>
@@ -225,6 +320,7 @@ public static partial class ModelLoader
                 {
                     if (!IdentifierRegex().IsMatch(key)) throw Err(line, $"found the parameter name '{key}'; expected a name of letters, digits and '_' that starts with a letter");
                     if (Expression.Constants.ContainsKey(key) || Expression.Functions.ContainsKey(key)) throw Err(line, $"found the parameter name '{key}', which is a built-in constant or function; expected another name");
+                    if (Array.IndexOf(PlacementVariables, key) >= 0) throw Err(line, $"found the parameter name '{key}', which couplings use for the placement ({string.Join(", ", PlacementVariables)}: site, distance, coordinates); expected another name");
                     if (value is TomlScalar { Value: long or double or string })
                     {
                         defs[key] = (value, null, value.Line);
@@ -443,15 +539,83 @@ public static partial class ModelLoader
                     var args = SplitTopLevel(m.Groups[2].Value);
                     string form = dist == "normal" ? "normal(mean, std)" : "uniform(low, high)";
                     if (args.Count != 2) throw Err(node.Line, $"found {dist} with {args.Count} argument(s) in \"{TomlScalar.Shorten(s)}\"; expected {form}");
-                    double a = EvalText(args[0], node.Line, $"{what} {dist} argument 1");
-                    double b = EvalText(args[1], node.Line, $"{what} {dist} argument 2");
-                    if (dist == "normal" && b < 0) throw Err(node.Line, $"found a negative standard deviation {Fmt(b)} in \"{TomlScalar.Shorten(s)}\"; expected normal(mean, std) with std >= 0");
-                    if (dist == "uniform" && b < a) throw Err(node.Line, $"found uniform({Fmt(a)}, {Fmt(b)}) with low > high; expected uniform(low, high) with low <= high");
-                    return new ValueSpec(dist, a, b, s);
+                    var (a, ae) = ReadPlacementNumber(args[0], node.Line, $"{what} {dist} argument 1");
+                    var (b, be) = ReadPlacementNumber(args[1], node.Line, $"{what} {dist} argument 2");
+                    if (ae is null && be is null) CheckDistribution(dist, a, b, s, node.Line, null);
+                    return new ValueSpec(dist, ae, be, a, b, s);
                 }
-                return new ValueSpec(null, EvalText(s, node.Line, what, ", or a random normal(mean, std) / uniform(low, high)"), 0, s);
+                var (v, ve) = ReadPlacementNumber(s, node.Line, what, ", or a random normal(mean, std) / uniform(low, high)");
+                return new ValueSpec(null, ve, null, v, 0, s);
             }
-            return new ValueSpec(null, ReadNumber(node, what), 0, "");
+            return new ValueSpec(null, null, null, ReadNumber(node, what), 0, "");
+        }
+
+        private void CheckDistribution(string dist, double a, double b, string text, int line, string? at)
+        {
+            if (dist == "normal" && b < 0) throw Err(line, $"found a negative standard deviation {Fmt(b)}{at} in \"{TomlScalar.Shorten(text)}\"; expected normal(mean, std) with std >= 0");
+            if (dist == "uniform" && b < a) throw Err(line, $"found uniform({Fmt(a)}, {Fmt(b)}){at} with low > high; expected uniform(low, high) with low <= high");
+        }
+
+        /// <summary>
+        /// A number that may use the placement variables (i, j, d, r, x, y): evaluated now when it does not,
+        /// otherwise returned as an expression for <see cref="ValueAt"/>.
+        /// </summary>
+        private (double Value, Expression? PerPlacement) ReadPlacementNumber(string text, int line, string what, string extraExpected = "")
+        {
+            if (!Expression.TryParse(text, out var e, out string? problem))
+            {
+                throw Err(line, $"found {problem} for {what}; expected {Expression.Grammar}, the placement variables {string.Join(", ", PlacementVariables)}{extraExpected}");
+            }
+            if (!e!.Names.Any(n => Array.IndexOf(PlacementVariables, n) >= 0)) return (EvalExpression(e, line, what), null);
+            foreach (string name in e.Names)
+            {
+                if (Array.IndexOf(PlacementVariables, name) < 0 && !_params.ContainsKey(name))
+                {
+                    throw Err(line, $"found the name '{name}' in \"{TomlScalar.Shorten(e.Text)}\" ({what}), which is neither a parameter{ClosestOf(name, _paramOrder.Concat(PlacementVariables))} nor a placement variable; expected a name from [parameters] or one of {string.Join(", ", PlacementVariables)} (site, distance, coordinates of the placement)");
+                }
+            }
+            return (double.NaN, e);
+        }
+
+        /// <summary>Draws (or evaluates) the value at one placement.</summary>
+        private double ValueAt(ValueSpec spec, ModelRandom? rng, int[]? placement, int line, string what)
+        {
+            double a = spec.A, b = spec.B;
+            if (spec.PerPlacement)
+            {
+                var scope = _scope ??= new PlacementScope(_params);
+                if (placement is not null) SetPlacement(scope, placement);
+                string at = placement is null ? string.Empty : $" at the placement [{string.Join(", ", placement)}] (d = {Fmt(scope.D)})";
+                if (spec.AExpr is not null) a = Finite(spec.AExpr.Evaluate(scope), spec.AExpr, at);
+                if (spec.BExpr is not null) b = Finite(spec.BExpr.Evaluate(scope), spec.BExpr, at);
+                if (spec.IsRandom) CheckDistribution(spec.Distribution!, a, b, spec.Text, line, at);
+            }
+            return spec.Distribution switch
+            {
+                null => a,
+                "normal" => rng!.Normal(a, b),
+                _ => rng!.Uniform(a, b),
+            };
+
+            double Finite(double v, Expression e, string at)
+            {
+                if (!double.IsFinite(v)) throw Err(line, $"found {what} \"{TomlScalar.Shorten(e.Text)}\" = {Fmt(v)}{at}; expected a finite number at every placement");
+                return v;
+            }
+        }
+
+        private PlacementScope? _scope;
+
+        private void SetPlacement(PlacementScope scope, int[] p)
+        {
+            int first = p[0], last = p[^1];
+            scope.I = first;
+            scope.J = p.Length > 1 ? p[1] : first;
+            scope.D = p.Length > 1 ? _lattice.Distance(first, last) : 0;
+            scope.R = p.Length > 1 ? _lattice.EuclideanDistance(first, last) : 0;
+            var (x, y) = _lattice.Coordinate(first);
+            scope.X = x;
+            scope.Y = y;
         }
 
         private static List<string> SplitTopLevel(string s)
@@ -514,7 +678,7 @@ public static partial class ModelLoader
             {
                 int pauliLine = t.KeyLine("pauli");
                 var words = ReadWords(pauliNode);
-                var placements = ReadPlacements(t, where, out string placementName);
+                var placements = ReadPlacements(t, where, words.Max(w => w.Length), out string placementName);
                 foreach (var p in placements)
                 {
                     foreach (var w in words)
@@ -528,7 +692,7 @@ public static partial class ModelLoader
                 Count((long)placements.Count * words.Count, t.Line);
                 foreach (var p in placements)
                 {
-                    double value = spec.Draw(rng);
+                    double value = ValueAt(spec, rng, p, valueLine, valueKey);
                     foreach (var w in words)
                     {
                         var b = new PauliString.Builder(n);
@@ -566,6 +730,11 @@ public static partial class ModelLoader
                         {
                             throw Err(item.Line, $"found {item.Describe()} in majorana; expected lists of Majorana indices such as [[0, 1], [2, 3]]");
                         }
+                        if (_lenient && inner.Items.Any(x => ReadNumber(x, "Majorana index") > m - 1))
+                        {
+                            _notes.Add($"line {item.Line}: a Majorana product reaches beyond the {m} Majoranas of this member; it was dropped at this size");
+                            continue;
+                        }
                         var idx = inner.Items.Select(x => (int)ReadWhole(x, "Majorana index", 0, m - 1)).ToArray();
                         if (idx.Distinct().Count() != idx.Length) throw Err(item.Line, $"found a Majorana index twice in [{string.Join(", ", idx)}]; expected distinct indices (chi^2 = 1)");
                         if ((idx.Length & 1) != 0) throw Err(item.Line, $"found {idx.Length} Majoranas in [{string.Join(", ", idx)}]; expected an even number");
@@ -580,7 +749,8 @@ public static partial class ModelLoader
                 }
                 foreach (var idx in monomials)
                 {
-                    double value = spec.Draw(rng);
+                    if (spec.PerPlacement) throw Err(valueLine, $"found the placement variables ({string.Join(", ", PlacementVariables)}) in {valueKey} of a Majorana term; expected them only with on = or sites = placements");
+                    double value = ValueAt(spec, rng, null, valueLine, valueKey);
                     var (s, sign) = JordanWigner.HermitianMonomial(n, idx);
                     result.Add((s, sign * value, majLine));
                     anyNonzero |= value != 0;
@@ -655,7 +825,7 @@ public static partial class ModelLoader
             return words;
         }
 
-        private List<int[]> ReadPlacements(TomlTableNode t, string where, out string placementName)
+        private List<int[]> ReadPlacements(TomlTableNode t, string where, int wordLength, out string placementName)
         {
             var onNode = t.Get("on");
             var sitesNode = t.Get("sites");
@@ -682,6 +852,11 @@ public static partial class ModelLoader
                 foreach (var item in list.Items)
                 {
                     int[] group;
+                    if (_lenient && OutOfRange(item, n))
+                    {
+                        _notes.Add($"line {item.Line}: a site group reaches beyond the {n} sites of this member; it was dropped at this size");
+                        continue;
+                    }
                     if (item is TomlList { IsTableArray: false } inner && inner.Items.Count > 0)
                     {
                         group = inner.Items.Select(x => ReadSite(x, n, "site")).ToArray();
@@ -698,6 +873,7 @@ public static partial class ModelLoader
                     seen[key] = item.Line;
                     result.Add(group);
                 }
+                if (result.Count == 0) return Empty(sitesNode.Line, "found no site group within this member's sites");
                 return result;
             }
 
@@ -716,13 +892,31 @@ public static partial class ModelLoader
                 case "bonds":
                     if (_lattice.Edges.Count == 0) throw Err(onLine, $"found on = \"bonds\" on a lattice with no bonds ({_lattice}); expected a lattice of at least two sites");
                     return _lattice.Edges.Select(e => new[] { e.A, e.B }).ToList();
+                case "legs" or "rungs" or "horizontal" or "vertical":
+                {
+                    string needs = on is "legs" or "rungs" ? "ladder" : "square";
+                    if (_lattice.Kind != needs) throw Err(onLine, $"found on = \"{on}\" on a {_lattice.Kind} lattice; expected on = \"{on}\" only on a {needs} lattice (legs and rungs of a ladder, horizontal and vertical bonds of a square lattice)");
+                    var list = _lattice.BondsOfKind(on).Select(e => new[] { e.A, e.B }).ToList();
+                    if (list.Count == 0) return Empty(onLine, $"found no {on} bonds on {_lattice}");
+                    return list;
+                }
+                case "segments":
+                {
+                    if (!_lattice.IsOneDimensional || _lattice.Kind == "ladder") throw Err(onLine, $"found on = \"segments\" on a {_lattice.Kind} lattice; expected segments (runs of consecutive sites) only on a chain or ring");
+                    int k = wordLength;
+                    var list = new List<int[]>();
+                    int starts = _lattice.Periodic ? (k <= n ? n : 0) : n - k + 1;
+                    for (int a = 0; a < starts; a++) list.Add(Enumerable.Range(0, k).Select(o => (a + o) % n).ToArray());
+                    if (list.Count == 0) return Empty(onLine, $"found no runs of {k} consecutive sites on {_lattice}");
+                    return list;
+                }
                 case "plaquettes":
                     if (_lattice.Plaquettes.Count == 0) throw Err(onLine, $"found on = \"plaquettes\" on a {_lattice.Kind} lattice ({_lattice}); expected a square lattice or ladder with at least 2x2 sites");
                     return _lattice.Plaquettes.Select(p => (int[])p.Clone()).ToList();
                 default:
                 {
                     int? d = null;
-                    if (distNode is not null) d = (int)ReadWhole(distNode, "distance", 1, n);
+                    if (distNode is not null) d = (int)ReadWhole(distNode, "distance", 1, _lenient ? int.MaxValue : n);
                     long pairs = (long)n * (n - 1) / 2;
                     if (pairs > MaxTerms) throw Err(onLine, $"found on = \"pairs\" on {n} sites ({pairs:N0} pairs); expected at most {MaxTerms:N0} terms (lower the number of sites)");
                     var result = new List<int[]>();
@@ -733,10 +927,41 @@ public static partial class ModelLoader
                             if (d is null || _lattice.Distance(i, j) == d) result.Add([i, j]);
                         }
                     }
-                    if (result.Count == 0) throw Err(distNode?.Line ?? onLine, $"found no pairs{(d is null ? "" : $" at distance {d}")} on {_lattice}; expected at least one");
+                    if (result.Count == 0) return Empty(distNode?.Line ?? onLine, $"found no pairs{(d is null ? "" : $" at distance {d}")} on {_lattice}");
                     return result;
                 }
             }
+        }
+
+        /// <summary>True when a site entry (a number, expression or group) names a site outside 0..n-1.</summary>
+        private bool OutOfRange(TomlNode item, int n)
+        {
+            IEnumerable<TomlNode> entries = item is TomlList { IsTableArray: false } l ? l.Items : [item];
+            foreach (var e in entries)
+            {
+                double v;
+                try
+                {
+                    v = ReadNumber(e, "site");
+                }
+                catch (InputException)
+                {
+                    return false; // let the strict reader report it
+                }
+                if (Math.Round(v) < 0 || Math.Round(v) > n - 1) return true;
+            }
+            return false;
+        }
+
+        /// <summary>
+        /// A placement that places nothing: an error in a model as written; while a smaller member of the
+        /// family is built (lenient loading), the term is dropped with a note.
+        /// </summary>
+        private List<int[]> Empty(int line, string found)
+        {
+            if (!_lenient) throw Err(line, $"{found}; expected at least one");
+            _notes.Add($"line {line}: {found}; the term was dropped at this size");
+            return [];
         }
 
         // ---------------------------------------------------------------- probes and symmetries

@@ -18,15 +18,29 @@ public static partial class ModelLoader
     public static readonly IReadOnlyList<string> KnownSymmetries =
         ["total-z", "spin-flip", "fermion-parity", "time-reversal", "reflection", "translation"];
 
-    internal static readonly string[] TopKeys = ["name", "description", "period", "probes", "symmetries", "parameters", "lattice", "term", "layer"];
+    internal static readonly string[] TopKeys = ["name", "description", "size", "period", "probes", "symmetries", "parameters", "lattice", "term", "layer"];
     internal static readonly string[] TermKeys = ["pauli", "majorana", "on", "sites", "distance", "coupling", "seed"];
     internal static readonly string[] RotationKeys = ["pauli", "majorana", "on", "sites", "distance", "angle", "seed"];
     internal static readonly string[] LayerKeys = ["rotations"];
     internal static readonly string[] LatticeKinds = ["chain", "ring", "ladder", "square", "all-to-all", "edges"];
-    internal static readonly string[] Placements = ["sites", "bonds", "pairs", "plaquettes"];
+    internal static readonly string[] Placements = ["sites", "bonds", "legs", "rungs", "horizontal", "vertical", "pairs", "segments", "plaquettes"];
+
+    /// <summary>
+    /// Names a coupling or angle may use besides the parameters: i and j (first and second site of the
+    /// placement), d (graph distance between its first and last site), r (Euclidean distance in lattice
+    /// coordinates), x and y (coordinates of its first site). Reserved: no parameter may take these names.
+    /// </summary>
+    internal static readonly string[] PlacementVariables = ["i", "j", "d", "r", "x", "y"];
 
     /// <summary>Loads a model file, applying parameter overrides (name -> value or expression).</summary>
-    public static Model Load(string path, IReadOnlyDictionary<string, string>? overrides = null)
+    public static Model Load(string path, IReadOnlyDictionary<string, string>? overrides = null) => Load(path, overrides, lenient: false);
+
+    /// <summary>
+    /// Loads a model file. With <paramref name="lenient"/> (used for the smaller members of a family), a
+    /// term whose placement places nothing at this size is dropped and noted in <see cref="Model.LoadNotes"/>
+    /// instead of being an error.
+    /// </summary>
+    public static Model Load(string path, IReadOnlyDictionary<string, string>? overrides, bool lenient)
     {
         ArgumentNullException.ThrowIfNull(path);
         string text;
@@ -46,12 +60,14 @@ public static partial class ModelLoader
         {
             throw new InputException(path, 0, $"found a file that cannot be read ({ex.Message}); expected a readable model file");
         }
-        var model = Parse(text, path, overrides);
-        return model;
+        return Parse(text, path, overrides, lenient);
     }
 
     /// <summary>Builds a model from TOML text; <paramref name="sourceName"/> names it in messages.</summary>
-    public static Model Parse(string text, string sourceName, IReadOnlyDictionary<string, string>? overrides = null)
+    public static Model Parse(string text, string sourceName, IReadOnlyDictionary<string, string>? overrides = null) => Parse(text, sourceName, overrides, lenient: false);
+
+    /// <summary>Builds a model from TOML text; see <see cref="Load(string, IReadOnlyDictionary{string, string}?, bool)"/> for <paramref name="lenient"/>.</summary>
+    public static Model Parse(string text, string sourceName, IReadOnlyDictionary<string, string>? overrides, bool lenient)
     {
         ArgumentNullException.ThrowIfNull(text);
         ArgumentNullException.ThrowIfNull(sourceName);
@@ -62,7 +78,19 @@ public static partial class ModelLoader
         {
             if (!string.IsNullOrWhiteSpace(lines[i])) lastLine = i + 1;
         }
-        return new Builder(sourceName, root, overrides ?? new Dictionary<string, string>(), lastLine).Build();
+        return new Builder(sourceName, root, overrides ?? new Dictionary<string, string>(), lastLine, lenient).Build();
+    }
+
+    /// <summary>
+    /// The number of sites of the model file at the given overrides, reading only its parameters and
+    /// lattice (cheap even for very large lattices: no terms are built).
+    /// </summary>
+    public static int CountSites(string path, IReadOnlyDictionary<string, string>? overrides = null)
+    {
+        ArgumentNullException.ThrowIfNull(path);
+        string text = File.ReadAllText(path);
+        var root = TomlTree.Parse(text, path);
+        return new Builder(path, root, overrides ?? new Dictionary<string, string>(), 1, lenient: true).CountSites();
     }
 
     /// <summary>

@@ -53,18 +53,17 @@ public class CheckTests
     [Fact]
     public void SpinMultiplets_RandomHeisenberg_RebuildTheDenseSpectrum()
     {
-        // Each S block, repeated 2S+1 times (one copy per S^z), must give the full spectrum of H from a dense
-        // diagonalisation (MathNet): the SU(2) multiplet structure, independent of the sector code.
+        // Each total-spin block, repeated 2S+1 times (one copy per S^z), must give the full spectrum of H from
+        // a dense diagonalisation (MathNet): the SU(2) multiplet structure, independent of the sector code.
         int n = 8;
         var h = Families.HeisenbergAllToAll(n, seed: 3);
-        var blocks = SpinMultipletLevels.Resolve(h, reflection: false, threads: 2, out var problem);
-        Assert.NotNull(blocks);
-        Assert.Null(problem);
+        var a = OpGrowth.Symmetry.SymmetryDiscovery.Analyze(h, Lattice.AllToAll(n));
+        Assert.True(a.SpinRotation);
+        var blocks = OpGrowth.Exact.SectorLevels.SpinBlocks(a, threads: 2);
         var rebuilt = new List<double>();
-        foreach (var b in blocks!)
+        foreach (var (spin, levels) in blocks)
         {
-            double s = double.Parse(b.Label.Split('=')[1].Split(',')[0], System.Globalization.CultureInfo.InvariantCulture);
-            for (int m = 0; m < (int)Math.Round(2 * s + 1); m++) rebuilt.AddRange(b.Levels);
+            for (int m = 0; m < (int)Math.Round(2 * spin + 1); m++) rebuilt.AddRange(levels);
         }
         rebuilt.Sort();
         var dense = Dense.Of(n, h.Terms).Evd(Symmetricity.Hermitian).EigenValues.Select(z => z.Real).OrderBy(x => x).ToArray();
@@ -73,12 +72,14 @@ public class CheckTests
         for (int i = 0; i < dense.Length; i++) Assert.Equal(dense[i], rebuilt[i], 1e-9);
     }
 
+    private static Func<int, int, Model?> Itself(Model model) => (n, r) => n >= model.N && r == 0 ? model : null;
+
     [Fact]
     public void LevelCheck_RandomHeisenberg_ResolvesTotalSpin()
     {
         var h = Families.HeisenbergAllToAll(10, seed: 7);
         var model = Model.Of(h, Lattice.AllToAll(10), "heisenberg");
-        var (v, f) = LevelStatisticsCheck.Run([model], new DiagnosisOptions { Threads = 2 });
+        var (v, f) = LevelStatisticsCheck.Run(model, Itself(model), new DiagnosisOptions { Threads = 2 });
         Assert.NotNull(f);
         Assert.Contains(f!.Resolved, r => r.StartsWith("total spin", StringComparison.Ordinal));
         Assert.True(f.Gaps > 100, $"{f.Gaps} gaps");
@@ -88,28 +89,28 @@ public class CheckTests
     [Fact]
     public void LevelCheck_SquareIsing3x3_ResolvesThePointGroup()
     {
-        // The shipped square-lattice model shrunk to 3x3: the check takes the mirrors from the lattice and
-        // resolves mirror x, mirror y (their product is the declared "reflection") and the diagonal, so no
+        // The shipped square-lattice model shrunk to 3x3: the mirrors x and y and the diagonal mirror are found
+        // from the terms and resolved (the diagonal as the swap that splits and pairs the mirror sectors), so no
         // spatial symmetry is left unresolved (a Poisson-like <r> would then be trusted).
         var model = ModelLoader.Load(ShippedModels.Resolve("square-ising"), new Dictionary<string, string> { ["Lx"] = "3", ["Ly"] = "3" });
-        var (_, f) = LevelStatisticsCheck.Run([model], new DiagnosisOptions { Threads = 2 });
+        var (_, f) = LevelStatisticsCheck.Run(model, Itself(model), new DiagnosisOptions { Threads = 2 });
         Assert.NotNull(f);
-        Assert.Equal(["mirror-x", "mirror-y", "reflection", "diagonal"], f!.Resolved);
+        Assert.Contains("mirror x", f!.Resolved);
+        Assert.Contains("mirror y", f.Resolved);
+        Assert.Contains(f.Resolved, r => r.StartsWith("diagonal mirror", StringComparison.Ordinal));
         Assert.Empty(f.Unresolved);
-        Assert.Equal(5, f.Sectors.Count);
+        Assert.Equal(f.FullDimension, f.DimensionCovered);
     }
 
     [Fact]
-    public void SpatialCandidates_LadderAndSquare_AreLatticeMirrors()
+    public void Candidates_LadderAndSquare_AreLatticeMirrors()
     {
-        // Ladder sites 2x + leg: mirror y swaps the legs; the product of the mirrors is the reversal N-1-j.
-        var (lad, swap) = LevelStatisticsCheck.SpatialCandidates(Lattice.Ladder(3));
-        Assert.Null(swap);
-        Assert.Equal([1, 0, 3, 2, 5, 4], lad.Single(p => p.Name == "mirror-y").Map);
-        Assert.Equal([4, 5, 2, 3, 0, 1], lad.Single(p => p.Name == "mirror-x").Map);
-        var (sq, diag) = LevelStatisticsCheck.SpatialCandidates(Lattice.Square(2, 2));
-        Assert.Equal([0, 2, 1, 3], diag!.Map);
-        Assert.Equal([3, 2, 1, 0], sq.Single(p => p.Name == "reflection").Map);
+        // Ladder sites 2x + leg: the leg exchange swaps the legs; the mirror along the legs reverses x.
+        var lad = OpGrowth.Symmetry.SymmetryDiscovery.Candidates(Lattice.Ladder(3));
+        Assert.Equal([1, 0, 3, 2, 5, 4], lad.Single(p => p.Name == "leg exchange").Map);
+        Assert.Equal([4, 5, 2, 3, 0, 1], lad.Single(p => p.Name == "mirror along the legs").Map);
+        var sq = OpGrowth.Symmetry.SymmetryDiscovery.Candidates(Lattice.Square(2, 2));
+        Assert.Equal([0, 2, 1, 3], sq.Single(p => p.Name == "diagonal mirror").Map);
     }
 
     // ---------------- test 2: Lanczos growth ----------------

@@ -58,14 +58,6 @@ public class ReportTests
         Assert.All(text.Split('\n'), line => Assert.True(line.TrimEnd('\r').Length <= 100, $"line too long: {line}"));
     }
 
-    [Fact]
-    public void NearSquare_SmallSizes_GiveFactorPairs()
-    {
-        Assert.Equal((3, 4), FamilyMembers.NearSquare(12));
-        Assert.Equal((2, 5), FamilyMembers.NearSquare(10));
-        Assert.Equal((4, 4), FamilyMembers.NearSquare(16));
-    }
-
     private static (int Code, string Out, string Err) Cli(params string[] args)
     {
         var o = new StringWriter();
