@@ -118,7 +118,7 @@ public static class EnsembleReport
             doc.Tables.Add(new ReportTable("side-by-side", "Static model and Brownian counterpart", ["figure", "static", "Brownian"], rows)
             {
                 Intro = "The same analysis on both series at the same N. Errors are in the two reports' headline figures.",
-                Footer = "A Brownian counterpart has no energy conservation: it scrambles at least as fast as its connectivity allows, so a static model slower than its counterpart is held back by its dynamics (conservation laws, integrability, localization), not by its wiring.",
+                Footer = "The counterpart's absolute rates follow the noise convention (rate 4 J_a^2 tau, tau = 1 unless set): compare the kind of growth (ballistic or exponential, t* against N), not the numbers. docs/ensembles.md says when the comparison means something.",
             });
         }
         if (sweep?.Fit is { } sf)
