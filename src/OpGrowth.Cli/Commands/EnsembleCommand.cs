@@ -82,7 +82,7 @@ internal static class EnsembleCommand
         if (string.IsNullOrWhiteSpace(sweep)) return sizes;
         foreach (var part in sweep.Split(',', StringSplitOptions.RemoveEmptyEntries | StringSplitOptions.TrimEntries))
         {
-            if (!int.TryParse(part, NumberStyles.None, Inv, out int n) || n < 2) throw new InputException($"--sweep: found '{part}'; expected sizes such as 16,64,256");
+            if (!int.TryParse(part, NumberStyles.None, Inv, out int n) || n < 2) throw new InputException($"--sweep: found '{part}'; expected sizes such as 8,12,16");
             sizes.Add(n);
         }
         return sizes;

@@ -70,15 +70,7 @@ internal static class RunCommand
             return EnsembleCommand.Execute(modelArg ?? ScramblingRunOptions.DefaultModel, sets, outDir, effort, null, 1, threads, time, 1, "auto", sweep, null, ct);
         string path = ShippedModels.Resolve(modelArg ?? ScramblingRunOptions.DefaultModel);
         var overrides = ModelLoader.ParseOverrides(sets, path);
-        var sizes = new List<int>();
-        if (!string.IsNullOrWhiteSpace(sweep))
-        {
-            foreach (var part in sweep.Split(',', StringSplitOptions.RemoveEmptyEntries | StringSplitOptions.TrimEntries))
-            {
-                if (!int.TryParse(part, NumberStyles.None, Inv, out int n) || n < 2) throw new InputException($"--sweep: found '{part}'; expected sizes such as 8,12,16");
-                sizes.Add(n);
-            }
-        }
+        var sizes = EnsembleCommand.ParseSizes(sweep);
         using var lf = CliHost.CreateLoggerFactory(LogLevel.Information);
         var log = lf.CreateLogger("run");
         var options = new ScramblingRunOptions

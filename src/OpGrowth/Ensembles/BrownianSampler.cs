@@ -26,11 +26,8 @@ public static class BrownianSampler
     public static EnsembleSeries Run(BrownianModel model, PauliString probe, EnsembleOptions options)
     {
         ArgumentNullException.ThrowIfNull(model);
-        ArgumentNullException.ThrowIfNull(probe);
         ArgumentNullException.ThrowIfNull(options);
-        options.Validate();
-        if (probe.N != model.N) throw new IO.InputException($"probe on {probe.N} qubits for a model of {model.N}; expected the same number");
-        if (probe.IsIdentity) throw new IO.InputException("the identity as probe; expected a non-identity Pauli string");
+        options.Validate(probe, model.N, "model");
         if (Math.Abs(model.NoiseTime - options.NoiseTime) > 1e-15 * model.NoiseTime)
             throw new ArgumentException($"the model was built with noise time {model.NoiseTime} and the options ask for {options.NoiseTime}", nameof(options));
         int n = model.N;

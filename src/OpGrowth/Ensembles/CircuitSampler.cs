@@ -30,11 +30,8 @@ public static class CircuitSampler
     public static EnsembleSeries Run(Circuit circuit, PauliString probe, EnsembleOptions options)
     {
         ArgumentNullException.ThrowIfNull(circuit);
-        ArgumentNullException.ThrowIfNull(probe);
         ArgumentNullException.ThrowIfNull(options);
-        options.Validate();
-        if (probe.N != circuit.N) throw new IO.InputException($"probe on {probe.N} qubits for a circuit of {circuit.N}; expected the same number");
-        if (probe.IsIdentity) throw new IO.InputException("the identity as probe; expected a non-identity Pauli string");
+        options.Validate(probe, circuit.N, "circuit");
         if (circuit.Layers < 1) throw new IO.InputException($"layers {circuit.Layers}; expected at least 1");
         var schedule = new GateSchedule(circuit);
         int n = circuit.N;

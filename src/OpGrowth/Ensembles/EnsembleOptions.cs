@@ -30,6 +30,15 @@ public sealed record EnsembleOptions
     /// <summary>Stops the sampling (throws <see cref="OperationCanceledException"/>).</summary>
     public CancellationToken Cancellation { get; init; }
 
+    /// <summary>Checks the options and the probe of a system of <paramref name="n"/> qubits (<paramref name="what"/>: "circuit", "model").</summary>
+    internal void Validate(OpGrowth.Pauli.PauliString probe, int n, string what)
+    {
+        ArgumentNullException.ThrowIfNull(probe);
+        Validate();
+        if (probe.N != n) throw new IO.InputException($"probe on {probe.N} qubits for a {what} of {n}; expected the same number");
+        if (probe.IsIdentity) throw new IO.InputException("the identity as probe; expected a non-identity Pauli string");
+    }
+
     internal void Validate()
     {
         if (Samples < 2) throw new IO.InputException($"samples {Samples}; expected at least 2 (the sampling error needs two)");

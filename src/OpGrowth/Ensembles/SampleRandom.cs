@@ -10,44 +10,20 @@ namespace OpGrowth.Ensembles;
 /// </remarks>
 internal struct SampleRandom
 {
-    private ulong _s0, _s1, _s2, _s3;
+    // The project's xoshiro256** stream (Models.ModelRandom), seeded from (seed, sample): one object per sample, none per gate.
+    private readonly OpGrowth.Models.ModelRandom _r;
     private ulong _bits;
     private int _left;
 
     public SampleRandom(long seed, long sample)
     {
-        ulong sm = unchecked((ulong)seed * 0x9E3779B97F4A7C15UL ^ ((ulong)sample + 0x632BE59BD9B4E019UL) * 0xBF58476D1CE4E5B9UL);
-        _s0 = SplitMix(ref sm);
-        _s1 = SplitMix(ref sm);
-        _s2 = SplitMix(ref sm);
-        _s3 = SplitMix(ref sm);
+        _r = new OpGrowth.Models.ModelRandom(unchecked((long)((ulong)seed * 0x9E3779B97F4A7C15UL ^ ((ulong)sample + 0x632BE59BD9B4E019UL) * 0xBF58476D1CE4E5B9UL)));
         _bits = 0;
         _left = 0;
     }
 
-    private static ulong SplitMix(ref ulong s)
-    {
-        ulong z = s += 0x9E3779B97F4A7C15UL;
-        z = (z ^ (z >> 30)) * 0xBF58476D1CE4E5B9UL;
-        z = (z ^ (z >> 27)) * 0x94D049BB133111EBUL;
-        return z ^ (z >> 31);
-    }
-
     /// <summary>64 uniform bits.</summary>
-    public ulong Next()
-    {
-        ulong result = BitRotate(_s1 * 5, 7) * 9;
-        ulong t = _s1 << 17;
-        _s2 ^= _s0;
-        _s3 ^= _s1;
-        _s1 ^= _s2;
-        _s0 ^= _s3;
-        _s2 ^= t;
-        _s3 = BitRotate(_s3, 45);
-        return result;
-    }
-
-    private static ulong BitRotate(ulong x, int k) => (x << k) | (x >> (64 - k));
+    public readonly ulong Next() => _r.NextUInt64();
 
     /// <summary>Uniform in (0, 1], never 0 (safe for a logarithm).</summary>
     public double NextOpenDouble() => ((Next() >> 11) + 1) * (1.0 / (1UL << 53));
@@ -70,25 +46,14 @@ internal struct SampleRandom
         return (int)(m >> 32);
     }
 
-    /// <summary>Uniform in 1..15: a non-identity two-qubit Pauli code (4 bits at a time, 0 rejected).</summary>
-    public int NextNonIdentityPair()
-    {
-        while (true)
-        {
-            if (_left == 0)
-            {
-                _bits = Next();
-                _left = 16;
-            }
-            int r = (int)(_bits & 15);
-            _bits >>= 4;
-            _left--;
-            if (r != 0) return r;
-        }
-    }
+    /// <summary>Uniform in 1..15: a non-identity two-qubit Pauli code.</summary>
+    public int NextNonIdentityPair() => NextNonZero(15);
 
-    /// <summary>Uniform in 1..3: a non-identity single-qubit Pauli code (2 bits at a time, 0 rejected).</summary>
-    public int NextNonIdentitySingle()
+    /// <summary>Uniform in 1..3: a non-identity single-qubit Pauli code.</summary>
+    public int NextNonIdentitySingle() => NextNonZero(3);
+
+    /// <summary>Uniform in 1..mask (mask 15 or 3): 4 buffered bits per try, masked, 0 rejected.</summary>
+    private int NextNonZero(int mask)
     {
         while (true)
         {
@@ -97,7 +62,7 @@ internal struct SampleRandom
                 _bits = Next();
                 _left = 16;
             }
-            int r = (int)(_bits & 3);
+            int r = (int)(_bits & (ulong)mask);
             _bits >>= 4;
             _left--;
             if (r != 0) return r;
