@@ -15,6 +15,7 @@ internal static class CommandRegistry
         yield return SweepCommand.Create();
         yield return CollectCommand.Create();
         yield return RunCommand.Create();
+        yield return EnsembleCommand.Create();
         yield return DiagnoseCommand.Create();
         yield return CompareCommand.Create();
     }

@@ -32,16 +32,18 @@ internal static class RunCommand
         var noLanczos = new Option<bool>("--no-lanczos") { Description = "Skip the Lanczos coefficients." };
         var noDiagnosis = new Option<bool>("--no-diagnosis") { Description = "Skip the diagnosis battery." };
         var sweep = new Option<string?>("--sweep") { Description = "Also run t*(N) at these sizes, e.g. 8,10,12, and fit t* = a + b ln N against t* = a + N/v (results kept in <out>/sweep; a rerun reuses finished sizes)." };
+        var ensemble = new Option<string>("--ensemble") { Description = "static (the model as written), brownian (its white-noise counterpart, as opgrowth ensemble), or both side by side at the same N (counterpart report in <out>/brownian). A circuit file always runs its random-circuit ensemble.", DefaultValueFactory = _ => "static" };
+        ensemble.AcceptOnlyFromAmong("static", "brownian", "both");
         var cmd = new Command("run",
             "From a model to a scrambling report in one command: Heisenberg evolution of the model's first probe with the convergence ladder " +
             "(size growth, OTOC light cone, v_B or growth rate, saturation, t*), Lanczos coefficients with their growth class, and the Pauli engine " +
             "checked against the exact engine at a small N of the same family, a bounded diagnosis battery (does it scramble, and if not, why), and optionally t*(N). Writes report.html, report.md, figures, results.json, CSV series and manifest.json.\n\n" +
             "Examples:\n  opgrowth run\n  opgrowth run mixed-field-ising --set N=10 --effort quick --out runs/mfi\n  opgrowth run demo/tilted-chain --sweep 8,10,12")
         {
-            model, set, outDir, effort, memory, threads, time, noExact, noLanczos, noDiagnosis, sweep,
+            model, set, outDir, effort, memory, threads, time, noExact, noLanczos, noDiagnosis, sweep, ensemble,
         };
         cmd.SetAction(pr => CliHost.Run(ct => Execute(pr.GetValue(model), pr.GetValue(set) ?? [], pr.GetValue(outDir), pr.GetValue(effort)!, pr.GetValue(memory),
-            pr.GetValue(threads), pr.GetValue(time), pr.GetValue(noExact), pr.GetValue(noLanczos), pr.GetValue(noDiagnosis), pr.GetValue(sweep), ct)));
+            pr.GetValue(threads), pr.GetValue(time), pr.GetValue(noExact), pr.GetValue(noLanczos), pr.GetValue(noDiagnosis), pr.GetValue(sweep), pr.GetValue(ensemble)!, ct)));
         return cmd;
     }
 
@@ -59,19 +61,16 @@ internal static class RunCommand
         }
     }
 
-    private static int Execute(string? modelArg, string[] sets, string? outDir, string effort, long? memory, int threads, double? time, bool noExact, bool noLanczos, bool noDiagnosis, string? sweep, CancellationToken ct)
+    private static int Execute(string? modelArg, string[] sets, string? outDir, string effort, long? memory, int threads, double? time, bool noExact, bool noLanczos, bool noDiagnosis, string? sweep, string ensemble, CancellationToken ct)
     {
+        // Random circuits and Brownian counterparts: the ensemble route (docs/ensembles.md).
+        if (modelArg is not null && OpGrowth.Ensembles.ShippedCircuits.TryResolve(modelArg) is { } circuitPath && OpGrowth.Ensembles.CircuitLoader.IsCircuitFile(circuitPath))
+            return EnsembleCommand.Execute(circuitPath, sets, outDir, effort, null, 1, threads, time, 1, "auto", sweep, null, ct);
+        if (ensemble == "brownian")
+            return EnsembleCommand.Execute(modelArg ?? ScramblingRunOptions.DefaultModel, sets, outDir, effort, null, 1, threads, time, 1, "auto", sweep, null, ct);
         string path = ShippedModels.Resolve(modelArg ?? ScramblingRunOptions.DefaultModel);
         var overrides = ModelLoader.ParseOverrides(sets, path);
-        var sizes = new List<int>();
-        if (!string.IsNullOrWhiteSpace(sweep))
-        {
-            foreach (var part in sweep.Split(',', StringSplitOptions.RemoveEmptyEntries | StringSplitOptions.TrimEntries))
-            {
-                if (!int.TryParse(part, NumberStyles.None, Inv, out int n) || n < 2) throw new InputException($"--sweep: found '{part}'; expected sizes such as 8,12,16");
-                sizes.Add(n);
-            }
-        }
+        var sizes = EnsembleCommand.ParseSizes(sweep);
         using var lf = CliHost.CreateLoggerFactory(LogLevel.Information);
         var log = lf.CreateLogger("run");
         var options = new ScramblingRunOptions
@@ -120,6 +119,12 @@ internal static class RunCommand
         }
         if (result.CrossCheck is { Ran: false } x) o.WriteLine($"  exact cross-check skipped: {x.SkipReason}");
         o.WriteLine($"report: {Path.Combine(result.Folder, "report.html")}");
+        if (ensemble == "both" && !result.Cancelled && result.Evolution is { } ev && ev.Figures.Count > 0)
+        {
+            var recs = ev.Main.Records;
+            var stat = new OpGrowth.Ensembles.StaticComparison($"static model (truncated, {ev.Main.Budget.MaxStrings:N0} strings)", recs.Select(x => x.Time).ToArray(), recs.Select(x => x.MeanSize).ToArray(), ev.Figures[0], recs[^1].DiscardedTotal);
+            EnsembleCommand.Execute(path, sets, Path.Combine(result.Folder, "brownian"), effort, null, 1, threads, result.EvolutionOptions.Time, 1, "auto", null, stat, ct);
+        }
         if (result.Cancelled) throw new OperationCanceledException();
         if (result.Evolution is { ResourceLimited: true } e) throw new ResourceLimitException($"{e.StopReason} (partial report written to {result.Folder})");
         return ExitCodes.Ok;
