@@ -69,7 +69,7 @@ internal static class DiagnoseCommand
         if (thermalN is not null) o = o with { ThermalN = ParseInt(thermalN, "--thermal-n", 4, 24) };
         if (thermalSizes is not null) o = o with { ThermalExtraSizes = ParseList(thermalSizes, "--thermal-sizes", s => ParseInt(s, "--thermal-sizes", 4, 24)) };
         if (betas is not null) o = o with { BetaEpsilon = ParseList(betas, "--betas", s => ParseDouble(s, "--betas", 1e-6, 1e3)) };
-        if (skipText is not null) o = o with { Skip = ParseList(skipText, "--skip", s => ParseInt(s, "--skip", 1, 6)).ToHashSet() };
+        if (skipText is not null) o = o with { Skip = ParseList(skipText, "--skip", s => ParseInt(s, "--skip", 1, 7)).ToHashSet() };
         var members = FamilyMembers.FromFile(path, overrides, model);
 
         DiagnosisReport report;

@@ -11,14 +11,25 @@ public sealed record MazurEntry(string Probe, double Bound, IReadOnlyList<MazurS
 /// <param name="Share">(Q|A)^2 / ((Q|Q)(A|A)).</param>
 public sealed record MazurShare(string Label, double Share);
 
+/// <summary>One conserved operator found, with its class.</summary>
+/// <param name="Class">"the Hamiltonian", "conserved total (U(1) symmetry)", "symmetry algebra (...)" or "local charge outside the symmetry algebra (integrability)".</param>
+/// <param name="Operator">Its strongest terms.</param>
+public sealed record ConservedCharge(string Class, string Operator);
+
 /// <summary>What test 5 (conserved quantities) measured.</summary>
 public sealed record ConservedFindings
 {
     /// <summary>Cluster size of the search.</summary>
     public required int ClusterN { get; init; }
 
-    /// <summary>Largest string weight searched.</summary>
+    /// <summary>Largest string weight searched (translation-invariant mode: largest word length).</summary>
     public required int MaxWeight { get; init; }
+
+    /// <summary>"cluster" (local strings on a small cluster) or "translation-invariant" (densities on a ring from the chain's unit cell).</summary>
+    public string Mode { get; init; } = "cluster";
+
+    /// <summary>Every conserved operator found with its class (recognised first).</summary>
+    public IReadOnlyList<ConservedCharge> Charges { get; init; } = [];
 
     /// <summary>Number of strings searched.</summary>
     public required int SearchDimension { get; init; }

@@ -42,6 +42,17 @@ public static class DiagnosisBattery
         bool Skip(int k) => options.Skip.Contains(k);
         int levelN = model.IsDriven ? FloquetLevelStatistics.DrivenSize(options.LevelN) : options.LevelN; // drives: general (non-Hermitian) blocks, costlier
 
+        // 7: the structure of the terms (commuting, free-fermion frustration graph, conserved strings), exact at full size.
+        StructureFindings? structure = null;
+        if (Skip(7)) tests.Add(TestVerdict.NotRun(StructureCheck.Number, StructureCheck.Name, "skipped"));
+        else
+        {
+            log?.LogInformation("test 7: term structure");
+            var (v, f) = Guard(StructureCheck.Number, StructureCheck.Name, () => StructureCheck.Run(model, options, ct));
+            tests.Add(v);
+            structure = f;
+        }
+
         // 5: conserved quantities first (test 3 compares with its Mazur bounds).
         ConservedFindings? conserved = null;
         if (Skip(5)) tests.Add(TestVerdict.NotRun(5, ConservationCheck.Name, "skipped"));
@@ -154,6 +165,7 @@ public static class DiagnosisBattery
             Spreading = spreading,
             Conserved = conserved,
             Thermal = thermal,
+            Structure = structure,
         };
     }
 

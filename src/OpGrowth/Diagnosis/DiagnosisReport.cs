@@ -60,6 +60,9 @@ public sealed record DiagnosisReport
     /// <summary>Test 6 data.</summary>
     public ThermalFindings? Thermal { get; init; }
 
+    /// <summary>Test 7 data (term structure).</summary>
+    public StructureFindings? Structure { get; init; }
+
     private static readonly JsonSerializerOptions Json = new()
     {
         WriteIndented = true,
