@@ -96,7 +96,26 @@ public static class LanczosGrowthCheck
         {
             if (u[n] > MaxRelativeUncertainty * Math.Abs(b[n])) { used = n; break; }
         }
+        // A finite system: the b_n stop growing once the operator fills the system (Parker et al. 2019: linear
+        // growth lasts up to n ~ N); only the window before that is fitted.
+        string? saturation = null;
+        if (!chain)
+        {
+            int cut = SaturationCut(b.Take(used).ToArray(), model.N);
+            if (cut < used)
+            {
+                saturation = $"b_n of the finite system stop growing after n = {cut} (finite-size saturation; N = {model.N}{OperatorSpaceNote(model)}): only b_1..b_{cut} fitted";
+                used = cut;
+            }
+        }
         var (kind, formula, delta, alpha, alphaErr, window) = Classify(b.Take(used).ToArray());
+        if (!chain && kind == "sqrt")
+        {
+            // sqrt(n) from a finite (or truncated) system is not evidence: n/ln n and the bending of finite-size
+            // saturation look the same over this window; only exact infinite-chain coefficients can tell.
+            kind = "undecided";
+            saturation = (saturation is null ? string.Empty : saturation + "; ") + "sqrt(n) fits best, but a finite system's b_n bend like sqrt(n) near saturation and n/ln n is also concave: not counted as integrability evidence";
+        }
         string stop = est.Reference.StopMessage;
         if (limit.Spent && !ct.IsCancellationRequested) stop = $"{limit.Describe(o.LanczosSeconds, o.EffectiveThreads)} after b_{b.Count}";
         return new LanczosProbeFindings
@@ -113,10 +132,38 @@ public static class LanczosGrowthCheck
             AlphaError = alphaErr,
             WindowStart = window.Item1,
             WindowEnd = window.Item2,
-            StopMessage = stop,
+            StopMessage = saturation is null ? stop : string.IsNullOrEmpty(stop) ? saturation : $"{stop}; {saturation}",
             DiscardedWeight = est.Reference.TotalDiscardedWeight,
             Seconds = sw.Elapsed.TotalSeconds,
         };
+    }
+
+    /// <summary>Fewest coefficients in the fit window for a class to count as evidence (common practice).</summary>
+    public const int MinimumWindow = 10;
+
+    /// <summary>AIC margin over the best fit of another kind for strong evidence (common practice: Burnham and Anderson (2002) read a margin above 6-10 as strong).</summary>
+    public const double StrongDeltaAic = 6;
+
+    /// <summary>
+    /// Where the b_n of a finite system stop growing: n = min(N, first n with a stall), a stall being a
+    /// mean slope over the next four coefficients below a third of the mean slope so far (common practice).
+    /// </summary>
+    internal static int SaturationCut(IReadOnlyList<double> b, int n)
+    {
+        int cut = Math.Min(b.Count, n);
+        for (int k = 6; k + 4 <= cut; k++)
+        {
+            double overall = (b[k - 1] - b[0]) / (k - 1);
+            double local = (b[k + 3] - b[k - 1]) / 4;
+            if (overall > 0 && local < overall / 3) return k;
+        }
+        return cut;
+    }
+
+    private static string OperatorSpaceNote(Model model)
+    {
+        double log10 = model.N * Math.Log10(4);
+        return FormattableString.Invariant($"; operator space of dimension 4^{model.N} - 1 ~ 1e{log10:0}");
     }
 
     /// <summary>Kind of a growth class: "linear" for n and n/ln n, "sqrt", "bounded".</summary>
@@ -136,19 +183,23 @@ public static class LanczosGrowthCheck
     {
         ArgumentNullException.ThrowIfNull(b);
         if (b.Count < 6) return ("undecided", null, 0, double.NaN, double.NaN, (0, 0));
-        var g = LanczosGrowth.Fit(b);
+        int start = Math.Max(3, (int)Math.Ceiling(b.Count / 4.0));
+        if (b.Count - start + 1 < 4) start = Math.Max(2, b.Count - 3);
+        var g = LanczosGrowth.Fit(b, start, b.Count);
         var best = g.Best;
         string kind = KindOf(best.Class);
         var other = g.Fits.Where(f => KindOf(f.Class) != kind).MinBy(f => f.Aic);
         double delta = other is null ? double.PositiveInfinity : other.Aic - best.Aic;
         bool flat = !(g.Alpha > 3 * g.AlphaError) || (best.Class != GrowthClass.Bounded && best.A <= 0);
-        if (flat)
+        if (flat && g.WindowEnd - g.WindowStart + 1 >= MinimumWindow)
         {
             var bounded = g.Fits.First(f => f.Class == GrowthClass.Bounded);
             return ("bounded", bounded.Formula, Math.Max(0, delta), g.Alpha, g.AlphaError, (g.WindowStart, g.WindowEnd));
         }
         if (kind == "bounded") kind = "undecided"; // significant slope but a constant fits best: contradictory, do not decide
-        if (delta < DiagnosisThresholds.LanczosDeltaAic) kind = "undecided";
+        // Evidence needs depth and margin: over a short window n/ln n, n and sqrt(n) are hard to tell apart.
+        int points = g.WindowEnd - g.WindowStart + 1;
+        if (delta < StrongDeltaAic || points < MinimumWindow) kind = "undecided";
         return (kind, best.Formula, delta, g.Alpha, g.AlphaError, (g.WindowStart, g.WindowEnd));
     }
 
@@ -160,7 +211,7 @@ public static class LanczosGrowthCheck
         string figure = string.Join("; ", f.Probes.Select(p => string.Create(inv,
             $"{p.Probe}: {p.Kind}{(p.BestFormula is null ? string.Empty : $" ({p.BestFormula}, n = {p.WindowStart}..{p.WindowEnd}, dAIC {p.DeltaAic:0.0})")}")));
         string threshold = string.Create(inv,
-            $"best class by AIC, decided when the best fit of another kind trails by >= {DiagnosisThresholds.LanczosDeltaAic}; bounded when the slope alpha is below 3 standard errors");
+            $"best class by AIC over at least {MinimumWindow} coefficients before any finite-size saturation, decided when the best fit of another kind trails by >= {StrongDeltaAic} (strong evidence); bounded when the slope alpha is below 3 standard errors");
         const string source = "Parker, Cao, Avdoshkin, Scaffidi, Altman, PRX 9, 041017 (2019); AIC margin and 3 sigma: common practice";
         var notes = f.Probes.Where(p => !string.IsNullOrEmpty(p.StopMessage)).Select(p => $"{p.Probe}: {p.StopMessage}").ToList();
         foreach (var p in f.Probes.Where(p => p.DiscardedWeight > 0))
@@ -181,8 +232,8 @@ public static class LanczosGrowthCheck
         if (bounded is not null)
         {
             return V(TestOutcome.Fails, string.Create(inv,
-                $"the Lanczos coefficients of {bounded.Probe} stay bounded (slope {bounded.Alpha:0.###} +- {bounded.AlphaError:0.###}): the operator never leaves a small (quadratic or localized) operator space"),
-                Mechanism.FreeFermions, Mechanism.Localized);
+                $"the Lanczos coefficients of {bounded.Probe} stay bounded (slope {bounded.Alpha:0.###} +- {bounded.AlphaError:0.###}): the operator stays in a small operator space (localized, or quadratic in fermions; only test 7 can say free)"),
+                Mechanism.Localized, Mechanism.FreeFermions);
         }
         bool anyLinear = f.Probes.Any(p => p.Kind == "linear");
         var sqrt = f.Probes.FirstOrDefault(p => p.Kind == "sqrt");
@@ -198,6 +249,6 @@ public static class LanczosGrowthCheck
         }
         return V(TestOutcome.Inconclusive, anyLinear && sqrt is not null
             ? "probes disagree (one linear, one sqrt(n)): no single growth class"
-            : "no growth class is preferred clearly enough over the computed coefficients (raise --effort for more b_n)");
+            : $"undecided: no growth class leads by at least {StrongDeltaAic} in AIC over {MinimumWindow} or more coefficients (in one dimension n/ln n and sqrt(n) need depth to be told apart; a higher effort computes more b_n)");
     }
 }
