@@ -19,7 +19,8 @@ internal static class DiagnoseCommand
     {
         var model = new Argument<string>("MODEL") { Description = "Model file (.toml) or the name of a shipped model (see 'opgrowth models')." };
         var set = new Option<string[]>("--set") { Description = "Override a model parameter: NAME=VALUE. Repeat for several.", Arity = ArgumentArity.ZeroOrMore, AllowMultipleArgumentsPerToken = false };
-        var effort = new Option<string>("--effort") { Description = "Scale every budget (string budgets, samples, Lanczos depth, evolution time, small sizes): 1 is the default battery (about ten minutes for 24 sites on two cores), 2 or 4 look harder, 0.25 is a quick look.", DefaultValueFactory = _ => "1" };
+        var effort = new Option<string>("--effort") { Description = "quick (a first look, well under a minute), standard (a few minutes), thorough (larger members, deeper Lanczos, longer evolutions): the same batteries as 'run'.", DefaultValueFactory = _ => "standard" };
+        effort.AcceptOnlyFromAmong([.. DiagnosisOptions.EffortNames]);
         var maxWeight = new Option<string>("--max-weight") { Description = "Largest string weight k in the conserved-quantity search.", DefaultValueFactory = _ => "2" };
         var levelN = new Option<string?>("--level-n") { Description = "Size of the smaller member for level statistics (default 12, scaled by --effort)." };
         var clusterN = new Option<string?>("--cluster-n") { Description = "Cluster size of the conserved-quantity search (default 10)." };
@@ -27,7 +28,7 @@ internal static class DiagnoseCommand
         var thermalSizes = new Option<string?>("--thermal-sizes") { Description = "Further sizes for the low-temperature plateau's N dependence, e.g. \"8,10\"." };
         var betas = new Option<string?>("--betas") { Description = "Inverse temperatures in units of 1/epsilon (epsilon = sqrt(||H||^2/N)), e.g. \"0.5,1,2\"." };
         var realizations = new Option<string>("--realizations") { Description = "Disorder realisations for level statistics (the 'seed' parameter is stepped).", DefaultValueFactory = _ => "1" };
-        var skip = new Option<string?>("--skip") { Description = "Tests to skip, e.g. \"2,6\" (1 levels, 2 Lanczos, 3 size, 4 front, 5 conserved, 6 finite temperature)." };
+        var skip = new Option<string?>("--skip") { Description = "Tests to skip, e.g. \"2,6\" (1 levels, 2 Lanczos, 3 size, 4 front, 5 conserved, 6 finite temperature, 7 term structure)." };
         var threads = new Option<string>("--threads") { Description = "Worker threads (0 = all cores).", DefaultValueFactory = _ => "0" };
         var seed = new Option<string>("--seed") { Description = "Seed of the random states.", DefaultValueFactory = _ => "1" };
         var json = new Option<bool>("--json") { Description = "Write the report as JSON on stdout instead of the table." };
@@ -37,7 +38,7 @@ internal static class DiagnoseCommand
             "operator size and autocorrelation, operator front, local conserved quantities with Mazur bounds, and " +
             "finite-temperature OTOC growth and freezing; prints a verdict per test (scrambles / fails / inconclusive) " +
             "with figure, threshold and reason, and an overall verdict with the leading mechanism.\n\n" +
-            "Examples:\n  opgrowth diagnose demo/xxz-chain\n  opgrowth diagnose mixed-field-ising --set N=20 --json\n" +
+            "Examples:\n  opgrowth diagnose demo/xxz-chain\n  opgrowth diagnose my-model.toml --effort quick\n  opgrowth diagnose mixed-field-ising --set N=20 --json\n" +
             "  opgrowth diagnose heisenberg-all-to-all --set N=20 --thermal-sizes 8,10 --out diag-heis")
         {
             model, set, effort, maxWeight, levelN, clusterN, thermalN, thermalSizes, betas, realizations, skip, threads, seed, json, outDir,
@@ -55,8 +56,7 @@ internal static class DiagnoseCommand
         string path = ShippedModels.Resolve(modelArg);
         var overrides = ModelLoader.ParseOverrides(sets, path);
         var model = ModelLoader.Load(path, overrides);
-        double effort = ParseDouble(effortText, "--effort", 0.01, 100);
-        var o = new DiagnosisOptions().WithEffort(effort);
+        var o = DiagnosisOptions.For(effortText);
         o = o with
         {
             MaxWeight = ParseInt(maxWeightText, "--max-weight", 1, 4),

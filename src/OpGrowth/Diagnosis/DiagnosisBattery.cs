@@ -14,6 +14,9 @@ namespace OpGrowth.Diagnosis;
 /// </summary>
 public static class DiagnosisBattery
 {
+    /// <summary>A model with no smaller member is used itself by the small-size tests when it has at most this many sites more than they ask for.</summary>
+    public const int SelfCheckMargin = 4;
+
     /// <summary>Runs the battery on <paramref name="model"/>; <paramref name="smaller"/> builds the smaller members for tests 1, 5 and 6.</summary>
     public static DiagnosisReport Run(Model model, SmallerMember? smaller, DiagnosisOptions options, CancellationToken ct = default)
     {
@@ -31,7 +34,11 @@ public static class DiagnosisBattery
             if (model.N <= n && r == 0) return model;
             try
             {
-                return smaller?.Invoke(n, r);
+                var m = smaller?.Invoke(n, r);
+                // a model without a size parameter (an edge list, fixed numbers) that is small enough for the
+                // exact methods is checked on itself
+                if (m is null && r == 0 && model.N <= n + SelfCheckMargin) return model;
+                return m;
             }
             catch (InputException ex)
             {
@@ -60,7 +67,7 @@ public static class DiagnosisBattery
         {
             log?.LogInformation("test 5/6: conserved quantities");
             var cluster = Small(options.ClusterN);
-            if (cluster is null) tests.Add(TestVerdict.NotRun(5, ConservationCheck.Name, $"no smaller member of N = {options.ClusterN} (the model has no size parameter N)"));
+            if (cluster is null) tests.Add(TestVerdict.NotRun(5, ConservationCheck.Name, $"no member of the family with at most {options.ClusterN} sites (the model has {model.N} sites and no size parameter; name one with size = \"...\" in the model file)"));
             else
             {
                 var (v, f) = Guard(5, ConservationCheck.Name, () => ConservationCheck.Run(model, cluster, options, ct));
@@ -128,7 +135,7 @@ public static class DiagnosisBattery
         {
             log?.LogInformation("test 6/6: finite temperature");
             var small = Small(options.ThermalN);
-            if (small is null) tests.Add(TestVerdict.NotRun(6, FiniteTemperatureCheck.Name, $"no smaller member of N = {options.ThermalN} (the model has no size parameter N)"));
+            if (small is null) tests.Add(TestVerdict.NotRun(6, FiniteTemperatureCheck.Name, $"no member of the family with at most {options.ThermalN} sites (the model has {model.N} sites and no size parameter; name one with size = \"...\" in the model file)"));
             else
             {
                 var extra = options.ThermalExtraSizes.Where(n => n != small.N).Select(n => Small(n)).Where(m => m is not null).Select(m => m!).ToArray();
@@ -139,7 +146,7 @@ public static class DiagnosisBattery
         }
 
         tests.Sort((a, b) => a.Number.CompareTo(b.Number));
-        var overall = VerdictRules.Decide(tests, spreading, model.IsDriven);
+        var overall = VerdictRules.Decide(tests, spreading, model.IsDriven, conserved);
         if (model.IsDisordered) caveats.Add("random couplings: one disorder realisation per size, and the smaller members draw their own couplings");
         caveats.Add($"tests 1, 5 and 6 and the operator-size saturation of test 3 use smaller members of the family (N = {Math.Min(model.N, levelN)}, {Math.Min(model.N, options.ClusterN)}, {Math.Min(model.N, options.ThermalN)}, {Math.Min(model.N, options.SizeN)}); finite-size effects are strong there");
         if (spreading is not null && spreading.Runs.Any(r => r.Discarded[^1] > 0)) caveats.Add("tests 3 and 4 keep the top strings of the evolving operator; the discarded weight is reported per probe");

@@ -126,6 +126,38 @@ public sealed record DiagnosisOptions
         };
     }
 
+    /// <summary>The effort names every command accepts, cheapest first.</summary>
+    public static readonly IReadOnlyList<string> EffortNames = ["quick", "standard", "thorough"];
+
+    /// <summary>
+    /// The battery of an effort (the same in <c>diagnose</c> and <c>run</c>): "quick" a first look in well
+    /// under a minute for up to 24 sites on two cores, "standard" (the default) a few minutes, "thorough"
+    /// larger members, deeper Lanczos and longer evolutions. Work is bounded by string budgets, depths, times
+    /// and processor-time limits, so the verdict does not depend on how busy the machine is.
+    /// </summary>
+    public static DiagnosisOptions For(string effort) => effort switch
+    {
+        "quick" => new DiagnosisOptions
+        {
+            LevelN = 10, LevelSeconds = 10, ClusterN = 8, SizeN = 8, SizeTimePoints = 17, ThermalN = 8, ThermalTimePoints = 21,
+            ThermalSamples = 1, BetaEpsilon = [1], ThermalSeconds = 10, LanczosDepth = 16, LanczosMaxStrings = 20_000,
+            LanczosMemoryBytes = 256L << 20, LanczosSeconds = 15, EvolutionMaxStrings = 20_000, EvolutionTime = 10, EvolutionSeconds = 30,
+        },
+        "standard" => new DiagnosisOptions
+        {
+            LevelN = 12, LevelSeconds = 20, ClusterN = 10, SizeN = 10, SizeTimePoints = 25, ThermalN = 10, ThermalTimePoints = 31,
+            ThermalSamples = 3, BetaEpsilon = [0.5, 2], ThermalSeconds = 60, LanczosDepth = 24, LanczosMaxStrings = 200_000,
+            LanczosMemoryBytes = 1L << 30, LanczosSeconds = 40, EvolutionMaxStrings = 50_000, EvolutionTime = 12, EvolutionSeconds = 60,
+        },
+        "thorough" => new DiagnosisOptions
+        {
+            LevelN = 14, LevelSeconds = 120, ClusterN = 12, SizeN = 14, SizeTimePoints = 33, ThermalN = 12, ThermalTimePoints = 41,
+            ThermalSamples = 6, BetaEpsilon = [0.5, 1, 2], ThermalSeconds = 400, LanczosDepth = 32, LanczosMaxStrings = 2_000_000,
+            LanczosMemoryBytes = 4L << 30, LanczosSeconds = 300, EvolutionMaxStrings = 1_000_000, EvolutionTime = 24, EvolutionSeconds = 900,
+        },
+        _ => throw new ArgumentOutOfRangeException(nameof(effort), effort, $"Expected one of {string.Join(", ", EffortNames)}."),
+    };
+
     /// <summary>A reduced battery for tests and quick looks (small sizes, small budgets).</summary>
     public static DiagnosisOptions Quick => new()
     {

@@ -67,11 +67,10 @@ public sealed record DiagnosisReport
     {
         WriteIndented = true,
         PropertyNamingPolicy = JsonNamingPolicy.CamelCase,
-        NumberHandling = JsonNumberHandling.AllowNamedFloatingPointLiterals,
-        Converters = { new JsonStringEnumConverter(JsonNamingPolicy.CamelCase) },
+        Converters = { new JsonStringEnumConverter(JsonNamingPolicy.CamelCase), new NonFiniteAsNull(), new NullableNonFiniteAsNull() },
     };
 
-    /// <summary>The report as indented JSON (enums as camel-case strings, NaN as "NaN").</summary>
+    /// <summary>The report as indented JSON (enums as camel-case strings, NaN and infinities as null).</summary>
     public string ToJson() => JsonSerializer.Serialize(this, Json);
 
     /// <summary>The report as a text table with the details below it.</summary>
@@ -95,7 +94,13 @@ public sealed record DiagnosisReport
         }
         sb.Append(table);
         sb.AppendLine();
-        sb.Append(inv, $"OVERALL: {MechanismNames.Of(Overall.Outcome).ToUpperInvariant()} - leading mechanism: {Overall.LeadingName}").AppendLine();
+        string head = Overall.Outcome switch
+        {
+            TestOutcome.Scrambles => "OVERALL: SCRAMBLES",
+            TestOutcome.Fails => $"OVERALL: FAILS - leading mechanism: {Overall.LeadingName}",
+            _ => Overall.Leading == Mechanism.Undetermined ? "OVERALL: INCONCLUSIVE" : $"OVERALL: INCONCLUSIVE - leaning towards: {Overall.LeadingName}",
+        };
+        sb.Append(head).AppendLine();
         Wrap(sb, $"  {Overall.Reason} (tests {string.Join(", ", Overall.Supporting)}).", width, "  ");
         if (Overall.Others.Count > 0) Wrap(sb, $"  also seen: {string.Join(", ", Overall.Others.Select(MechanismNames.Of))}", width, "  ");
         sb.AppendLine();
@@ -143,3 +148,29 @@ public sealed record DiagnosisReport
 /// <param name="Threads">Threads.</param>
 public sealed record DiagnosisSettings(int LevelN, int ClusterN, int MaxWeight, int SizeN, int ThermalN, IReadOnlyList<double> BetaEpsilon,
     int LanczosDepth, long LanczosMaxStrings, long EvolutionMaxStrings, double EvolutionTime, int Threads);
+
+/// <summary>Writes NaN and infinities as JSON null (a number that is not a number is no value).</summary>
+internal sealed class NonFiniteAsNull : JsonConverter<double>
+{
+    public override double Read(ref Utf8JsonReader reader, Type typeToConvert, JsonSerializerOptions options)
+        => reader.TokenType == JsonTokenType.Null ? double.NaN : reader.GetDouble();
+
+    public override void Write(Utf8JsonWriter writer, double value, JsonSerializerOptions options)
+    {
+        if (double.IsFinite(value)) writer.WriteNumberValue(value);
+        else writer.WriteNullValue();
+    }
+}
+
+/// <summary>The same for nullable doubles.</summary>
+internal sealed class NullableNonFiniteAsNull : JsonConverter<double?>
+{
+    public override double? Read(ref Utf8JsonReader reader, Type typeToConvert, JsonSerializerOptions options)
+        => reader.TokenType == JsonTokenType.Null ? null : reader.GetDouble();
+
+    public override void Write(Utf8JsonWriter writer, double? value, JsonSerializerOptions options)
+    {
+        if (value is double v && double.IsFinite(v)) writer.WriteNumberValue(v);
+        else writer.WriteNullValue();
+    }
+}

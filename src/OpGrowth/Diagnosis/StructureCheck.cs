@@ -54,6 +54,12 @@ public static class StructureCheck
         {
             cls = "no edges (commuting)";
         }
+        else if (g.FindClaw() is { } k0)
+        {
+            // line graphs (and every claw-free class) have no claw: the certificate settles it at once
+            cls = "claw";
+            claw = [g.Terms[k0.Centre].ToString(), g.Terms[k0.A].ToString(), g.Terms[k0.B].ToString(), g.Terms[k0.C].ToString()];
+        }
         else
         {
             var h = new Hamiltonian(model.N, terms);
@@ -69,20 +75,11 @@ public static class StructureCheck
             }
             else
             {
-                var c = g.FindClaw();
-                if (c is { } k)
-                {
-                    cls = "claw";
-                    claw = [g.Terms[k.Centre].ToString(), g.Terms[k.A].ToString(), g.Terms[k.B].ToString(), g.Terms[k.C].ToString()];
-                }
-                else
-                {
-                    var simplicial = g.FindSimplicialClique();
-                    cls = simplicial is not null ? "claw-free with a simplicial clique" : "claw-free";
-                    if (simplicial is null) notes.Add("no simplicial clique found by the greedy search (not exhaustive)");
-                    var (hole, complete) = g.FindEvenHole();
-                    notes.Add(hole is not null ? $"even hole of length {hole.Count} found" : complete ? "no even hole up to length 8" : "even-hole search ran out of its budget");
-                }
+                var simplicial = g.FindSimplicialClique();
+                cls = simplicial is not null ? "claw-free with a simplicial clique" : "claw-free";
+                if (simplicial is null) notes.Add("no simplicial clique found by the greedy search (not exhaustive)");
+                var (hole, complete) = g.FindEvenHole();
+                notes.Add(hole is not null ? $"even hole of length {hole.Count} found" : complete ? "no even hole up to length 8" : "even-hole search ran out of its budget");
                 notes.Add($"not a line graph: {why}");
             }
         }

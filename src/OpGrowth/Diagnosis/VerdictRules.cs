@@ -1,33 +1,37 @@
 namespace OpGrowth.Diagnosis;
 
 /// <summary>
-/// Combines the six test verdicts into the overall verdict. The rules are ordered; the first that applies
-/// names the leading mechanism:
-/// 1. localized: no front (or a logarithmic one, in both cases with at most FrontMaxDiscarded weight lost to
-///    truncation) together with a memory plateau, Poisson levels or bounded
-///    Lanczos coefficients;
-/// 2. frozen (glass-like): an infinite-temperature autocorrelation plateau that conservation laws do not
-///    explain, without a ballistic front; or low-temperature freezing when the infinite-temperature size
-///    test does not show scrambling;
-/// 3. free fermions: bounded Lanczos coefficients of a local probe;
-/// 4. conservation laws: the probe's Mazur bound is large while the spectrum and Lanczos growth look chaotic;
-/// 5. interacting integrable: sqrt(n) Lanczos growth (unless the levels are Wigner-Dyson), Poisson levels with
-///    every symmetry resolved, or extra local conserved operators;
-/// 6. conservation laws (any remaining case where they were flagged);
-/// 7. scrambles: no test fails (a sqrt(n) Lanczos reading against Wigner-Dyson levels is only noted) and at
-///    least two of level statistics, Lanczos growth and operator size say so; for a periodic drive, where
-///    the Lanczos test (and level statistics, when not measured) do not apply, a ballistic front counts as
-///    one of the two.
-/// Otherwise the verdict is inconclusive. OTOC decay is never used on its own: test 6 enters only through
-/// freezing (rule 2) or as support.
+/// Combines the test verdicts into the overall verdict by weighing evidence.
+/// <para>
+/// Evidence: test 7 (term structure) is exact: commuting terms, or a free-fermion frustration graph, decide
+/// on their own. Otherwise every test adds weight to "chaotic" or to a non-scrambling mechanism: strong (2)
+/// for chaotic level statistics (1 scrambles), Poisson levels with every symmetry resolved (1 fails), local
+/// charges outside the symmetry algebra (5), and a stopped front with little truncation (4: localization);
+/// moderate (1) for linear Lanczos growth (2 scrambles), exact sqrt(n) growth (2 fails), bounded b_n, size
+/// saturation (3 scrambles), an unexplained memory plateau (3 fails) and low-temperature freezing (6); for a
+/// drive, a ballistic front stands in for the Lanczos test (moderate, chaotic).
+/// </para>
+/// <para>
+/// A definite "fails" needs weight at least 2 for its mechanism and no strong chaotic evidence against it; a
+/// definite "scrambles" needs chaotic weight at least 2 from at least two tests, or the strong level
+/// statistics with another chaotic test, and no strong non-chaotic evidence. Strong evidence on both sides,
+/// or too little on either, gives "inconclusive", naming the tests that disagree. A probe that is itself
+/// (nearly) conserved (Mazur bound at least 0.5) fails for conservation laws; a smaller Mazur bound in a
+/// chaotic model is only noted (memory of a conserved total: 1/N for a U(1) model).
+/// </para>
+/// OTOC decay is never used on its own: test 6 enters only through freezing.
 /// </summary>
 public static class VerdictRules
 {
+    /// <summary>Mazur bound at or above which the probe counts as conserved for the verdict (common practice).</summary>
+    public const double ConservedProbeBound = 0.5;
+
     /// <summary>Applies the rules.</summary>
     /// <param name="tests">The test verdicts.</param>
     /// <param name="spreading">Findings of tests 3-4 (front kind).</param>
     /// <param name="driven">True for a periodic drive (no Hamiltonian: the Lanczos test does not apply).</param>
-    public static OverallVerdict Decide(IReadOnlyList<TestVerdict> tests, SpreadingFindings? spreading = null, bool driven = false)
+    /// <param name="conserved">Findings of test 5 (Mazur bounds), when run.</param>
+    public static OverallVerdict Decide(IReadOnlyList<TestVerdict> tests, SpreadingFindings? spreading = null, bool driven = false, ConservedFindings? conserved = null)
     {
         ArgumentNullException.ThrowIfNull(tests);
         TestVerdict? T(int n) => tests.FirstOrDefault(t => t.Number == n);
@@ -37,101 +41,127 @@ public static class VerdictRules
         // A front stopped under heavy truncation is not evidence of localization (same guard as test 4).
         bool noFront = frontKind is "none" or "logarithmic" or "stalled" && spreading!.Front!.Discarded <= DiagnosisThresholds.FrontMaxDiscarded;
         bool ballistic = frontKind == "ballistic";
-        bool plateau3 = Has(3, TestOutcome.Fails, Mechanism.Frozen);
-        bool frozen6 = Has(6, TestOutcome.Fails, Mechanism.Frozen);
-        bool poisson = Has(1, TestOutcome.Fails, Mechanism.InteractingIntegrable);
-        bool bounded = Has(2, TestOutcome.Fails, Mechanism.FreeFermions);
-        bool sqrt = Has(2, TestOutcome.Fails, Mechanism.InteractingIntegrable);
-        bool extraCharges = Has(5, TestOutcome.Fails, Mechanism.InteractingIntegrable);
-        bool mazur = Has(5, TestOutcome.Fails, Mechanism.ConservationLaws) || Has(3, TestOutcome.Fails, Mechanism.ConservationLaws);
-        bool chaoticSpectrum = Is(1, TestOutcome.Scrambles);
-        bool linear = Is(2, TestOutcome.Scrambles);
+
         var others = new List<Mechanism>();
-        if (poisson) others.Add(Mechanism.InteractingIntegrable);
-        if (bounded) others.Add(Mechanism.FreeFermions);
-        if (mazur) others.Add(Mechanism.ConservationLaws);
-        if (frozen6 || plateau3) others.Add(Mechanism.Frozen);
-        if (noFront) others.Add(Mechanism.Localized);
+        OverallVerdict Verdict(TestOutcome o, Mechanism m, string reason, IEnumerable<int> support)
+            => new(o, m, reason, support.Where(n => T(n) is not null).Distinct().OrderBy(n => n).ToArray(), others.Where(x => x != m).Distinct().ToArray());
 
-        OverallVerdict Fail(Mechanism m, string reason, params int[] support)
-            => new(TestOutcome.Fails, m, reason, support.Where(n => T(n) is not null).ToArray(), others.Where(o => o != m).Distinct().ToArray());
-
-        if (noFront && (plateau3 || poisson || bounded))
+        // 1. exact structure of the terms
+        if (Has(7, TestOutcome.Fails, Mechanism.Commuting))
+            return Verdict(TestOutcome.Fails, Mechanism.Commuting, "every term commutes with every other: each term is conserved and operators cannot spread (exact, from the terms)", [7]);
+        if (Has(7, TestOutcome.Fails, Mechanism.FreeFermions))
         {
-            var why = new List<string> { frontKind switch { "none" => "the operator front does not move (v_B = 0)", "stalled" => "the operator front stops (v_B = 0 at long times)", _ => "the front spreads only logarithmically" } };
-            var sup = new List<int> { 4 };
-            if (plateau3) { why.Add("the autocorrelation keeps a plateau"); sup.Add(3); }
-            if (poisson) { why.Add("levels are Poisson"); sup.Add(1); }
-            if (bounded) { why.Add("Lanczos coefficients stay bounded"); sup.Add(2); }
-            if (frozen6) sup.Add(6);
-            return Fail(Mechanism.Localized, string.Join(", ", why) + (bounded ? ": Anderson localization of free fermions" : ": localization"), [.. sup]);
-        }
-        if ((plateau3 && !ballistic) || (frozen6 && !Is(3, TestOutcome.Scrambles) && !ballistic))
-        {
-            var sup = new List<int>();
-            var why = new List<string>();
-            if (plateau3) { sup.Add(3); why.Add("single-site autocorrelations stay far above the Mazur bound at infinite temperature"); }
-            if (frozen6) { sup.Add(6); why.Add("they freeze at low temperature"); }
-            if (Is(5, TestOutcome.Scrambles)) sup.Add(5);
-            return Fail(Mechanism.Frozen, string.Join(" and ", why) + ", with no conservation law to explain it and no front to carry the memory away: glass-like frozen dynamics", [.. sup]);
-        }
-        if (bounded)
-        {
-            var sup = new List<int> { 2 };
+            var sup = new List<int> { 7 };
             if (Is(1, TestOutcome.Fails)) sup.Add(1);
-            if (Has(3, TestOutcome.Fails, Mechanism.FreeFermions)) sup.Add(3);
-            if (extraCharges) sup.Add(5);
-            return Fail(Mechanism.FreeFermions, "a local operator keeps bounded Lanczos coefficients (it stays quadratic in fermions)" + (Is(1, TestOutcome.Fails) ? " and the levels show no repulsion" : string.Empty) + ": free fermions", [.. sup]);
+            if (Has(5, TestOutcome.Fails, Mechanism.InteractingIntegrable)) sup.Add(5);
+            string loc = noFront ? " (and the front does not move: Anderson localization of free fermions)" : string.Empty;
+            if (noFront) others.Add(Mechanism.Localized);
+            return Verdict(TestOutcome.Fails, noFront ? Mechanism.Localized : Mechanism.FreeFermions,
+                "the frustration graph of the terms is a line graph: an exact map to free fermions" + loc, noFront ? [.. sup, 4] : sup);
         }
-        if (mazur && (chaoticSpectrum || linear) && !sqrt && !poisson)
+
+        // 2. weigh the rest
+        bool chaoticLevels = Is(1, TestOutcome.Scrambles);
+        bool poisson = Has(1, TestOutcome.Fails, Mechanism.InteractingIntegrable);
+        bool linear = Is(2, TestOutcome.Scrambles);
+        bool sqrt = Has(2, TestOutcome.Fails, Mechanism.InteractingIntegrable);
+        bool bounded = Has(2, TestOutcome.Fails, Mechanism.Localized);
+        bool saturates = Is(3, TestOutcome.Scrambles);
+        bool plateau3 = Has(3, TestOutcome.Fails, Mechanism.Frozen);
+        bool charges = Has(5, TestOutcome.Fails, Mechanism.InteractingIntegrable);
+        bool frozen6 = Has(6, TestOutcome.Fails, Mechanism.Frozen);
+        bool clawFree = Has(7, TestOutcome.Fails, Mechanism.InteractingIntegrable);
+        bool driveFront = driven && ballistic && !Is(2, TestOutcome.Scrambles);
+        double mazur = conserved?.LargestBound ?? 0;
+
+        var chaotic = new List<(int Test, int Weight, string What)>();
+        if (chaoticLevels) chaotic.Add((1, 2, "chaotic level statistics"));
+        if (linear) chaotic.Add((2, 1, "linear Lanczos growth"));
+        if (saturates) chaotic.Add((3, 1, "operator growth to the random-operator size"));
+        if (driveFront) chaotic.Add((4, 1, "a ballistic front (standing in for the Lanczos test, which a drive does not have)"));
+        int chaoticWeight = chaotic.Sum(c => c.Weight);
+
+        var against = new Dictionary<Mechanism, List<(int Test, int Weight, string What)>>();
+        void Add(Mechanism m, int test, int w, string what)
         {
-            return Fail(Mechanism.ConservationLaws, "the dynamics look chaotic, but the probe overlaps conserved quantities so strongly that its autocorrelation cannot decay below the Mazur bound", 5, 3);
+            if (!against.TryGetValue(m, out var l)) against[m] = l = [];
+            l.Add((test, w, what));
+            others.Add(m);
         }
-        // sqrt(n) growth alone does not overrule Wigner-Dyson levels: over a few dozen coefficients the 1D
-        // chaotic form n/ln n and sqrt(n) are hard to tell apart (Parker et al. 2019).
-        bool sqrtCounts = sqrt && !chaoticSpectrum;
-        if (sqrtCounts || poisson || extraCharges)
+        if (noFront) Add(Mechanism.Localized, 4, 2, frontKind switch { "none" => "the operator front does not move", "stalled" => "the operator front stops", _ => "the front spreads only logarithmically" });
+        if (noFront && poisson) Add(Mechanism.Localized, 1, 2, "levels are Poisson");
+        if (noFront && bounded) Add(Mechanism.Localized, 2, 1, "Lanczos coefficients stay bounded");
+        if (noFront && plateau3) Add(Mechanism.Localized, 3, 1, "the autocorrelation keeps a plateau");
+        if (!noFront && poisson) Add(Mechanism.InteractingIntegrable, 1, 2, "levels are Poisson with every symmetry resolved");
+        if (charges) Add(Mechanism.InteractingIntegrable, 5, 2, "local conserved charges outside the symmetry algebra exist");
+        if (clawFree) Add(Mechanism.InteractingIntegrable, 7, 2, "the frustration graph is claw-free (a hierarchy of commuting charges)");
+        if (sqrt) Add(Mechanism.InteractingIntegrable, 2, 1, "exact Lanczos coefficients grow like sqrt(n)");
+        if (plateau3 && !ballistic && !noFront) Add(Mechanism.Frozen, 3, 1, "single-site autocorrelations stay far above the Mazur bound");
+        if (frozen6 && !saturates && !ballistic) Add(Mechanism.Frozen, 6, 1, "autocorrelations freeze at low temperature");
+        if (!noFront && bounded) Add(Mechanism.Localized, 2, 1, "Lanczos coefficients stay bounded");
+
+        int strongAgainst = against.Values.SelectMany(l => l).Where(x => x.Weight >= 2).Select(x => x.Test).Distinct().Count();
+        var lead = against.Select(kv => (Mechanism: kv.Key, Weight: kv.Value.Sum(x => x.Weight), Items: kv.Value))
+            .OrderByDescending(x => x.Weight).ThenBy(x => Order(x.Mechanism)).FirstOrDefault();
+
+        // a probe that is itself (nearly) conserved
+        if (mazur >= ConservedProbeBound && (lead.Items is null || lead.Weight < 2))
+            return Verdict(TestOutcome.Fails, Mechanism.ConservationLaws, $"the probe is (nearly) conserved: at least {mazur:0.##} of its autocorrelation can never decay (Mazur bound)", [5]);
+
+        if (lead.Items is not null && lead.Weight >= 2 && !chaoticLevels)
         {
-            var sup = new List<int>();
-            var why = new List<string>();
-            if (poisson) { sup.Add(1); why.Add("levels are Poisson with every symmetry resolved"); }
-            if (sqrtCounts) { sup.Add(2); why.Add("Lanczos coefficients grow like sqrt(n)"); }
-            if (extraCharges) { sup.Add(5); why.Add("extra local conservation laws exist"); }
-            if (ballistic) sup.Add(4);
-            return Fail(Mechanism.InteractingIntegrable, string.Join(", ", why) + (ballistic ? ", while operators still spread ballistically" : string.Empty) + ": an interacting integrable model", [.. sup]);
+            string why = string.Join(", ", lead.Items.Select(x => x.What).Distinct());
+            string contrary = chaoticWeight > 0 ? $" (against: {string.Join(", ", chaotic.Select(c => $"{c.What} ({c.Test})"))})" : string.Empty;
+            if (chaoticWeight >= 2)
+            {
+                return Verdict(TestOutcome.Inconclusive, lead.Mechanism,
+                    $"the tests disagree: {why} ({string.Join(", ", lead.Items.Select(x => x.Test).Distinct())}) point to {MechanismNames.Of(lead.Mechanism)}, but {string.Join(", ", chaotic.Select(c => $"{c.What} ({c.Test})"))} point to scrambling",
+                    [.. lead.Items.Select(x => x.Test), .. chaotic.Select(c => c.Test)]);
+            }
+            return Verdict(TestOutcome.Fails, lead.Mechanism, $"{why}: {Describe(lead.Mechanism)}{contrary}", lead.Items.Select(x => x.Test));
         }
-        if (mazur)
+
+        if (chaoticWeight >= 2 && (chaotic.Count >= 2 || chaoticLevels) && strongAgainst == 0)
         {
-            return Fail(Mechanism.ConservationLaws, "the probe's autocorrelation is held up by conserved quantities (Mazur bound)", 5, 3);
+            var notes = new List<string>();
+            var weak = against.Values.SelectMany(l => l).ToList();
+            if (weak.Count > 0) notes.Add($"not against it strongly, but noted: {string.Join(", ", weak.Select(x => $"{x.What} ({x.Test})"))}");
+            if (mazur >= DiagnosisThresholds.MazurSignificant) notes.Add($"the probe keeps at least {mazur:0.###} of its autocorrelation through conserved quantities (Mazur bound)");
+            if (frozen6) notes.Add("autocorrelations freeze at low temperature");
+            string reason = string.Join(", ", chaotic.Select(c => c.What)) + " agree" + (notes.Count > 0 ? $" ({string.Join("; ", notes)})" : string.Empty);
+            if (chaotic.Count == 1) reason = $"{chaotic[0].What} (a single strong test; the others undecided)" + (notes.Count > 0 ? $" ({string.Join("; ", notes)})" : string.Empty);
+            return Verdict(TestOutcome.Scrambles, Mechanism.Scrambles, reason, chaotic.Select(c => c.Test));
         }
-        var core = new[] { 1, 2, 3 };
-        int votes = core.Count(n => Is(n, TestOutcome.Scrambles));
-        // A periodic drive has no Liouvillian for the Lanczos test (2): a ballistic front stands in for it as
-        // a vote, so that level statistics (quasienergies) or the operator size can make the second one.
-        bool driveFrontVote = driven && ballistic && Is(4, TestOutcome.Scrambles) && !Is(2, TestOutcome.Scrambles);
-        if (driveFrontVote) votes++;
-        // A sqrt(n) reading of test 2 against Wigner-Dyson levels is noted, not counted as a failure.
-        bool Overruled(TestVerdict t) => t.Number == 2 && sqrt && chaoticSpectrum;
-        bool anyFail = tests.Any(t => t.Outcome == TestOutcome.Fails && !Overruled(t));
-        if (!anyFail && votes >= 2)
+
+        if (chaoticLevels && lead.Items is not null && lead.Weight >= 2)
         {
-            var sup = tests.Where(t => t.Outcome == TestOutcome.Scrambles).Select(t => t.Number).ToArray();
-            string caveat = frozen6 ? " (but autocorrelations freeze at low temperature)" : string.Empty;
-            if (sqrt && chaoticSpectrum) caveat += " (the Lanczos coefficients look sub-linear over the computed window; in one dimension n/ln n and sqrt(n) are hard to tell apart at this depth)";
-            var agree = new List<string>();
-            if (Is(1, TestOutcome.Scrambles)) agree.Add("chaotic level statistics");
-            if (Is(2, TestOutcome.Scrambles)) agree.Add("linear Lanczos growth");
-            if (Is(3, TestOutcome.Scrambles)) agree.Add("operator growth to the random-operator size");
-            if (driveFrontVote) agree.Add("a ballistic front (it stands in for the Lanczos test, which a periodic drive does not have)");
-            return new OverallVerdict(TestOutcome.Scrambles, Mechanism.Scrambles,
-                string.Join(", ", agree) + " agree" + caveat, sup, others);
+            return Verdict(TestOutcome.Inconclusive, lead.Mechanism,
+                $"the tests disagree: chaotic level statistics (1) against {string.Join(", ", lead.Items.Select(x => $"{x.What} ({x.Test})"))}",
+                [1, .. lead.Items.Select(x => x.Test)]);
         }
-        var failing = tests.Where(t => t.Outcome == TestOutcome.Fails).ToArray();
-        var lead = failing.SelectMany(t => t.Evidence).Where(m => m != Mechanism.Scrambles).GroupBy(m => m).OrderByDescending(g => g.Count()).Select(g => g.Key).FirstOrDefault(Mechanism.Undetermined);
-        return new OverallVerdict(TestOutcome.Inconclusive, lead,
-            anyFail
-                ? $"the tests disagree: {string.Join(", ", failing.Select(t => t.Name))} fail{(failing.Length == 1 ? "s" : string.Empty)}, but no mechanism has enough support"
-                : $"only {votes} of level statistics, Lanczos growth and operator size clearly show scrambling (raise --effort)",
-            failing.Select(t => t.Number).ToArray(), others);
+        string missing = chaoticWeight > 0
+            ? $"only {string.Join(", ", chaotic.Select(c => $"{c.What} ({c.Test})"))} point to scrambling"
+            : "no test points clearly to scrambling";
+        string weakAgainst = lead.Items is not null ? $", and only {string.Join(", ", lead.Items.Select(x => $"{x.What} ({x.Test})"))} against it" : string.Empty;
+        return Verdict(TestOutcome.Inconclusive, lead.Items is not null ? lead.Mechanism : Mechanism.Undetermined,
+            $"too little evidence: {missing}{weakAgainst} (a higher effort uses larger members and more coefficients)",
+            [.. chaotic.Select(c => c.Test), .. (lead.Items ?? []).Select(x => x.Test)]);
     }
+
+    private static int Order(Mechanism m) => m switch
+    {
+        Mechanism.Localized => 0,
+        Mechanism.Frozen => 1,
+        Mechanism.InteractingIntegrable => 2,
+        _ => 3,
+    };
+
+    private static string Describe(Mechanism m) => m switch
+    {
+        Mechanism.Localized => "localization",
+        Mechanism.Frozen => "glass-like frozen dynamics (no conservation law explains the memory)",
+        Mechanism.InteractingIntegrable => "an interacting integrable model",
+        Mechanism.FreeFermions => "free fermions",
+        _ => MechanismNames.Of(m),
+    };
 }

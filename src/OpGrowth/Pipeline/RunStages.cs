@@ -42,38 +42,11 @@ public static class RunStages
     private static readonly CultureInfo Inv = CultureInfo.InvariantCulture;
 
     /// <summary>
-    /// The diagnosis battery's settings for an effort: small members and budgets from
-    /// <see cref="DiagnosisOptions.Quick"/> (smaller still for <see cref="RunEffort.Quick"/>), bounded by string
-    /// budgets and evolution times rather than by wall time (see <see cref="SafetySeconds"/>); the full battery
-    /// for <see cref="RunEffort.Thorough"/>.
+    /// The diagnosis battery's settings for an effort: the same batteries as <c>opgrowth diagnose --effort</c>
+    /// (<see cref="DiagnosisOptions.For"/>), so both commands reach the same verdict from the same evidence.
     /// </summary>
-    public static DiagnosisOptions DiagnosisFor(RunEffort effort, int threads) => (effort switch
-    {
-        RunEffort.Quick => DiagnosisOptions.Quick with
-        {
-            LevelN = 8,
-            ClusterN = 6,
-            SizeN = 6,
-            ThermalN = 6,
-            LanczosDepth = 12,
-            LanczosMaxStrings = 4_000,
-            EvolutionMaxStrings = 4_000,
-            EvolutionTime = 8,
-            ThermalTimePoints = 21,
-            ThermalSamples = 1,
-            BetaEpsilon = [1],
-        },
-        RunEffort.Thorough => new DiagnosisOptions(),
-        // Evolution kept short (7/epsilon) so its front is measured before truncation stalls it on a long chain.
-        _ => DiagnosisOptions.Quick with
-        {
-            LanczosDepth = 24,
-            LanczosMaxStrings = 200_000,
-            EvolutionMaxStrings = 50_000,
-            EvolutionTime = 7,
-            BetaEpsilon = [0.5, 2],
-        },
-    }) with { Threads = threads, Seed = 1, LanczosSeconds = SafetySeconds, EvolutionSeconds = SafetySeconds };
+    public static DiagnosisOptions DiagnosisFor(RunEffort effort, int threads)
+        => DiagnosisOptions.For(effort.ToString().ToLowerInvariant()) with { Threads = threads, Seed = 1 };
 
     /// <summary>
     /// The battery's wall-time limits are set this high on purpose: work is bounded by string budgets and

@@ -2,6 +2,7 @@ using System.Diagnostics;
 using System.Globalization;
 using Microsoft.Extensions.Logging;
 using OpGrowth.Analysis;
+using OpGrowth.Diagnosis;
 using OpGrowth.Evolution;
 using OpGrowth.Exact;
 using OpGrowth.IO;
@@ -229,11 +230,22 @@ public static partial class ScramblingRun
 
     private static CrossCheck RunCrossCheck(string path, Model model, ScramblingRunOptions options, EffortPreset preset, ILogger? log, CancellationToken ct)
     {
-        if (!model.Parameters.ContainsKey("N"))
-            return new CrossCheck { SkipReason = $"the model's size is not set by a parameter N (lattice '{model.Lattice.Kind}'), so no smaller member of the family is defined", Tolerance = options.CrossCheckTolerance };
-        int n = Math.Min(model.N, preset.ExactN);
         double time = Math.Min(options.Time ?? preset.Time, preset.ExactTime);
-        return CompareEngines(path, options.Overrides, n, time, options.CrossCheckTolerance, options.Threads, log, ct);
+        // the largest member of the family with at most ExactN sites (squares and ladders shrink along one
+        // direction, edge lists run at their own size); a model that small is checked on itself
+        Model? small;
+        try
+        {
+            small = FamilyMembers.FromFile(path, options.Overrides, model)(preset.ExactN, 0);
+        }
+        catch (InputException ex)
+        {
+            return new CrossCheck { SkipReason = $"no member of the family with at most {preset.ExactN} sites loads: {ex.Message}", Tolerance = options.CrossCheckTolerance };
+        }
+        if (small is null)
+            return new CrossCheck { SkipReason = $"the model has {model.N} sites and no size parameter to shrink (name one with size = \"...\" in the model file), so no member of at most {preset.ExactN} sites is defined", Tolerance = options.CrossCheckTolerance };
+        foreach (var note in small.LoadNotes) log?.LogInformation("cross-check member: {Note}", note);
+        return CompareEngines(small, time, options.CrossCheckTolerance, options.Threads, log, ct);
     }
 
     /// <summary>
@@ -243,7 +255,6 @@ public static partial class ScramblingRun
     /// </summary>
     public static CrossCheck CompareEngines(string path, IReadOnlyDictionary<string, string> overrides, int n, double time, double tolerance, int threads, ILogger? log, CancellationToken ct)
     {
-        var options = new ScramblingRunOptions { Overrides = overrides, CrossCheckTolerance = tolerance, Threads = threads, Time = time };
         var ov = new Dictionary<string, string>(overrides) { ["N"] = n.ToString(Inv) };
         Model small;
         try
@@ -252,8 +263,16 @@ public static partial class ScramblingRun
         }
         catch (InputException ex)
         {
-            return new CrossCheck { SkipReason = $"the model does not load at N = {n}: {ex.Message}", Tolerance = options.CrossCheckTolerance };
+            return new CrossCheck { SkipReason = $"the model does not load at N = {n}: {ex.Message}", Tolerance = tolerance };
         }
+        return CompareEngines(small, time, tolerance, threads, log, ct);
+    }
+
+    /// <summary>The same comparison on a model already built (a member of the family, or the model itself).</summary>
+    public static CrossCheck CompareEngines(Model small, double time, double tolerance, int threads, ILogger? log, CancellationToken ct)
+    {
+        ArgumentNullException.ThrowIfNull(small);
+        var options = new ScramblingRunOptions { CrossCheckTolerance = tolerance, Threads = threads, Time = time };
         if (small.N > PauliMask.MaxQubits || small.N > DenseSpectrum.DefaultMaxQubits)
             return new CrossCheck { SkipReason = $"N = {small.N} is too large for the dense exact engine", Tolerance = options.CrossCheckTolerance };
         var probe = small.Probes[0];

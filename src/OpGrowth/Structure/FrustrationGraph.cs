@@ -1,3 +1,4 @@
+using System.Numerics;
 using OpGrowth.Pauli;
 
 namespace OpGrowth.Structure;
@@ -13,7 +14,8 @@ namespace OpGrowth.Structure;
 public sealed class FrustrationGraph
 {
     private readonly List<int>[] _adj;
-    private readonly HashSet<long> _edges;
+    private readonly ulong[] _bits; // adjacency matrix, row-major bit rows
+    private readonly int _rowWords;
 
     /// <summary>The terms (vertices), in the order given.</summary>
     public IReadOnlyList<PauliString> Terms { get; }
@@ -25,16 +27,18 @@ public sealed class FrustrationGraph
     public IReadOnlyList<int> Neighbours(int v) => _adj[v];
 
     /// <summary>True when terms u and v anticommute.</summary>
-    public bool Adjacent(int u, int v) => _edges.Contains(Key(u, v));
+    public bool Adjacent(int u, int v) => (_bits[(long)u * _rowWords + (v >> 6)] >> (v & 63) & 1) != 0;
 
     /// <summary>Number of edges.</summary>
-    public int EdgeCount => _edges.Count;
+    public int EdgeCount { get; }
 
-    private FrustrationGraph(IReadOnlyList<PauliString> terms, List<int>[] adj, HashSet<long> edges)
+    private FrustrationGraph(IReadOnlyList<PauliString> terms, List<int>[] adj, ulong[] bits, int rowWords, int edges)
     {
         Terms = terms;
         _adj = adj;
-        _edges = edges;
+        _bits = bits;
+        _rowWords = rowWords;
+        EdgeCount = edges;
     }
 
     /// <summary>Largest number of terms accepted (the pairwise test is quadratic).</summary>
@@ -45,36 +49,40 @@ public sealed class FrustrationGraph
     {
         ArgumentNullException.ThrowIfNull(terms);
         var list = terms.Where(t => !t.IsIdentity).Distinct().ToArray();
-        if (list.Length > MaxTerms) throw new ArgumentException($"{list.Length} terms: at most {MaxTerms} for the frustration graph.", nameof(terms));
-        var adj = new List<int>[list.Length];
-        for (int i = 0; i < list.Length; i++) adj[i] = [];
-        var edges = new HashSet<long>();
-        // Group by support: strings on disjoint supports commute, so only pairs sharing a site are tested.
-        var bySite = new Dictionary<int, List<int>>();
-        for (int i = 0; i < list.Length; i++)
+        int count = list.Length;
+        if (count > MaxTerms) throw new ArgumentException($"{count} terms: at most {MaxTerms} for the frustration graph.", nameof(terms));
+        int w = count == 0 ? 1 : list[0].Words;
+        // symplectic words side by side: x then z, for a branch-free parity test per pair
+        var x = new ulong[count * w];
+        var z = new ulong[count * w];
+        for (int i = 0; i < count; i++)
         {
-            foreach (int j in list[i].Support())
-            {
-                if (!bySite.TryGetValue(j, out var l)) bySite[j] = l = [];
-                l.Add(i);
-            }
+            list[i].X.CopyTo(x.AsSpan(i * w, w));
+            list[i].Z.CopyTo(z.AsSpan(i * w, w));
         }
-        foreach (var group in bySite.Values)
+        int rowWords = (count + 63) >> 6;
+        var bits = new ulong[(long)count * rowWords];
+        var adj = new List<int>[count];
+        for (int i = 0; i < count; i++) adj[i] = [];
+        int edges = 0;
+        for (int u = 0; u < count; u++)
         {
-            for (int a = 0; a < group.Count; a++)
+            var xu = x.AsSpan(u * w, w);
+            var zu = z.AsSpan(u * w, w);
+            for (int v = u + 1; v < count; v++)
             {
-                for (int b = a + 1; b < group.Count; b++)
-                {
-                    int u = group[a], v = group[b];
-                    if (edges.Contains(Key(u, v)) || list[u].CommutesWith(list[v])) continue;
-                    edges.Add(Key(u, v));
-                    adj[u].Add(v);
-                    adj[v].Add(u);
-                }
+                int parity = 0;
+                for (int k = 0; k < w; k++) parity ^= BitOperations.PopCount((xu[k] & z[v * w + k]) ^ (zu[k] & x[v * w + k]));
+                if ((parity & 1) == 0) continue;
+                bits[(long)u * rowWords + (v >> 6)] |= 1UL << (v & 63);
+                bits[(long)v * rowWords + (u >> 6)] |= 1UL << (u & 63);
+                adj[u].Add(v);
+                adj[v].Add(u);
+                edges++;
             }
         }
         foreach (var l in adj) l.Sort();
-        return new FrustrationGraph(list, adj, edges);
+        return new FrustrationGraph(list, adj, bits, rowWords, edges);
     }
 
     /// <summary>A claw: a centre adjacent to three mutually non-adjacent vertices, or null when the graph is claw-free.</summary>
@@ -193,5 +201,4 @@ public sealed class FrustrationGraph
         return (found, complete);
     }
 
-    internal static long Key(int u, int v) => u < v ? ((long)u << 32) | (uint)v : ((long)v << 32) | (uint)u;
 }

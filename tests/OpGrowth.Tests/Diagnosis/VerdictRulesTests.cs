@@ -75,15 +75,31 @@ public class VerdictRulesTests
     }
 
     [Fact]
-    public void Decide_StalledFrontWithPlateau_IsLocalized()
+    public void Decide_StalledFrontWithPlateauAndPoissonLevels_IsLocalized()
     {
         var t = Chaotic();
+        t[0] = T(1, TestOutcome.Fails, Poisson);
         t[2] = T(3, TestOutcome.Fails, Mechanism.Frozen, Mechanism.Localized);
         t[3] = T(4, TestOutcome.Fails, Mechanism.Localized);
-        t[1] = T(2, TestOutcome.Fails, Mechanism.FreeFermions, Mechanism.Localized);
+        t[1] = T(2, TestOutcome.Fails, Mechanism.Localized, Mechanism.FreeFermions);
         var v = VerdictRules.Decide(t, Front("stalled"));
         Assert.Equal(Mechanism.Localized, v.Leading);
         Assert.Equal(TestOutcome.Fails, v.Outcome);
+    }
+
+    [Fact]
+    public void Decide_StalledFrontAgainstWignerDysonLevels_IsInconclusiveNamingBoth()
+    {
+        // Strong evidence on both sides (a stopped front and chaotic levels) is a disagreement, not a verdict.
+        var t = Chaotic();
+        t[2] = T(3, TestOutcome.Fails, Mechanism.Frozen, Mechanism.Localized);
+        t[3] = T(4, TestOutcome.Fails, Mechanism.Localized);
+        var v = VerdictRules.Decide(t, Front("stalled"));
+        Assert.Equal(TestOutcome.Inconclusive, v.Outcome);
+        Assert.Equal(Mechanism.Localized, v.Leading);
+        Assert.Contains("disagree", v.Reason, StringComparison.Ordinal);
+        Assert.Contains(1, v.Supporting);
+        Assert.Contains(4, v.Supporting);
     }
 
     [Fact]
@@ -106,19 +122,44 @@ public class VerdictRulesTests
     [Fact]
     public void Decide_PlateauWithoutFront_IsFrozen()
     {
+        // The glass-cluster pattern: levels and Lanczos undecided, a memory plateau at infinite temperature
+        // and freezing at low temperature, no front (all-to-all).
         var t = Chaotic();
+        t[0] = T(1, TestOutcome.Inconclusive);
+        t[1] = T(2, TestOutcome.Inconclusive);
         t[2] = T(3, TestOutcome.Fails, Mechanism.Frozen, Mechanism.Localized);
         t[3] = TestVerdict.NotRun(4, "front", "all-to-all");
-        Assert.Equal(Mechanism.Frozen, VerdictRules.Decide(t, Front("not applicable")).Leading);
+        t[5] = T(6, TestOutcome.Fails, Mechanism.Frozen);
+        var v = VerdictRules.Decide(t, Front("not applicable"));
+        Assert.Equal(Mechanism.Frozen, v.Leading);
+        Assert.Equal(TestOutcome.Fails, v.Outcome);
     }
 
     [Fact]
-    public void Decide_BoundedLanczos_IsFreeFermions()
+    public void Decide_BoundedLanczosWithoutStructure_IsNotCalledFree()
     {
+        // Bounded b_n alone mean a small operator space (localized, or a short window), never free fermions:
+        // only the structure of the terms (test 7) may say free.
         var t = Chaotic();
         t[0] = T(1, TestOutcome.Fails, Poisson);
-        t[1] = T(2, TestOutcome.Fails, Mechanism.FreeFermions, Mechanism.Localized);
-        Assert.Equal(Mechanism.FreeFermions, VerdictRules.Decide(t, Front("ballistic")).Leading);
+        t[1] = T(2, TestOutcome.Fails, Mechanism.Localized, Mechanism.FreeFermions);
+        Assert.NotEqual(Mechanism.FreeFermions, VerdictRules.Decide(t, Front("ballistic")).Leading);
+    }
+
+    [Fact]
+    public void Decide_LineGraphStructure_IsFreeFermionsWhateverElse()
+    {
+        var t = Chaotic().Append(T(7, TestOutcome.Fails, Mechanism.FreeFermions)).ToArray();
+        var v = VerdictRules.Decide(t, Front("ballistic"));
+        Assert.Equal(TestOutcome.Fails, v.Outcome);
+        Assert.Equal(Mechanism.FreeFermions, v.Leading);
+    }
+
+    [Fact]
+    public void Decide_CommutingTerms_IsCommuting()
+    {
+        var t = Chaotic().Append(T(7, TestOutcome.Fails, Mechanism.Commuting)).ToArray();
+        Assert.Equal(Mechanism.Commuting, VerdictRules.Decide(t, Front("none")).Leading);
     }
 
     [Fact]
@@ -140,12 +181,38 @@ public class VerdictRulesTests
         Assert.Contains("sqrt(n)", v.Reason);
     }
 
+    private static ConservedFindings Mazur(double bound) => new()
+    {
+        ClusterN = 10,
+        MaxWeight = 2,
+        SearchDimension = 1,
+        NullDimension = 1,
+        ContainsHamiltonian = true,
+        Recognised = ["H"],
+        Unexplained = 0,
+        Operators = [],
+        Gap = 1,
+        UsedAtFullSize = ["H"],
+        Mazur = [new MazurEntry("Z_0", bound, [new MazurShare("total Z", bound)])],
+    };
+
     [Fact]
-    public void Decide_LargeMazurBoundWithChaoticSpectrum_IsConservationLaws()
+    public void Decide_ModerateMazurBoundWithChaoticSpectrum_ScramblesWithANote()
+    {
+        // 1/N memory of a conserved total in a chaotic model is noted, not a failure to scramble.
+        var t = Chaotic();
+        t[4] = T(5, TestOutcome.Fails, Mechanism.ConservationLaws);
+        var v = VerdictRules.Decide(t, Front("ballistic"), conserved: Mazur(0.2));
+        Assert.Equal(TestOutcome.Scrambles, v.Outcome);
+        Assert.Contains("Mazur", v.Reason, StringComparison.Ordinal);
+    }
+
+    [Fact]
+    public void Decide_ConservedProbe_IsConservationLaws()
     {
         var t = Chaotic();
         t[4] = T(5, TestOutcome.Fails, Mechanism.ConservationLaws);
-        Assert.Equal(Mechanism.ConservationLaws, VerdictRules.Decide(t, Front("ballistic")).Leading);
+        Assert.Equal(Mechanism.ConservationLaws, VerdictRules.Decide(t, Front("ballistic"), conserved: Mazur(0.9)).Leading);
     }
 
     [Fact]
