@@ -110,7 +110,8 @@ public static class DiagnosisBattery
             log?.LogInformation("tests 3-4/6: operator size and front");
             try
             {
-                var smallSize = Small(options.SizeN);
+                // a model only a few sites above the exact size is evolved exactly at its own size (no truncated run needed)
+                var smallSize = model.N <= options.SizeN + SelfCheckMargin ? model : Small(options.SizeN);
                 var fullConserved = ConservationCheck.KnownConserved(model);
                 var smallConserved = smallSize is null ? [] : ConservationCheck.KnownConserved(smallSize);
                 double Bound(IReadOnlyList<(string Label, IReadOnlyList<Pauli.PauliTerm> Q)> cq, Model m, string p)

@@ -44,6 +44,28 @@ public static class Families
         return new Hamiltonian(n, terms);
     }
 
+    /// <summary>
+    /// Long-range Ising chain in a tilted field, H = sum_{i&lt;j} J/|i-j|^alpha Z_i Z_j + g sum X_i + h sum Z_i
+    /// (every pair coupled; the shipped <c>power-law-ising</c> model).
+    /// </summary>
+    public static Hamiltonian PowerLawIsing(int n, double j = 1.0, double alpha = 1.5, double g = 1.05, double h = 0.5)
+    {
+        var terms = new List<PauliTerm>();
+        for (int a = 0; a < n; a++)
+        {
+            for (int b = a + 1; b < n; b++)
+            {
+                var pb = new PauliString.Builder(n);
+                pb.Set(a, 'Z');
+                pb.Set(b, 'Z');
+                terms.Add(new PauliTerm(pb.Build(), j / Math.Pow(b - a, alpha)));
+            }
+        }
+        AddSites(terms, n, 'X', g);
+        AddSites(terms, n, 'Z', h);
+        return new Hamiltonian(n, terms);
+    }
+
     /// <summary>Transverse-field Ising chain H = -J sum Z_i Z_{i+1} - h sum X_i (free fermions; critical at h = J).</summary>
     public static Hamiltonian TransverseFieldIsing(int n, double j = 1.0, double h = 1.0, bool periodic = false)
     {

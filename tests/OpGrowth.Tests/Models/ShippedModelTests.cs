@@ -33,7 +33,7 @@ public class ShippedModelTests
         foreach (var n in new[]
         {
             "mixed-field-ising", "transverse-field-ising", "xxz", "heisenberg-all-to-all", "square-ising", "kicked-ising", "syk4",
-            "xx-random-field", "ising-glass", "demo/tilted-chain", "demo/tilted-square", "demo/xxz-chain", "demo/disordered-xx",
+            "xx-random-field", "ising-glass", "power-law-ising", "demo/tilted-chain", "demo/tilted-square", "demo/xxz-chain", "demo/disordered-xx",
             "demo/glass-cluster", "demo/heisenberg-cluster",
         })
         {
@@ -55,6 +55,9 @@ public class ShippedModelTests
 
     private static Model Load(string name, params (string K, string V)[] set)
         => ModelLoader.Load(ShippedModels.Resolve(name), set.ToDictionary(x => x.K, x => x.V));
+
+    [Fact]
+    public void PowerLawIsing_FileEqualsCode() => AssertSameTerms(Families.PowerLawIsing(16, 1.0, 1.5, 1.05, 0.5), Load("power-law-ising").Hamiltonian);
 
     [Fact]
     public void MixedFieldIsing_FileEqualsCode() => AssertSameTerms(Families.MixedFieldIsing(20, 1.0, 1.05, 0.5), Load("mixed-field-ising").Hamiltonian);
