@@ -139,9 +139,9 @@ public sealed record DiagnosisOptions
     {
         "quick" => new DiagnosisOptions
         {
-            LevelN = 10, LevelSeconds = 10, ClusterN = 8, SizeN = 8, SizeTimePoints = 17, ThermalN = 8, ThermalTimePoints = 21,
-            ThermalSamples = 1, BetaEpsilon = [1], ThermalSeconds = 10, LanczosDepth = 16, LanczosMaxStrings = 20_000,
-            LanczosMemoryBytes = 256L << 20, LanczosSeconds = 15, EvolutionMaxStrings = 20_000, EvolutionTime = 10, EvolutionSeconds = 30,
+            LevelN = 10, LevelSeconds = 8, ClusterN = 8, SizeN = 8, SizeTimePoints = 17, ThermalN = 8, ThermalTimePoints = 21,
+            ThermalSamples = 1, BetaEpsilon = [1], ThermalSeconds = 8, LanczosDepth = 16, LanczosMaxStrings = 20_000,
+            LanczosMemoryBytes = 256L << 20, LanczosSeconds = 6, EvolutionMaxStrings = 20_000, EvolutionTime = 10, EvolutionSeconds = 12,
         },
         "standard" => new DiagnosisOptions
         {

@@ -51,7 +51,9 @@ public static class LanczosGrowthCheck
         var sw = Stopwatch.StartNew();
         if (model.IsDriven) return (TestVerdict.NotRun(2, Name, "a driven model has no Liouvillian [H, .]: Lanczos growth is not defined for the period map"), null);
         var log = options.Logger;
-        bool chain = model.IsTranslationInvariant && model.Lattice.Kind is "chain" or "ring";
+        // the exact infinite-chain recursion needs a short-range cell: with couplings at every distance the
+        // light cone is the whole chain and the recursion's chain would grow without bound
+        bool chain = model.IsTranslationInvariant && model.Lattice.Kind is "chain" or "ring" && ShortRange(model);
         var results = new List<LanczosProbeFindings>();
         foreach (var probe in ProbesOf(model))
         {
@@ -136,6 +138,22 @@ public static class LanczosGrowthCheck
             DiscardedWeight = est.Reference.TotalDiscardedWeight,
             Seconds = sw.Elapsed.TotalSeconds,
         };
+    }
+
+    /// <summary>Largest interaction range (in sites) for which the exact infinite-chain recursion is used.</summary>
+    public const int MaxChainRange = 4;
+
+    private static bool ShortRange(Model model)
+    {
+        try
+        {
+            var cell = TranslationCell.FromHamiltonian(model.Hamiltonian, model.Lattice.Kind == "ring", model.SourceFile);
+            return cell.Range <= MaxChainRange;
+        }
+        catch (IO.InputException)
+        {
+            return false;
+        }
     }
 
     /// <summary>Fewest coefficients in the fit window for a class to count as evidence (common practice).</summary>
