@@ -53,6 +53,48 @@ public class SweepCliTests(ITestOutputHelper output)
         output.WriteLine(rerun.Stdout);
     }
 
+    /// <summary>
+    /// A drive with the automatic engine: the dry run says "exact" for the small sizes, and the run then uses
+    /// the exact engine on the drive (period by period) instead of refusing it. The exact engine's mean size
+    /// of Z_0 under the kicked Ising drive equals the untruncated Pauli engine's (both exact to rounding), so
+    /// their t* agree to the grid (the same times: whole periods).
+    /// </summary>
+    [Fact]
+    public void Sweep_DriveWithAutomaticEngine_RunsTheEngineTheDryRunNamed()
+    {
+        using var kit = new SweepTestKit();
+        string model = Path.GetFullPath(OpGrowth.Models.ShippedModels.Resolve("kicked-ising"));
+        string Plan(string engine) => $$"""
+            name = "kicked-{{engine}}"
+            description = "kicked Ising drive"
+            [model]
+            file = "{{model}}"
+            sizes = [6]
+            probes = ["Z_0"]
+            [engine]
+            engine = "{{engine}}"
+            exact_max_n = 8
+            time = 6
+            dt = 1
+            record_every = 1
+            max_strings = 1000000
+            ladder = 1
+            """;
+        string auto = kit.WritePlan(Plan("auto"));
+        var dry = SweepTestKit.RunCli(TimeSpan.FromMinutes(2), "sweep", auto, "--results", kit.Path("dry"), "--dry-run");
+        Assert.True(dry.Code == 0, dry.Stderr);
+        Assert.Contains("exact", dry.Stdout, StringComparison.Ordinal);
+        var run = SweepTestKit.RunCli(TimeSpan.FromMinutes(3), "sweep", auto, "--results", kit.Path("auto"));
+        Assert.True(run.Code == 0, run.Stderr);
+        var pauliPlan = kit.WritePlan(Plan("pauli"));
+        var pauli = SweepTestKit.RunCli(TimeSpan.FromMinutes(3), "sweep", pauliPlan, "--results", kit.Path("pauli"));
+        Assert.True(pauli.Code == 0, pauli.Stderr);
+        var a = new PointStore(kit.Path("auto")).LoadAll().Points.Single().Result;
+        var b = new PointStore(kit.Path("pauli")).LoadAll().Points.Single().Result;
+        Assert.NotNull(a.TStar);
+        Assert.Equal(b.TStar!.Value, a.TStar!.Value, 6);
+    }
+
 #if OPGROWTH_EXACT
     /// <summary>
     /// The same kill-and-rerun with real physics: the exact engine (dense traces) on a small disordered Ising
