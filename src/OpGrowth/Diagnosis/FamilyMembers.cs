@@ -13,7 +13,7 @@ public static class FamilyMembers
     /// (the file's <c>size</c> key, else <c>N</c>, else the parameters of the lattice's size keys). For a
     /// target of n sites the member is the largest one with at most n sites, found by changing one size
     /// parameter (the one that keeps the most sites; squares and ladders thus shrink along one direction),
-    /// or, when no single parameter reaches n, all of them together (the most nearly square choice). For
+    /// unless changing all of them together keeps more sites (then the most nearly proportional choice). For
     /// realisation r &gt; 0 the parameter <c>seed</c> is stepped by r. Members are loaded leniently: a term
     /// that places nothing at the smaller size is dropped and noted (<see cref="Model.LoadNotes"/>). Returns
     /// null when the file has no size parameter and the model is larger than n.
@@ -41,6 +41,8 @@ public static class FamilyMembers
             return ModelLoader.Load(path, ov, lenient: true);
         };
     }
+
+    private static double Spread(Dictionary<string, double> values) => values.Values.Max() - values.Values.Min();
 
     /// <summary>Overrides that give the largest member with at most n sites, or null.</summary>
     internal static Dictionary<string, string>? Shrink(string path, IReadOnlyDictionary<string, string> baseOverrides, IReadOnlyDictionary<string, double> parameters, IReadOnlyList<string> sizeParams, int n)
@@ -88,18 +90,33 @@ public static class FamilyMembers
                 bestJoint = false;
             }
         }
-        if (best is null && sizeParams.Count > 1)
+        if (sizeParams.Count > 1)
         {
-            // Every parameter together: the largest member, then the most nearly equal values.
-            for (double f = 0.95; f > 0.02; f -= 0.05)
+            // every combination of smaller values when there are few (e.g. 4 x 4 -> 3 x 2 for six sites), else
+            // all parameters scaled together
+            long combos = sizeParams.Aggregate(1L, (acc, p) => acc * (long)Math.Max(1, current[p]));
+            var trials = new List<Dictionary<string, double>>();
+            if (combos <= 400)
             {
-                var trial = current.ToDictionary(kv => kv.Key, kv => Math.Max(1, Math.Floor(kv.Value * f)));
-                int sites = Sites(trial);
-                if (sites <= n && sites > bestSites)
+                trials.Add(new Dictionary<string, double>());
+                foreach (var p in sizeParams)
                 {
-                    best = trial;
-                    bestSites = sites;
+                    trials = trials.SelectMany(t => Enumerable.Range(1, (int)Math.Max(1, current[p])).Select(v => new Dictionary<string, double>(t) { [p] = v })).ToList();
                 }
+            }
+            else
+            {
+                for (double f = 0.95; f > 0.02; f -= 0.05) trials.Add(current.ToDictionary(kv => kv.Key, kv => Math.Max(1, Math.Floor(kv.Value * f))));
+            }
+            foreach (var trial in trials)
+            {
+                int sites = Sites(trial);
+                if (sites > n || sites < bestSites) continue;
+                if (sites == bestSites && best is not null && !bestJoint) continue; // one direction shrunk wins a tie
+                if (sites == bestSites && best is not null && Spread(trial) >= Spread(best)) continue;
+                best = trial;
+                bestSites = sites;
+                bestJoint = true;
             }
         }
         if (best is null) return null;
