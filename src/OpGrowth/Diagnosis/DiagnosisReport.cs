@@ -101,7 +101,7 @@ public sealed record DiagnosisReport
             _ => Overall.Leading == Mechanism.Undetermined ? "OVERALL: INCONCLUSIVE" : $"OVERALL: INCONCLUSIVE - leaning towards: {Overall.LeadingName}",
         };
         sb.Append(head).AppendLine();
-        Wrap(sb, $"  {Overall.Reason} (tests {string.Join(", ", Overall.Supporting)}).", width, "  ");
+        Wrap(sb, Overall.Supporting.Count > 0 ? $"  {Overall.Reason} (tests {string.Join(", ", Overall.Supporting)})." : $"  {Overall.Reason}.", width, "  ");
         if (Overall.Others.Count > 0) Wrap(sb, $"  also seen: {string.Join(", ", Overall.Others.Select(MechanismNames.Of))}", width, "  ");
         sb.AppendLine();
         sb.AppendLine("thresholds and sources:");

@@ -53,7 +53,8 @@ public static class SpreadingCheck
                     f.Probe, f.N, f.LateSize, f.Fraction, f.LateAutocorrelation, f.Mazur);
             }
         }
-        ProbeEvolution run;
+        ProbeEvolution? run;
+        string? budgetNote = null;
         if (exactMain is not null)
         {
             // The model is as small as the exact member: its exact evolution already is the full-size one,
@@ -63,10 +64,30 @@ public static class SpreadingCheck
         }
         else
         {
-            run = Evolve(model, main, options.EvolutionMaxStrings, options.EvolutionSeconds, options, ct);
-            log?.LogInformation("operator size: {Probe} at N = {N} evolved to t = {T:0.##} ({Recs} records, peak {Peak} strings, discarded {D:G3}, {S:F1} s{Stop})",
-                run.Probe, model.N, run.Times[^1], run.Times.Length, run.PeakStrings, run.Discarded[^1], run.Seconds, run.Completed ? string.Empty : $", stopped: {run.StopReason}");
-            sizes.Add(SizeOf(model, run, mazurFull(run.Probe)));
+            try
+            {
+                run = Evolve(model, main, options.EvolutionMaxStrings, options.EvolutionSeconds, options, ct);
+            }
+            catch (OperationCanceledException) when (!ct.IsCancellationRequested)
+            {
+                // the work limit ran out before the first record (e.g. grouping hundreds of thousands of terms)
+                run = null;
+                budgetNote = FormattableString.Invariant($"not run: budget - the full-size evolution ({model.Hamiltonian.Terms.Count} terms) did not reach its first record within {options.EvolutionSeconds:0} s on {options.EffectiveThreads} threads (processor time)");
+                log?.LogInformation("operator size: {Note}", budgetNote);
+            }
+            if (run is not null && run.Times.Length > 0)
+            {
+                log?.LogInformation("operator size: {Probe} at N = {N} evolved to t = {T:0.##} ({Recs} records, peak {Peak} strings, discarded {D:G3}, {S:F1} s{Stop})",
+                    run.Probe, model.N, run.Times[^1], run.Times.Length, run.PeakStrings, run.Discarded[^1], run.Seconds, run.Completed ? string.Empty : $", stopped: {run.StopReason}");
+                sizes.Add(SizeOf(model, run, mazurFull(run.Probe)));
+            }
+            else run = null;
+        }
+        if (run is null)
+        {
+            budgetNote ??= "not run: budget - the full-size evolution produced no record";
+            var sizeOnly = sizes.Count > 0 ? JudgeSize(sizes) with { Notes = [.. JudgeSize(sizes).Notes, budgetNote], Seconds = sw.Elapsed.TotalSeconds } : TestVerdict.NotRun(3, SizeName, budgetNote, sw.Elapsed.TotalSeconds);
+            return (sizeOnly, TestVerdict.NotRun(4, FrontName, budgetNote), new SpreadingFindings([], sizes, null));
         }
         var front = FrontOf(model, run, options);
         var findings = new SpreadingFindings([run], sizes, front);

@@ -12,7 +12,7 @@ namespace OpGrowth.Evolution;
 internal static class CommutingGroups
 {
     /// <summary>Colours the terms; returns one group per colour (deterministic: depends on the order only).</summary>
-    public static List<RotationGroup<T>> Colour<T>(int n, IReadOnlyList<T> keys, IReadOnlyList<double> weights)
+    public static List<RotationGroup<T>> Colour<T>(int n, IReadOnlyList<T> keys, IReadOnlyList<double> weights, CancellationToken ct = default)
         where T : unmanaged, IPauliKey<T>
     {
         // Merge duplicates, keep first-seen order.
@@ -39,14 +39,20 @@ internal static class CommutingGroups
         Span<int> sites = stackalloc int[T.Capacity];
         var blocked = new HashSet<int>();
         int colours = 0;
+        // a term is compared once with every earlier term that shares a site (stamp: the last term that visited it)
+        var seenBy = new int[terms.Count];
+        Array.Fill(seenBy, -1);
         for (int t = 0; t < terms.Count; t++)
         {
+            if ((t & 63) == 0) ct.ThrowIfCancellationRequested(); // quadratic for dense models (all-to-all Majoranas): honour budgets
             blocked.Clear();
             int m = T.SupportSites(terms[t], sites);
             for (int i = 0; i < m; i++)
             {
                 foreach (int u in atSite[sites[i]])
                 {
+                    if (seenBy[u] == t) continue;
+                    seenBy[u] = t;
                     if (T.Anticommute(terms[t], terms[u])) blocked.Add(colour[u]);
                 }
             }
@@ -57,19 +63,20 @@ internal static class CommutingGroups
             for (int i = 0; i < m; i++) atSite[sites[i]].Add(t);
         }
 
-        var groups = new List<RotationGroup<T>>(colours);
+        var gk = new List<T>[colours];
+        var gw = new List<double>[colours];
         for (int c = 0; c < colours; c++)
         {
-            var gk = new List<T>();
-            var gw = new List<double>();
-            for (int t = 0; t < terms.Count; t++)
-            {
-                if (colour[t] != c) continue;
-                gk.Add(terms[t]);
-                gw.Add(sum[terms[t]]);
-            }
-            groups.Add(new RotationGroup<T>(n, gk, gw));
+            gk[c] = [];
+            gw[c] = [];
         }
+        for (int t = 0; t < terms.Count; t++)
+        {
+            gk[colour[t]].Add(terms[t]);
+            gw[colour[t]].Add(sum[terms[t]]);
+        }
+        var groups = new List<RotationGroup<T>>(colours);
+        for (int c = 0; c < colours; c++) groups.Add(new RotationGroup<T>(n, gk[c], gw[c]));
         return groups;
     }
 

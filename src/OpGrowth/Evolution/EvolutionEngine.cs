@@ -43,7 +43,7 @@ internal sealed class EvolutionEngine<T> where T : unmanaged, IPauliKey<T>
     private EngineState _state = new();
     private EvolutionSeries _series;
 
-    public EvolutionEngine(EvolutionProblem problem, EvolutionOptions options, RungBudget budget, ulong fingerprint, ILogger? logger)
+    public EvolutionEngine(EvolutionProblem problem, EvolutionOptions options, RungBudget budget, ulong fingerprint, ILogger? logger, CancellationToken ct = default)
     {
         _problem = problem;
         _options = options;
@@ -94,7 +94,7 @@ internal sealed class EvolutionEngine<T> where T : unmanaged, IPauliKey<T>
                     keys.Add(T.From(t.String));
                     weights.Add(t.Coefficient);
                 }
-                _groups.AddRange(CommutingGroups.Colour(_n, keys, weights));
+                _groups.AddRange(CommutingGroups.Colour(_n, keys, weights, ct));
             }
             else
             {

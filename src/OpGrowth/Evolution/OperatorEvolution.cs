@@ -213,7 +213,7 @@ public static class OperatorEvolution
     {
         public (EvolutionSeries, int) Invoke<T>() where T : unmanaged, IPauliKey<T>
         {
-            var engine = new EvolutionEngine<T>(problem, options, budget, fingerprint, logger);
+            var engine = new EvolutionEngine<T>(problem, options, budget, fingerprint, logger, ct);
             return (engine.Run(index, count, progress, ct), engine.GroupCount);
         }
     }
