@@ -184,7 +184,7 @@ public static class DiagnosisBattery
         {
             return run();
         }
-        catch (Exception ex) when (ex is ResourceLimitException or ArgumentException or InputException)
+        catch (Exception ex) when (ex is ResourceLimitException or ArgumentException or InputException or ArithmeticException)
         {
             return (TestVerdict.NotRun(number, name, $"could not run: {ex.Message}", sw.Elapsed.TotalSeconds), null);
         }

@@ -42,6 +42,10 @@ public static class LevelStatisticsCheck
             if (reals.Count == 0) return (TestVerdict.NotRun(1, Name, $"no member of the family with at most {dn} sites"), null);
             return FloquetLevelCheck.Run(reals, options, ct);
         }
+        if (model.Hamiltonian.Terms.Count > 0 && Symmetry.PauliCommutant.AllCommute(model.Hamiltonian.Terms.Where(t => !t.String.IsIdentity).Select(t => t.String).ToList()))
+        {
+            return (TestVerdict.NotRun(1, Name, "the terms commute with each other (test 7): the levels are sums of the terms' eigenvalues, degenerate by construction, and gap ratios say nothing more"), null);
+        }
         int top = Math.Min(model.N, Math.Min(options.LevelN + 4, 20));
         SymmetryAnalysis? chosen = null;
         Model? chosenModel = null;

@@ -28,6 +28,12 @@ public static class SymmetricEigen
         if (vectors && z.Length != n * n) throw new ArgumentException($"Eigenvector storage needs {n * n} entries, got {z.Length}.", nameof(z));
         if (n == 0) return;
         e[n - 1] = 0;
+        // An absolute floor (1e-3 of the matrix scale, times the unit round-off) lets a split be declared
+        // between two (nearly) zero diagonal entries: highly degenerate spectra (commuting Hamiltonians) put
+        // many eigenvalues at exactly 0, where a purely relative test never passes.
+        double scale = 0;
+        for (int i = 0; i < n; i++) scale = Math.Max(scale, Math.Abs(d[i]) + Math.Abs(e[i]));
+        double floor = 1e-3 * scale;
         for (int l = 0; l < n; l++)
         {
             int iter = 0;
@@ -37,7 +43,7 @@ public static class SymmetricEigen
                 for (m = l; m < n - 1; m++)
                 {
                     double dd = Math.Abs(d[m]) + Math.Abs(d[m + 1]);
-                    if (Math.Abs(e[m]) <= double.Epsilon + 2.220446049250313e-16 * dd) break;
+                    if (Math.Abs(e[m]) <= double.Epsilon + 2.220446049250313e-16 * Math.Max(dd, floor)) break;
                 }
                 if (m != l)
                 {
