@@ -73,6 +73,12 @@ internal static class LanczosEngine
             var sw = Stopwatch.StartNew();
             var cpu0 = Process.GetCurrentProcess().TotalProcessorTime;
             long predicted = (long)Math.Ceiling(cur.Count * growth * 1.1);
+            if (opt.MaxStrings == 0 && opt.StopAtStrings > 0 && n > 1 && predicted > opt.StopAtStrings)
+            {
+                stop = LanczosStopReason.StringLimit;
+                stopMessage = FormattableString.Invariant($"string limit: step {n} would hold about {predicted:N0} strings, above the limit of {opt.StopAtStrings:N0}");
+                break;
+            }
             // The map driver's emit buffers: one block of inputs times the products per input (sampled),
             // with up to 2x slack from doubling, plus their initial streams.
             double products = ProductsPerInput(basis, cur);
@@ -199,7 +205,7 @@ internal static class LanczosEngine
                 OrthogonalityLoss = orthLoss,
             };
             steps.Add(step);
-            log?.LogInformation("lanczos step {N}: b = {B:F10}, {Strings:N0} strings ({Before:N0} before truncation), discarded {W:G3}, {Sec:F2} s ({Cpu:F1} s CPU), {Mem} accounted, {Managed} managed",
+            log?.LogDebug("lanczos step {N}: b = {B:F10}, {Strings:N0} strings ({Before:N0} before truncation), discarded {W:G3}, {Sec:F2} s ({Cpu:F1} s CPU), {Mem} accounted, {Managed} managed",
                 n, bn, a.Count, before, discarded, step.Seconds, step.CpuSeconds, Gib(accounted), Gib(managed));
             onStep?.Invoke(step, a);
         }

@@ -17,6 +17,12 @@ public sealed record LanczosOptions
     /// <summary>Keep at most this many strings per Krylov vector (largest |c| first); 0 = no truncation (exact).</summary>
     public long MaxStrings { get; init; }
 
+    /// <summary>
+    /// Without truncation (<see cref="MaxStrings"/> = 0): stop, keeping the coefficients so far, before a step whose
+    /// Krylov vector is predicted to exceed this many strings (0 = no limit). Bounds time and memory of an exact run.
+    /// </summary>
+    public long StopAtStrings { get; init; }
+
     /// <summary>Re-orthogonalization against earlier (kept, possibly truncated) Krylov vectors.</summary>
     public Reorthogonalization Reorthogonalize { get; init; } = Reorthogonalization.None;
 
@@ -44,6 +50,7 @@ public sealed record LanczosOptions
         ArgumentOutOfRangeException.ThrowIfLessThan(Depth, 1, nameof(Depth));
         ArgumentOutOfRangeException.ThrowIfLessThan(MemoryBudgetBytes, 1L << 20, nameof(MemoryBudgetBytes));
         ArgumentOutOfRangeException.ThrowIfNegative(MaxStrings, nameof(MaxStrings));
+        ArgumentOutOfRangeException.ThrowIfNegative(StopAtStrings, nameof(StopAtStrings));
         ArgumentOutOfRangeException.ThrowIfLessThan(ReorthogonalizationWindow, 1, nameof(ReorthogonalizationWindow));
         ArgumentOutOfRangeException.ThrowIfLessThan(Threads, 1, nameof(Threads));
         ArgumentOutOfRangeException.ThrowIfNegative(ClosureTolerance, nameof(ClosureTolerance));

@@ -14,7 +14,7 @@ public static partial class SweepPlanReader
     internal static readonly string[] TopKeys = ["name", "description", "model", "parameters", "engine", "synthetic"];
     internal static readonly string[] ModelKeys = ["file", "files", "sizes", "seeds", "seed_parameter", "probes"];
     internal static readonly string[] EngineKeys =
-        ["engine", "exact_max_n", "time", "dt", "record_every", "method", "max_strings", "threshold", "ladder", "samples", "sample_seed", "front_fraction"];
+        ["engine", "exact_max_n", "time", "dt", "record_every", "method", "max_strings", "threshold", "budgets", "samples", "sample_seed", "front_fraction"];
     internal static readonly string[] SyntheticKeys = ["law", "a", "b", "noise", "truncation_fraction", "delay", "memory"];
     public static readonly IReadOnlyList<string> Engines = ["auto", "pauli", "exact", "synthetic"];
     internal static readonly string[] Methods = ["trotter2", "trotter4", "rk4"];
@@ -157,7 +157,7 @@ public static partial class SweepPlanReader
                     "method" => engine with { Method = r.Choice(v, key, Methods) },
                     "max_strings" => engine with { MaxStrings = r.Int(v, key, 1, 1L << 40) },
                     "threshold" => engine with { Threshold = r.Double(v, key, 0, 1) },
-                    "ladder" => engine with { Ladder = (int)r.Int(v, key, 1, 3) },
+                    "budgets" => engine with { Budgets = (int)r.Int(v, key, 1, 3) },
                     "samples" => engine with { Samples = (int)r.Int(v, key, 1, 10_000) },
                     "sample_seed" => engine with { SampleSeed = r.Int(v, key, long.MinValue, long.MaxValue) },
                     "front_fraction" => engine with { FrontFraction = r.Double(v, key, 1e-6, 0.999999) },

@@ -113,20 +113,20 @@ public class EngineBehaviourTests
     }
 
     [Fact]
-    public void Ladder_ThreeRungs_ReportsMovementPerFigure()
+    public void BudgetSeries_ThreeBudgets_ReportsMovementPerFigure()
     {
         int n = 16;
         var problem = Problem(MixedFieldIsing(n), PauliString.Single(n, 8, 'Z'));
-        var opts = new EvolutionOptions { Dt = 0.1, Time = 4.5, RecordEvery = 2, Threads = 2, LadderRungs = 3, Truncation = new TruncationPolicy { MaxStrings = 4000, MemoryBytes = 1L << 30 } };
+        var opts = new EvolutionOptions { Dt = 0.1, Time = 4.5, RecordEvery = 2, Threads = 2, BudgetCount = 3, Truncation = new TruncationPolicy { MaxStrings = 4000, MemoryBytes = 1L << 30 } };
         var result = OperatorEvolution.Run(problem, opts, OpGrowth.Analysis.LatticeGeometry.Chain(n));
         Assert.True(result.Completed);
-        Assert.Equal(3, result.Rungs.Count);
-        Assert.Equal(new long?[] { 4000, 2000, 1000 }, result.Rungs.Select(r => r.Budget.MaxStrings).ToArray());
+        Assert.Equal(3, result.Runs.Count);
+        Assert.Equal(new long?[] { 4000, 2000, 1000 }, result.Runs.Select(r => r.Budget.MaxStrings).ToArray());
         var vb = Assert.Single(result.Convergence, c => c.Figure == "butterflyVelocity");
         Assert.Equal(3, vb.Values.Length);
         Assert.NotNull(vb.Values[0]);
         Assert.Contains(result.Convergence, c => c.Movement is not null);
         Assert.All(result.Convergence, c => Assert.Equal(c.Converged, c.Note is null));
-        Assert.True(result.Rungs[0].Records[^1].DiscardedTotal <= result.Rungs[2].Records[^1].DiscardedTotal);
+        Assert.True(result.Runs[0].Records[^1].DiscardedTotal <= result.Runs[2].Records[^1].DiscardedTotal);
     }
 }

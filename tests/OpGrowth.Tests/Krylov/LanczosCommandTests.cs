@@ -108,7 +108,7 @@ public class LanczosCommandTests
     [InlineData("2000000", 2_000_000L)]
     public void TryParseMemory_Units_Parse(string text, long expected)
     {
-        Assert.True(LanczosCommand.TryParseMemory(text, out long b));
+        Assert.True(OpGrowth.Evolution.MemoryBudget.TryParse(text, out long b));
         Assert.Equal(expected, b);
     }
 }
