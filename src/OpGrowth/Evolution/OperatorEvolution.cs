@@ -142,7 +142,7 @@ public static class OperatorEvolution
             if (ms > ceiling)
             {
                 throw new ResourceLimitException(
-                    $"--max-strings {ms} needs about {MemoryBudget.Format((long)(ms * MemoryBudget.BytesPerString(problem.N)) + MemoryBudget.RuntimeReserve)} on {problem.N} qubits; the memory budget {MemoryBudget.Format(memory)} holds {ceiling} strings. Lower --max-strings or raise --memory");
+                    $"--max-strings {ms:N0} needs about {MemoryBudget.Format((long)(ms * MemoryBudget.BytesPerString(problem.N)) + MemoryBudget.RuntimeReserve)} on {problem.N} qubits; the memory budget {MemoryBudget.Format(memory)} holds {ceiling:N0} strings. Lower --max-strings or raise --memory");
             }
             m = ms;
         }
@@ -150,12 +150,12 @@ public static class OperatorEvolution
         else m = null;
 
         notes = [];
-        if (m is not null) notes.Add($"top-M truncation (M = {m} strings{(tp.MaxStrings is null ? $", from the memory budget {MemoryBudget.Format(memory)}" : "")}): removes the weakest coefficients once the operator has spread; late-time size distribution, saturation and t* shift with the budget when much weight is discarded (compare the budget series).");
+        if (m is not null) notes.Add($"top-M truncation (M = {m:N0} strings{(tp.MaxStrings is null ? $", from the memory budget {MemoryBudget.Format(memory)}" : "")}): removes the weakest coefficients once the operator has spread; late-time size distribution, saturation and t* shift with the budget when much weight is discarded (compare the budget series).");
         if (tp.Threshold > 0) notes.Add($"coefficient threshold {tp.Threshold:g3}: removes small coefficients of long, late strings first; late-time mean size and plateau biased low, the front little affected while its coefficients exceed the threshold.");
         if (tp.MaxSize is int k) notes.Add($"size cap {k}: suppresses size growth by construction; mean size, growth rates and saturation are biased low (t* late) and the size can never exceed {k}.");
         if (tp.DampingRate > 0) notes.Add($"DAOE damping gamma = {tp.DampingRate:g3} above size l* = {tp.DampingMinSize} (Rakovszky, von Keyserlingk, Pollmann, PRB 105, 075131 (2022)): keeps short-string autocorrelations, suppresses long strings; mean size, OTOCs and the front biased low once strings longer than l* matter.");
         if (m is null && !accuracyRule) notes.Add("no truncation: exact up to rounding.");
-        if (m is null) notes.Add($"memory ceiling {ceiling} strings ({MemoryBudget.Format(memory)}): if the requested accuracy needs more, the run stops with exit code 3 and keeps its partial results.");
+        if (m is null) notes.Add($"memory ceiling {ceiling:N0} strings ({MemoryBudget.Format(memory)}): if the requested accuracy needs more, the run stops with exit code 3 and keeps its partial results.");
 
         int count = options.BudgetCount;
         bool anyKnob = m is not null || accuracyRule;
@@ -184,7 +184,7 @@ public static class OperatorEvolution
     private static string Describe(SeriesBudget b)
     {
         var parts = new List<string>();
-        if (b.MaxStrings is long m) parts.Add($"max strings {m}");
+        if (b.MaxStrings is long m) parts.Add($"max strings {m:N0}");
         if (b.Threshold > 0) parts.Add($"threshold {b.Threshold:g3}");
         if (b.MaxSize is int k) parts.Add($"max size {k}");
         if (b.DampingRate > 0) parts.Add($"damping {b.DampingRate:g3}@{b.DampingMinSize}");

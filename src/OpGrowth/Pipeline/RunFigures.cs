@@ -97,7 +97,7 @@ public static class RunFigures
             s.Records.Select(x => x.Time).ToArray(), s.Records.Select(x => x.DiscardedTotal).ToArray())
         { Slot = i == 0 ? 0 : i + 2 }).ToList();
         return Charts.Lines(new LineChartSpec("discarded-weight", "Discarded weight",
-            $"Weight removed by truncation up to each time (sum of the squared coefficients dropped; the kept operator has norm^2 = 1 - this); {EvolutionHeadlines.DiscardedText(evo)}. Figures read off late times, where much weight is gone, describe the truncated operator.",
+            $"Weight removed by truncation up to each time (sum of the squared coefficients dropped), one line per string budget; in total {EvolutionHeadlines.DiscardedText(evo)}.",
             AxisText.Time, "discarded weight (log scale)", series) { LogY = true }, size ?? FigureSize.Report);
     }
 

@@ -378,7 +378,7 @@ public static class RunReport
         if (r.Diagnosis is { } d)
         {
             var rows = d.Tests.Select(t => (IReadOnlyList<string>)[t.Number.ToString(Inv), t.Name, OpGrowth.Diagnosis.MechanismNames.Of(t.Outcome), t.Figure,
-                t.Threshold == "-" ? "-" : t.Threshold + " (source: " + t.Source + ")", t.Reason]).ToList();
+                t.Threshold == "-" ? "-" : t.Threshold + " (source: " + WithoutOutsideFiles(t.Source) + ")", t.Reason]).ToList();
             var s = d.Settings;
             list.Add(new ReportTable("diagnosis", "Diagnosis", ["#", "test", "verdict", "figure", "threshold", "reason"], rows)
             {
@@ -411,6 +411,15 @@ public static class RunReport
         }
         return list;
     }
+
+    /// <summary>
+    /// The battery names some sources by design notes that are not part of the repository (conventions.md,
+    /// check-values.md); the report points to what a reader has instead: the README's Conventions section and
+    /// docs/diagnosis.md.
+    /// </summary>
+    internal static string WithoutOutsideFiles(string text)
+        => text.Replace("conventions.md", "README, Conventions", StringComparison.Ordinal)
+               .Replace("check-values.md", "docs/diagnosis.md", StringComparison.Ordinal);
 
     private static FitWindow? Win(double? a, double? b, string v = "t")
         => a is double x && b is double y && double.IsFinite(x) && double.IsFinite(y) && y >= x ? new FitWindow(x, y, v) : null;

@@ -51,7 +51,7 @@ public sealed record SweepCollection
         }
         var (header, rows) = TableRows();
         Put("table.csv", Csv(header, rows));
-        Put("table.json", Json(header, rows));
+        Put("table.json", Json(JsonKeys(header), rows));
         Put("averages.csv", AveragesCsv());
         Put("series.csv", SeriesCsv());
         Put("timings.csv", TimingsCsv());
@@ -97,6 +97,19 @@ public sealed record SweepCollection
             rows.Add(cells.ToArray());
         }
         return (header, rows);
+    }
+
+    /// <summary>The table's JSON keys: camelCase names of the fixed columns (as in the point files); parameter columns keep their names.</summary>
+    private static IReadOnlyList<string> JsonKeys(IReadOnlyList<string> header)
+    {
+        var names = new Dictionary<string, string>(StringComparer.Ordinal)
+        {
+            ["N"] = "n", ["t_star"] = "tStar", ["t_star_grid_err"] = "tStarGridError", ["t_star_trunc_err"] = "tStarTruncationError",
+            ["t_star_sampling_err"] = "tStarSamplingError", ["growth_kind"] = "growthKind", ["growth_rate"] = "growthRate", ["growth_rate_err"] = "growthRateError",
+            ["growth_rate_trunc_err"] = "growthRateTruncationError", ["growth_window"] = "growthWindow", ["v_b"] = "vb", ["v_b_err"] = "vbError",
+            ["v_b_trunc_err"] = "vbTruncationError", ["discarded_weight"] = "discardedWeight", ["final_size_fraction"] = "finalSizeFraction", ["final_time"] = "finalTime",
+        };
+        return header.Select((h, i) => names.TryGetValue(h, out var k) ? k : h.StartsWith("param_", StringComparison.Ordinal) ? "param" + h["param_".Length..] : h).ToList();
     }
 
     private string AveragesCsv()
@@ -213,7 +226,7 @@ public sealed record SweepCollection
                     {
                         case null: w.WriteNullValue(); break;
                         case double d when double.IsFinite(d): w.WriteNumberValue(d); break;
-                        case double d: w.WriteStringValue(d.ToString("R", Ci)); break;
+                        case double: w.WriteNullValue(); break;
                         case int n: w.WriteNumberValue(n); break;
                         case long l: w.WriteNumberValue(l); break;
                         case bool b: w.WriteBooleanValue(b); break;
