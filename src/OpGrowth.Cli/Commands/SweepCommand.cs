@@ -146,6 +146,8 @@ internal static class SweepCommand
             if (!(d > 0 && d <= e.Time)) throw new InputException($"found --dt {d}; expected a positive step no larger than the final time");
             e = e with { Dt = d };
         }
+        if (e.Time / e.Dt > OpGrowth.Evolution.OperatorEvolution.MaxSteps)
+            throw new InputException($"found --time {e.Time.ToString(CultureInfo.InvariantCulture)} with --dt {e.Dt.ToString(CultureInfo.InvariantCulture)} ({e.Time / e.Dt:G3} steps); expected at most {OpGrowth.Evolution.OperatorEvolution.MaxSteps:N0} steps per point");
         if (maxStrings is long ms)
         {
             if (ms < 1) throw new InputException($"found --max-strings {ms}; expected at least 1");
@@ -156,7 +158,9 @@ internal static class SweepCommand
             if (l is < 1 or > 3) throw new InputException($"--budgets: found {l}; expected 1, 2 or 3");
             e = e with { Budgets = l };
         }
-        return p with { Engine = e };
+        p = p with { Engine = e };
+        if (models.Length > 0 || grids.Length > 0 || seeds is not null) SweepPlanReader.CheckParameters(p, null);
+        return p;
     }
 
     private static int RunLocal(SweepPlan plan, string dir, int? jobs, long? memory, int? threads, bool figures, ILogger log, CancellationToken ct)

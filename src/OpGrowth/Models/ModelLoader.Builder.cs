@@ -81,7 +81,8 @@ public static partial class ModelLoader
                 if (periodNode is not null)
                 {
                     period = ReadNumber(periodNode, "period");
-                    if (!(period > 0)) throw Err(periodNode.Line, $"found period = {Fmt(period)}; expected a positive duration");
+                    // Times are counted in periods, but the report states them in time units: keep them representable.
+                    if (!(period >= 1e-9 && period <= 1e9)) throw Err(periodNode.Line, $"found period = {Fmt(period)}; expected a positive duration from 1e-9 to 1e9 (time is in units of 1/energy)");
                 }
                 drive = ReadDrive(layerNode!, _root.KeyLine("layer"), period);
                 var avg = new List<PauliTerm>();

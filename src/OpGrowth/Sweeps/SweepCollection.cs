@@ -179,9 +179,11 @@ public sealed record SweepCollection
             }
             if (s.Comparison is { } c)
             {
-                sb.Append(CultureInfo.InvariantCulture, $"  log:    a = {c.Log.A:0.####} +- {c.Log.AError:0.####}, b = {c.Log.Slope:0.####} +- {c.Log.SlopeError:0.####}, chi2/dof = {c.Log.ReducedChiSquared:0.##}, AIC = {c.Log.Aic:0.##}\n");
-                string v = c.Linear.V is double vv ? $", v = {vv:0.####} +- {c.Linear.VError:0.####}" : "";
-                sb.Append(CultureInfo.InvariantCulture, $"  linear: a = {c.Linear.A:0.####} +- {c.Linear.AError:0.####}, 1/v = {c.Linear.Slope:0.####} +- {c.Linear.SlopeError:0.####}{v}, chi2/dof = {c.Linear.ReducedChiSquared:0.##}, AIC = {c.Linear.Aic:0.##}\n");
+                static string V(double x, double e) => Reporting.NumberFormat.ValueWithUncertainty(x, e);
+                static string N(double x) => Reporting.NumberFormat.Number(x, 3);
+                sb.Append($"  log:    a = {V(c.Log.A, c.Log.AError)}, b = {V(c.Log.Slope, c.Log.SlopeError)}, chi2/dof = {N(c.Log.ReducedChiSquared)}, AIC = {N(c.Log.Aic)}\n");
+                string v = c.Linear.V is double vv ? $", v = {V(vv, c.Linear.VError ?? double.NaN)}" : "";
+                sb.Append($"  linear: a = {V(c.Linear.A, c.Linear.AError)}, 1/v = {V(c.Linear.Slope, c.Linear.SlopeError)}{v}, chi2/dof = {N(c.Linear.ReducedChiSquared)}, AIC = {N(c.Linear.Aic)}\n");
                 sb.Append("  ").Append(c.Verdict).Append('\n');
             }
             if (s.Note is not null) sb.Append("  note: ").Append(s.Note).Append('\n');
@@ -190,7 +192,7 @@ public sealed record SweepCollection
         return sb.ToString();
     }
 
-    private static string Fmt(double? v) => v is double d ? d.ToString("0.####", Ci) : "-";
+    private static string Fmt(double? v) => v is double d ? Reporting.NumberFormat.Number(d, 4) : "-";
 
     private static string Cell(object? v) => v switch
     {
