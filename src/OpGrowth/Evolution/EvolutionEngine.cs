@@ -544,7 +544,8 @@ internal sealed class EvolutionEngine<T> where T : unmanaged, IPauliKey<T>
         }
         double before = prune > 0 ? _cur.NormSquared() : 0;
         var stats = CompactInto(acc, Rule(damping), _spare);
-        double passLoss = prune > 0 ? before - (stats.KeptWeight + stats.DeletedWeight + stats.DampedWeight) : 0;
+        // Weight lost to branch pruning; the difference of two norms can come out a rounding error below zero.
+        double passLoss = prune > 0 ? Math.Max(0, before - (stats.KeptWeight + stats.DeletedWeight + stats.DampedWeight)) : 0;
         Swap();
         AfterPass(stats);
         return passLoss + stats.DeletedWeight + stats.DampedWeight;
