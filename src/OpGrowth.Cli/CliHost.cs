@@ -30,6 +30,9 @@ internal static class CliHost
     /// <summary>Where commands write error and log lines (stderr unless redirected).</summary>
     public static TextWriter Err => ErrWriter.Value ?? Console.Error;
 
+    /// <summary>True when this process is the opgrowth executable (Program.Main), not a host that calls Program.Run (tests).</summary>
+    public static bool OwnsProcess { get; set; }
+
     /// <summary>The verbosity chosen with -q / -v for the current call flow.</summary>
     public static Verbosity Verbosity
     {
@@ -109,9 +112,14 @@ internal static class CliHost
         {
             return Interrupted();
         }
-        catch (OutOfMemoryException)
+        catch (AggregateException ex) when (ex.Flatten().InnerExceptions.All(i => i is OperationCanceledException))
+        {
+            return Interrupted();
+        }
+        catch (Exception ex) when (ex is OutOfMemoryException || (ex is AggregateException ag && ag.Flatten().InnerExceptions.Any(i => i is OutOfMemoryException)))
         {
             Err.WriteLine("resource limit: out of memory; lower the budget (--max-strings, --depth) or give a smaller --memory so the engines plan for less");
+            if (Environment.GetEnvironmentVariable("OPGROWTH_DEBUG") == "1") Err.WriteLine(ex);
             return ExitCodes.ResourceLimit;
         }
         catch (Exception ex) when (ex is IOException or UnauthorizedAccessException)

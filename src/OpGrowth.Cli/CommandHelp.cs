@@ -54,7 +54,7 @@ internal static class CommandHelp
         ],
         ["evolve"] =
         [
-            "opgrowth evolve mixed-field-ising                 # default budget: 100,000 strings, t = 10",
+            "opgrowth evolve mixed-field-ising                 # default budget (100,000 strings here), t = 10",
             "opgrowth evolve mixed-field-ising --set N=128 --probe Z_64 --time 12 --max-strings 1000000 --budgets 3",
             "opgrowth evolve kicked-ising --time 40 --memory 4GiB --out runs/kicked   # a drive: 40 periods",
             "opgrowth evolve mixed-field-ising --out runs/mfi --resume   # continue an interrupted run",

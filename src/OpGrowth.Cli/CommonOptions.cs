@@ -64,6 +64,33 @@ internal static class CommonOptions
         CustomParser = r => NonEmpty(r, "--out", "a folder path"),
     };
 
+    /// <summary>Hard limit of the managed heap relative to an explicit --memory (room for fragmentation).</summary>
+    public const double HeapSlack = 1.1;
+
+    /// <summary>
+    /// Makes an explicit --memory hold for the whole process: the managed heap gets a hard limit of that size
+    /// (the GC then collects and returns memory before it would grow past it), so the resident set stays within the
+    /// cap plus the runtime's own code and native data. The engines plan their arrays inside the same budget; an
+    /// allocation beyond it ends the run with exit code 3. Only in the executable itself (tests call
+    /// <see cref="Program.Run"/> in a shared process and must not cap it).
+    /// </summary>
+    public static void ApplyMemoryCap(long? bytes)
+    {
+        if (bytes is not long b || !CliHost.OwnsProcess) return;
+        // 10% above the cap: room for heap fragmentation, so that the engines' own planning (inside the cap) decides
+        // when to stop, not an allocation failure; the resident set then stays within 1.1 x cap + the runtime's baseline.
+        AppContext.SetData("GCHeapHardLimit", (ulong)(b * HeapSlack));
+        GC.RefreshMemoryLimit();
+    }
+
+    /// <summary>Applies an explicit --memory cap (<see cref="ApplyMemoryCap"/>), then runs the command body.</summary>
+    public static int Capped(long? bytes, Func<int> body)
+    {
+        ArgumentNullException.ThrowIfNull(body);
+        ApplyMemoryCap(bytes);
+        return body();
+    }
+
     /// <summary>The thread count to use (the default when the option was not given).</summary>
     public static int ThreadsOrDefault(int? threads) => threads ?? DefaultThreads;
 

@@ -13,7 +13,11 @@ public static class Program
     /// <summary>-v: also per-step detail (every Lanczos step, every sample, every sector).</summary>
     private static readonly Option<bool> Verbose = new("--verbose", "-v") { Description = "Also log every step (Lanczos steps, samples, sectors).", Recursive = true };
 
-    public static int Main(string[] args) => Run(args, Console.Out, Console.Error);
+    public static int Main(string[] args)
+    {
+        CliHost.OwnsProcess = true;
+        return Run(args, Console.Out, Console.Error);
+    }
 
     /// <summary>Runs the tool with explicit output writers (tests call this in-process).</summary>
     public static int Run(string[] args, TextWriter output, TextWriter error)
@@ -38,8 +42,10 @@ public static class Program
     internal static string UsageMessage(string message)
     {
         string m = CliHost.OneLine(message);
-        foreach (var (type, words) in (ReadOnlySpan<(string, string)>)[("System.Double", "a number"), ("System.Int32", "a whole number"), ("System.Int64", "a whole number"), ("System.Boolean", "true or false")])
-            m = m.Replace($" as expected type '{type}'.", $"; expected {words}", StringComparison.Ordinal);
+        m = System.Text.RegularExpressions.Regex.Replace(m, @" as expected type '([^']*)'\.?", t =>
+            t.Groups[1].Value.Contains("Double", StringComparison.Ordinal) ? "; expected a number"
+            : t.Groups[1].Value.Contains("Int", StringComparison.Ordinal) ? "; expected a whole number"
+            : t.Groups[1].Value.Contains("Boolean", StringComparison.Ordinal) ? "; expected true or false" : "; expected another value");
         if (m.StartsWith("Unrecognized command or argument", StringComparison.Ordinal)) m = "found " + m["Unrecognized command or argument ".Length..].TrimEnd('.') + ", which is not a command, option or argument here";
         return m.TrimEnd('.');
     }

@@ -22,21 +22,48 @@ internal static class EvolveCommand
     private static readonly string[] Methods = ["trotter2", "trotter4", "rk4", "taylor"];
     private static readonly CultureInfo Inv = CultureInfo.InvariantCulture;
 
-    /// <summary>String budget when no truncation option is given: finishes in about a minute on 2 cores on the shipped models.</summary>
+    /// <summary>String budget when no truncation option is given, for models with up to three terms per site.</summary>
     public const long DefaultMaxStrings = 100_000;
+
+    /// <summary>
+    /// The default string budget of a model: <see cref="DefaultMaxStrings"/> times (3 / terms per site)^2 when a
+    /// model has more than three terms (or drive rotations) per site, never below 2,000. A step costs more with
+    /// more terms per site both through more passes and through more anticommuting generators per string, so
+    /// with this budget every shipped model finishes in a few minutes on 2 cores with no budget option.
+    /// </summary>
+    /// <summary>
+    /// The default final time: 10, or 10 x 1,200 / terms for a model of more than 1,200 terms (or rotations), at
+    /// least 1: every commuting group is one pass per step, so a step of such a model costs seconds however small
+    /// the budget.
+    /// </summary>
+    public static double DefaultTimeFor(Model model)
+    {
+        ArgumentNullException.ThrowIfNull(model);
+        int terms = model.Drive is { } d ? d.RotationCount : model.Hamiltonian.Terms.Count;
+        return terms <= 1200 ? 10 : Math.Max(1, Math.Round(20.0 * 1200 / terms) / 2);
+    }
+
+    public static long DefaultBudgetFor(Model model)
+    {
+        ArgumentNullException.ThrowIfNull(model);
+        int terms = model.Drive is { } d ? d.RotationCount : model.Hamiltonian.Terms.Count;
+        double perSite = (double)terms / Math.Max(1, model.N);
+        double scale = perSite <= 3 ? 1 : 9 / (perSite * perSite);
+        return Math.Max(2_000, (long)(DefaultMaxStrings * scale) / 1000 * 1000);
+    }
 
     public static Command Create()
     {
         var model = CommonOptions.Model();
         var set = CommonOptions.Set();
         var probe = CommonOptions.Probe();
-        var time = new Option<double>("--time") { Description = "Final time; for a periodic drive, the number of periods.", DefaultValueFactory = _ => 10 };
+        var time = new Option<double?>("--time") { Description = "Final time; for a periodic drive, the number of periods [default: 10; shorter for models of more than 1,200 terms, as the summary says]." };
         var dt = new Option<double>("--dt") { Description = "Time step. trotter2: global error O(dt^2); trotter4 and rk4: O(dt^4); taylor: exact to rounding at any dt (cost grows with dt). Ignored for drives (exact per period).", DefaultValueFactory = _ => 0.05 };
         var every = new Option<int?>("--record-every") { Description = "Record observables every this many steps [default: about 100 records over the run]." };
         var method = new Option<string>("--method") { Description = "trotter2 | trotter4 (norm-preserving Suzuki splittings over commuting groups) | rk4 (cross-check) | taylor (exact reference, small systems).", DefaultValueFactory = _ => "trotter2" };
         method.AcceptOnlyFromAmong(Methods);
         var threshold = new Option<double>("--threshold") { Description = "Drop strings with |c| below this after every pass. Biases late-time size and plateau low.", DefaultValueFactory = _ => 0 };
-        var maxStrings = new Option<long?>("--max-strings") { Description = $"Keep the M strings of largest |c| after every pass [default: {DefaultMaxStrings:N0} when no other truncation option and no --memory is given; with --memory alone: as many as it holds]." };
+        var maxStrings = new Option<long?>("--max-strings") { Description = $"Keep the M strings of largest |c| after every pass [default, when no other truncation option and no --memory is given: {DefaultMaxStrings:N0}, fewer for models with more than three terms per site; with --memory alone: as many as it holds]." };
         var memory = CommonOptions.Memory();
         var maxSize = new Option<int?>("--max-size") { Description = "Drop strings acting on more than K sites. WARNING: suppresses size growth by construction (mean size, growth rates and saturation biased low, t* late, size never above K)." };
         var damping = new Option<string?>("--damping") { Description = "DAOE damping GAMMA@LSTAR: multiply c_S by exp(-GAMMA (size - LSTAR)) per unit time for strings longer than LSTAR (Rakovszky, von Keyserlingk, Pollmann 2022). Biases long-string quantities (size, OTOC, front) low." };
@@ -58,7 +85,7 @@ internal static class EvolveCommand
         {
             model, set, probe, time, dt, every, method, threshold, maxStrings, memory, maxSize, damping, budgets, front, threads, outDir, resume, ckEvery, noCk, keepCk,
         };
-        cmd.SetAction(pr => CliHost.Run(ct => Execute(new Settings
+        cmd.SetAction(pr => CliHost.Run(ct => CommonOptions.Capped(pr.GetValue(memory), () => Execute(new Settings
         {
             Model = pr.GetValue(model)!,
             Sets = pr.GetValue(set) ?? [],
@@ -80,7 +107,7 @@ internal static class EvolveCommand
             CheckpointMinutes = pr.GetValue(ckEvery),
             NoCheckpoints = pr.GetValue(noCk),
             KeepCheckpoints = pr.GetValue(keepCk),
-        }, ct)));
+        }, ct))));
         return cmd;
     }
 
@@ -89,7 +116,7 @@ internal static class EvolveCommand
         public required string Model { get; init; }
         public required string[] Sets { get; init; }
         public string? Probe { get; init; }
-        public double Time { get; init; }
+        public double? Time { get; init; }
         public double Dt { get; init; }
         public int? RecordEvery { get; init; }
         public required string Method { get; init; }
@@ -134,7 +161,7 @@ internal static class EvolveCommand
         if (!(st.Threshold >= 0) || !double.IsFinite(st.Threshold)) throw new InputException($"--threshold: found {st.Threshold.ToString(Inv)}; expected a non-negative number");
         var (path, _, model) = CommonOptions.LoadModel(st.Model, st.Sets);
         var probe = ProbeChoice.Resolve(model, st.Probe);
-        double time = CommonOptions.AbsoluteTime(st.Time, model, st.Dt, OperatorEvolution.MaxSteps);
+        double time = CommonOptions.AbsoluteTime(st.Time ?? DefaultTimeFor(model), model, st.Dt, OperatorEvolution.MaxSteps);
         string outDir = Path.GetFullPath(st.Out ?? $"evolve-{ScramblingRun.Sanitize(model.Name)}");
         string checkpoints = Path.Combine(outDir, "checkpoints");
         if (st.Resume && (st.NoCheckpoints || !Directory.Exists(checkpoints) || Directory.GetFiles(checkpoints, "checkpoint-*.bin").Length == 0))
@@ -173,7 +200,7 @@ internal static class EvolveCommand
             Truncation = new TruncationPolicy
             {
                 Threshold = st.Threshold,
-                MaxStrings = defaultBudget ? DefaultMaxStrings : st.MaxStrings,
+                MaxStrings = defaultBudget ? DefaultBudgetFor(model) : st.MaxStrings,
                 MemoryBytes = st.Memory,
                 MaxSize = st.MaxSize,
                 DampingRate = gamma,
@@ -205,7 +232,7 @@ internal static class EvolveCommand
             {
                 result = OperatorEvolution.Run(problem, options, geometry, log, CliHost.Verbosity == Verbosity.Quiet ? null : new LogProgress(log), ct, analysis);
             }
-            string summary = Summary(result, defaultBudget);
+            string summary = Summary(result, defaultBudget ? DefaultBudgetFor(model) : null, st.Time is null && DefaultTimeFor(model) < 10 ? DefaultTimeFor(model) : null);
             Write(outDir, result, options, model, path, probe, summary);
             log.LogInformation("wrote {Out}", outDir);
             if (result.Completed && !st.KeepCheckpoints && options.CheckpointDirectory is { } ck && Directory.Exists(ck)) Directory.Delete(ck, true);
@@ -228,7 +255,7 @@ internal static class EvolveCommand
                 _tasks[p.Run] = task;
             }
             task.Value = p.Step;
-            task.Description = FormattableString.Invariant($"budget {p.Run + 1}/{p.Runs} t={p.Time:0.###} strings={p.Strings:N0} discarded={NumberFormat.Number(p.DiscardedTotal, 2)}");
+            task.Description = FormattableString.Invariant($"budget {p.Run + 1}/{p.Runs} t={p.Time:0.###} strings={p.Strings:N0} discarded={NumberFormat.Number(Math.Max(0, p.DiscardedTotal), 2)}");
         }
     }
 
@@ -244,7 +271,7 @@ internal static class EvolveCommand
             _last = now;
             string eta = p.Remaining is TimeSpan r ? r.ToString(@"hh\:mm\:ss", Inv) : "?";
             log.LogInformation("budget {Run}/{Runs}: step {Step}/{Total} t = {Time} strings {Strings} discarded {Disc} elapsed {Elapsed} eta {Eta}",
-                p.Run + 1, p.Runs, p.Step, p.TotalSteps, NumberFormat.Number(p.Time), p.Strings, NumberFormat.Number(p.DiscardedTotal, 2), p.Elapsed.ToString(@"hh\:mm\:ss", Inv), eta);
+                p.Run + 1, p.Runs, p.Step, p.TotalSteps, NumberFormat.Number(p.Time), p.Strings, NumberFormat.Number(Math.Max(0, p.DiscardedTotal), 2), p.Elapsed.ToString(@"hh\:mm\:ss", Inv), eta);
         }
     }
 
@@ -287,7 +314,7 @@ internal static class EvolveCommand
     }
 
     /// <summary>The short text summary printed on stdout (and written to summary.txt).</summary>
-    internal static string Summary(EvolutionResult r, bool defaultBudget)
+    internal static string Summary(EvolutionResult r, long? defaultBudget, double? shortTime = null)
     {
         var sb = new StringBuilder();
         var main = r.Main;
@@ -314,10 +341,13 @@ internal static class EvolveCommand
             sb.Append("  t* (Majoranas): ").Append(tm.Value is double tmv ? NumberFormat.Number(tmv, 3) + (EvolutionHeadlines.Convergence(r, "majoranaScramblingTime") is { Converged: false, Note: var note } ? $" (not converged: {note})" : "") : $"not reached (level {NumberFormat.Number(tm.Target, 3)})").Append('\n');
         }
         foreach (var note in r.Notes) sb.Append("  note: ").Append(note).Append('\n');
-        if (defaultBudget)
+        if (defaultBudget is long budget)
         {
-            sb.Append(Inv, $"  note: default budget of {DefaultMaxStrings:N0} strings; to go further: --max-strings 1000000 --budgets 3 (about {MemoryBudget.Format((long)(1_000_000 * MemoryBudget.BytesPerString(r.N)))} at the full budget), or --memory 8GiB to keep as many strings as 8 GiB hold\n");
+            long more = budget * 10;
+            sb.Append(Inv, $"  note: default budget of {budget:N0} strings; to go further: --max-strings {more} --budgets 3 (about {MemoryBudget.Format((long)(more * MemoryBudget.BytesPerString(r.N)))} at the full budget, about ten times the time)\n");
         }
+        if (shortTime is double ts)
+            sb.Append(Inv, $"  note: default time {NumberFormat.Number(ts)} for a model of this many terms (each step applies every commuting group); to go further: --time 10\n");
         return sb.ToString();
     }
 }

@@ -26,6 +26,9 @@ internal static class LanczosCommand
     /// <summary>Without truncation, stop before a Krylov vector of more strings than this unless --exact-limit says otherwise (finishes in about a minute on 2 cores).</summary>
     public const long DefaultExactLimit = 2_000_000;
 
+    /// <summary>With the default --exact-limit, also stop before a step of more than this many commutator products (about half a minute on 2 cores).</summary>
+    public const long DefaultProductLimit = 1_000_000_000;
+
     /// <summary>Largest --depth accepted.</summary>
     public const int MaxDepth = 10_000;
 
@@ -48,7 +51,7 @@ internal static class LanczosCommand
             Arity = ArgumentArity.ZeroOrMore,
             AllowMultipleArgumentsPerToken = true,
         };
-        var exactLimit = new Option<long?>("--exact-limit") { Description = $"Without truncation: stop (keeping the coefficients so far) before a Krylov vector of more than this many strings; 0 = no limit [default: {DefaultExactLimit:N0}]." };
+        var exactLimit = new Option<long?>("--exact-limit") { Description = $"Without truncation: stop (keeping the coefficients so far) before a Krylov vector of more than this many strings; 0 = no limit [default: {DefaultExactLimit:N0}, and at most {DefaultProductLimit:G2} commutator products per step]." };
         var memory = CommonOptions.Memory();
         var reorth = new Option<string>("--reorthogonalize")
         {
@@ -75,7 +78,7 @@ internal static class LanczosCommand
             model, set, probe, mode, depth, maxStrings, exactLimit, memory, reorth, window, threads, sites, reflection,
             fitFrom, fitTo, contClass, contFrom, sensitivity, tMax, points, outDir,
         };
-        cmd.SetAction(pr => CliHost.Run(ct => Execute(new Settings
+        cmd.SetAction(pr => CliHost.Run(ct => CommonOptions.Capped(pr.GetValue(memory), () => Execute(new Settings
         {
             Model = pr.GetValue(model)!,
             Sets = pr.GetValue(set) ?? [],
@@ -98,7 +101,7 @@ internal static class LanczosCommand
             TMax = pr.GetValue(tMax),
             TimePoints = pr.GetValue(points),
             Out = pr.GetValue(outDir),
-        }, ct)));
+        }, ct))));
         return cmd;
     }
 
@@ -183,6 +186,7 @@ internal static class LanczosCommand
             Depth = depth,
             MemoryBudgetBytes = s.Memory,
             StopAtStrings = exactLimit,
+            StopAtProducts = s.ExactLimit is null ? DefaultProductLimit : 0,
             Reorthogonalize = s.Reorthogonalize switch { "full" => Reorthogonalization.Full, "partial" => Reorthogonalization.Partial, _ => Reorthogonalization.None },
             ReorthogonalizationWindow = s.ReorthWindow,
             Threads = s.Threads,
@@ -210,7 +214,10 @@ internal static class LanczosCommand
         var reference = est.Reference;
         if (reference.StopReason == LanczosStopReason.StringLimit)
         {
-            notes.Add($"stopped after b_{reference.B.Count} of {depth}: the next Krylov vector would exceed {exactLimit:N0} strings; to go further: --exact-limit {exactLimit * 10} (about {MemoryBudget.Format(exactLimit * 10 * 80)}), " +
+            string why = reference.StopMessage.StartsWith("work limit", StringComparison.Ordinal)
+                ? $"the next step would form more than {DefaultProductLimit:G2} commutator products (many terms per string; the default limit of an exact run)"
+                : $"the next Krylov vector would exceed {exactLimit:N0} strings";
+            notes.Add($"stopped after b_{reference.B.Count} of {depth}: {why}; to go further: --exact-limit {exactLimit * 10} (about {MemoryBudget.Format((long)(reference.PeakAccountedBytes * 10 * 1.3))}; an explicit limit lifts the work limit), " +
                 (m.Lattice.Kind is "chain" or "ring" && m.IsTranslationInvariant && !m.IsDriven ? "--mode infinite-chain (a uniform chain: far deeper at the same cost), " : "") +
                 "or --mode truncated --max-strings 1000000 (truncation uncertainty from a second budget)");
         }

@@ -41,7 +41,7 @@ internal static class RunCommand
         {
             model, set, probe, outDir, effort, memory, threads, time, noExact, noLanczos, noDiagnosis, sweep,
         };
-        cmd.SetAction(pr => CliHost.Run(ct => Execute(new ScramblingRunOptions
+        cmd.SetAction(pr => CliHost.Run(ct => CommonOptions.Capped(pr.GetValue(memory), () => Execute(new ScramblingRunOptions
         {
             Model = pr.GetValue(model),
             Probe = pr.GetValue(probe),
@@ -53,7 +53,7 @@ internal static class RunCommand
             RunExact = !pr.GetValue(noExact),
             RunLanczos = !pr.GetValue(noLanczos),
             RunDiagnosis = !pr.GetValue(noDiagnosis),
-        }, pr.GetValue(set) ?? [], pr.GetValue(sweep), ct)));
+        }, pr.GetValue(set) ?? [], pr.GetValue(sweep), ct))));
         return cmd;
     }
 

@@ -52,6 +52,7 @@ internal static class SweepCommand
         };
         cmd.SetAction(pr => CliHost.Run(ct =>
         {
+            CommonOptions.ApplyMemoryCap(pr.GetValue(memory));
             var p = BuildPlan(pr.GetValue(plan), pr.GetValue(model) ?? [], pr.GetValue(sizes), pr.GetValue(seeds), pr.GetValue(probe) ?? [],
                 pr.GetValue(grid) ?? [], pr.GetValue(engine), pr.GetValue(time), pr.GetValue(dt), pr.GetValue(maxStrings), pr.GetValue(budgets));
             string dir = Path.GetFullPath(pr.GetValue(results) ?? Path.Combine("results", p.Name));

@@ -496,15 +496,8 @@ internal sealed class EvolutionEngine<T> where T : unmanaged, IPauliKey<T>
     /// </summary>
     internal const int ImagePerKeptString = 16;
 
-    /// <summary>Accumulator bytes allowed for one pass's image under the string budget (unlimited without one).</summary>
-    private long ImageCapBytes()
-    {
-        if (_budget.MaxStrings is not long m) return long.MaxValue;
-        long strings = Math.Max(1L << 16, ImagePerKeptString * m);
-        // Entry plus a 4-byte slot at load <= 1/2, and up to 2x from growth by doubling.
-        long bytes = strings * 2 * (Unsafe.SizeOf<PassAccumulator<T>.Entry>() + 8);
-        return bytes;
-    }
+    /// <summary>Distinct strings allowed in one pass's image under the string budget (unlimited without one).</summary>
+    private long ImageCap() => _budget.MaxStrings is long m ? Math.Max(1L << 16, ImagePerKeptString * m) : long.MaxValue;
 
     /// <summary>One grouped-rotation pass plus compaction; returns the weight it discarded.</summary>
     private double RotationPass(RotationGroup<T> group, double[] cos, double[] sin, double[]? damping, CancellationToken ct, out long emitted, out bool capped)
@@ -531,10 +524,10 @@ internal sealed class EvolutionEngine<T> where T : unmanaged, IPauliKey<T>
             acc.Clear();
             var flag = new int[1];
             var map = new GroupRotationMap<T>(group, cos, sin, prune, flag);
-            long memoryLimit = AccumulatorLimit(), imageCap = ImageCapBytes();
-            bool ok = _runner.Run(_cur.Keys, _cur.Coeffs, _cur.Count, map, acc, Math.Min(memoryLimit, imageCap), ct, out emitted, flag);
-            // Too many branches for one string, or an image beyond the string budget's allowance: apply the group in parts.
-            if (group.Count > 1 && (flag[0] != 0 || (!ok && acc.AllocatedBytes > imageCap && imageCap < memoryLimit)))
+            bool ok = _runner.Run(_cur.Keys, _cur.Coeffs, _cur.Count, map, acc, AccumulatorLimit(), ct, out emitted, flag, ImageCap());
+            // Too many branches for one string, or an image beyond the string budget's allowance or the memory budget:
+            // apply the group in parts (exact: its generators commute). Only a single generator falls back to pruning.
+            if (group.Count > 1 && (flag[0] != 0 || !ok))
             {
                 capped = true;
                 acc.Clear();
@@ -544,8 +537,9 @@ internal sealed class EvolutionEngine<T> where T : unmanaged, IPauliKey<T>
         }
         double before = prune > 0 ? _cur.NormSquared() : 0;
         var stats = CompactInto(acc, Rule(damping), _spare);
-        // Weight lost to branch pruning; the difference of two norms can come out a rounding error below zero.
-        double passLoss = prune > 0 ? Math.Max(0, before - (stats.KeptWeight + stats.DeletedWeight + stats.DampedWeight)) : 0;
+        // Weight lost to branch pruning. It can be negative: a pruned branch may have cancelled part of a kept
+        // one. Booking it with its sign keeps ||O||^2 + discarded = 1 exact (the norm check of every report).
+        double passLoss = prune > 0 ? before - (stats.KeptWeight + stats.DeletedWeight + stats.DampedWeight) : 0;
         Swap();
         AfterPass(stats);
         return passLoss + stats.DeletedWeight + stats.DampedWeight;

@@ -5,14 +5,16 @@ using OpGrowth.Pauli;
 namespace OpGrowth.Evolution;
 
 /// <summary>
-/// Turns a memory budget into a string budget. Per kept string the engine holds: the operator twice
-/// (source and destination of a pass: 2 (K + 8) bytes for a K-byte key), plus the accumulated image
-/// of one pass, E distinct strings per kept string at about 1.5 (K + 8) + 12 bytes each (arrays grown
-/// by doubling, an open-addressing index at load &lt;= 1/2). E was measured on the mixed-field Ising
-/// chain with the default branch pruning (see docs/evolution.md); the engine also checks the real
-/// array sizes between blocks and never lets a pass grow past the budget: it reruns the pass with
-/// stronger pruning (booked as discarded weight) or stops with a resource-limit error.
-/// A fixed reserve covers the runtime, emit buffers and observables.
+/// Turns a memory budget into a string budget. Per kept string the engine holds: the operator (source of a
+/// pass, 1.5 (K + 8) bytes for a K-byte key with the slack of arrays grown by doubling) and the destination
+/// (room for an image twice as large: 2 (K + 8)), plus the accumulated image of one pass, E distinct strings
+/// per kept string at up to 2 (K + 8) + 16 bytes each (arrays grown by doubling, an open-addressing index at
+/// load &lt;= 1/2). E was measured on the mixed-field Ising chain with the default branch pruning (see
+/// docs/evolution.md); the engine also checks the real array sizes between blocks and never lets a pass grow
+/// past the budget: it applies the pass in parts, reruns it with stronger pruning (booked as discarded weight)
+/// or stops with a resource-limit error. A fixed reserve covers the runtime, emit buffers and observables.
+/// These are upper estimates: with an explicit --memory the process's managed heap is capped as well, so the
+/// estimate must not undershoot.
 /// </summary>
 public static class MemoryBudget
 {
@@ -29,7 +31,7 @@ public static class MemoryBudget
     public static double BytesPerString(int n)
     {
         int entry = PauliWidth.KeyBytes(n) + 8;
-        return 2.0 * entry + PassExpansion * (1.5 * entry + 12);
+        return 3.5 * entry + PassExpansion * (2.0 * entry + 16);
     }
 
     /// <summary>Bytes available to the engine's arrays out of a budget.</summary>

@@ -615,7 +615,7 @@ public static class ExactOtoc
         // Source: W. S. Gosset ("Student"), Biometrika 6, 1 (1908).
         double tFactor = samples > 1 ? TypicalityInterval.Factor(samples) : 1;
         string errorKind = dense ? "none (exact trace)"
-            : samples > 1 ? FormattableString.Invariant($"half-width of the {TypicalityInterval.Coverage:P0} Student-t interval over {samples} random states ({samples - 1} degrees of freedom: {tFactor:0.###} standard errors)")
+            : samples > 1 ? FormattableString.Invariant($"half-width of the {100 * TypicalityInterval.Coverage:0}% Student-t interval over {samples} random states ({samples - 1} degrees of freedom: {tFactor:0.###} standard errors)")
             : "a-priori Haar estimate sqrt((1 - F^2)/(d + 1)) from one random state (one standard deviation)";
         if (!dense && samples == 1 && o.Beta > 0) notes.Add("With one random state at beta > 0 the a-priori error assumes an effective dimension d; it underestimates the error when few levels carry the thermal weight.");
 

@@ -82,6 +82,12 @@ internal static class LanczosEngine
             // The map driver's emit buffers: one block of inputs times the products per input (sampled),
             // with up to 2x slack from doubling, plus their initial streams.
             double products = ProductsPerInput(basis, cur);
+            if (opt.MaxStrings == 0 && opt.StopAtProducts > 0 && n > 1 && cur.Count * products > opt.StopAtProducts)
+            {
+                stop = LanczosStopReason.StringLimit;
+                stopMessage = FormattableString.Invariant($"work limit: step {n} would form about {cur.Count * products:G3} products ({cur.Count:N0} strings times {products:F0} terms each), above the limit of {opt.StopAtProducts:G3}");
+                break;
+            }
             long emitAllowance = ((long)opt.Threads * opt.Threads * 1024 + PauliMapper.BufferedEmissionsBound(cur.Count, products) * 2) * entryBytes;
             long held = cur.AllocatedBytes + (prev?.AllocatedBytes ?? 0) + kept.Sum(v => v.Bytes) + emitAllowance;
             long predictedBytes = held + (long)(predicted * (accBytesPerString + perString));

@@ -23,6 +23,13 @@ public sealed record LanczosOptions
     /// </summary>
     public long StopAtStrings { get; init; }
 
+    /// <summary>
+    /// Without truncation: also stop before a step whose commutator would emit more than this many products
+    /// (strings of the current vector times the terms each one meets; 0 = no limit). Bounds the time of an exact run
+    /// on a Hamiltonian with many terms, where a vector of few strings already costs a lot.
+    /// </summary>
+    public long StopAtProducts { get; init; }
+
     /// <summary>Re-orthogonalization against earlier (kept, possibly truncated) Krylov vectors.</summary>
     public Reorthogonalization Reorthogonalize { get; init; } = Reorthogonalization.None;
 
@@ -51,6 +58,7 @@ public sealed record LanczosOptions
         ArgumentOutOfRangeException.ThrowIfLessThan(MemoryBudgetBytes, 1L << 20, nameof(MemoryBudgetBytes));
         ArgumentOutOfRangeException.ThrowIfNegative(MaxStrings, nameof(MaxStrings));
         ArgumentOutOfRangeException.ThrowIfNegative(StopAtStrings, nameof(StopAtStrings));
+        ArgumentOutOfRangeException.ThrowIfNegative(StopAtProducts, nameof(StopAtProducts));
         ArgumentOutOfRangeException.ThrowIfLessThan(ReorthogonalizationWindow, 1, nameof(ReorthogonalizationWindow));
         ArgumentOutOfRangeException.ThrowIfLessThan(Threads, 1, nameof(Threads));
         ArgumentOutOfRangeException.ThrowIfNegative(ClosureTolerance, nameof(ClosureTolerance));

@@ -47,7 +47,7 @@ public static class EvolutionHeadlines
         => string.Join(" / ", evo.Runs.Select(s => s.Budget.MaxStrings is long m ? m.ToString("N0", Inv) : "no cap")) + " strings";
 
     /// <summary>True when nothing was discarded at the full budget (the evolution is exact up to the integrator).</summary>
-    public static bool Untruncated(EvolutionResult evo) => evo.Main.Records.Count == 0 || evo.Main.Records[^1].DiscardedTotal == 0;
+    public static bool Untruncated(EvolutionResult evo) => evo.Main.Records.Count == 0 || Math.Abs(evo.Main.Records[^1].DiscardedTotal) < 1e-10;
 
     /// <summary>Whether a figure is converged, and the note that says why not.</summary>
     public static (bool Converged, string? Note) Convergence(EvolutionResult evo, string key)
@@ -129,9 +129,11 @@ public static class EvolutionHeadlines
         if (evo.Main.Records.Count == 0) return "not recorded";
         var last = evo.Main.Records[^1];
         if (last.DiscardedTotal == 0) return "none (no string was dropped)";
+        // Branch pruning books its loss with its sign, so a total at the rounding level can come out slightly negative.
+        if (Math.Abs(last.DiscardedTotal) < 1e-10) return FormattableString.Invariant($"below 1e-10 by t = {NumberFormat.Number(last.Time, 3)} (rounding level)");
         string Budget(EvolutionSeries s) => s.Budget.MaxStrings is long m ? $"{m.ToString("N0", Inv)} strings" : "the threshold rules";
-        string text = $"{NumberFormat.Number(last.DiscardedTotal, 2)} by t = {NumberFormat.Number(last.Time, 3)} at {Budget(evo.Main)}";
-        var others = evo.Runs.Skip(1).Where(s => s.Records.Count > 0).Select(s => $"{NumberFormat.Number(s.Records[^1].DiscardedTotal, 2)} at {Budget(s)}").ToList();
+        string text = $"{NumberFormat.Number(last.DiscardedTotal, 3)} by t = {NumberFormat.Number(last.Time, 3)} at {Budget(evo.Main)}";
+        var others = evo.Runs.Skip(1).Where(s => s.Records.Count > 0).Select(s => $"{NumberFormat.Number(s.Records[^1].DiscardedTotal, 3)} at {Budget(s)}").ToList();
         return others.Count == 0 ? text : text + " (" + string.Join(", ", others) + ")";
     }
 

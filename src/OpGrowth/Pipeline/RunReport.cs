@@ -318,7 +318,7 @@ public static class RunReport
         lanczos = r.LanczosOptions is null ? null : new { depth = r.LanczosOptions.Depth, budgets = r.Preset.LanczosBudgets, mode = "truncated", memoryBytes = r.LanczosOptions.MemoryBudgetBytes },
         exact = new { n = r.Preset.ExactN, time = r.Preset.ExactTime, method = "taylor (Pauli, no truncation) vs dense (exact)" },
         diagnosis = r.Diagnosis?.Settings,
-        sweep = r.Sweep is { } sw ? new { sizes = sw.Sizes, folder = "sweep", engine = sw.Engine.CanonicalAll() } : null,
+        sweep = r.Sweep is { } sw ? new { sizes = sw.Sizes, folder = "sweep", engine = sw.Engine.CanonicalAllJson() } : null,
     };
 
     /// <summary>
@@ -463,7 +463,7 @@ public static class RunReport
             computed = s.Computed,
             reused = s.Reused,
             failures = s.Failures,
-            engine = s.Engine.CanonicalAll(),
+            engine = s.Engine.CanonicalAllJson(),
             points = series?.Data.Select(a => new { n = a.N, engine = a.Engine, tStar = a.TStar, uncertainty = a.TStarTotalError, truncationError = a.TStarTruncationError, gridError = a.TStarGridError, samplingError = a.TStarSamplingError, discardedWeight = a.MaxDiscardedWeight, converged = a.Converged }),
             fits = series?.Comparison is { } c ? new { log = Fit(c.Log), linear = Fit(c.Linear), deltaAic = c.DeltaAic, logWeight = c.LogWeight, linearWeight = c.LinearWeight, preferred = c.Preferred, strength = c.Strength, verdict = c.Verdict } : null,
             note = series?.Note,

@@ -94,6 +94,21 @@ public sealed record EngineSettings
         return d;
     }
 
+    /// <summary>
+    /// <see cref="CanonicalAll"/> with the keys as JSON writes them (camelCase: "record_every" becomes
+    /// "recordEvery"); the plan files keep the TOML spelling.
+    /// </summary>
+    public SortedDictionary<string, string> CanonicalAllJson()
+    {
+        var d = new SortedDictionary<string, string>(StringComparer.Ordinal);
+        foreach (var kv in CanonicalAll())
+        {
+            var parts = kv.Key.Split('_');
+            d[parts[0] + string.Concat(parts.Skip(1).Select(p => p.Length == 0 ? p : char.ToUpperInvariant(p[0]) + p[1..]))] = kv.Value;
+        }
+        return d;
+    }
+
     /// <summary>Lower-case engine name as written in plans and results.</summary>
     public static string Name(EngineChoice e) => e switch
     {

@@ -219,6 +219,35 @@ public class ScramblingRunTests(QuickRunFixture fx) : IClassFixture<QuickRunFixt
     }
 
     [Fact]
+    public void Execute_QuickRun_EveryJsonFileIsCamelCase()
+    {
+        // One key style in every JSON file the run writes (the battery's own data/diagnosis.json aside); model
+        // parameters and overrides are user-named dictionaries.
+        foreach (string f in Directory.GetFiles(fx.Folder, "*.json", SearchOption.AllDirectories))
+        {
+            if (Path.GetFileName(f) == "diagnosis.json" || f.Contains(Path.Combine("sweep", "points"), StringComparison.Ordinal)) continue;
+            OpGrowth.Tests.Reporting.JsonOutputTests.AssertCamelCase(File.ReadAllText(f), Path.GetRelativePath(fx.Folder, f), "parameters", "overrides", "timingsSeconds", "settings");
+        }
+    }
+
+    [Fact]
+    public void Execute_QuickRun_StatesEachHeadlineOnce()
+    {
+        // The verdict table reuses the headline figures (same value and uncertainty), and the report names a
+        // leading mechanism only when it adds something.
+        var r = fx.Result;
+        var vb = r.Headlines.SingleOrDefault(h => h.Name == EvolutionHeadlines.ButterflyVelocity);
+        var front = r.Verdicts.SingleOrDefault(v => v.Test == "ballistic operator front");
+        if (vb is not null && front is not null) Assert.Same(vb.Value, front.Figure);
+        var alpha = r.Headlines.Single(h => h.Name == RunReport.LanczosSlope);
+        Assert.Same(alpha.Value, r.Verdicts.Single(v => v.Test == "Lanczos growth class").Figure);
+        Assert.Equal(1, r.Headlines.Count(h => h.Name == RunReport.LanczosSlope));
+        if (r.Krylov!.Growth!.BoundApplies) Assert.Contains(r.Headlines, h => h.Name == RunReport.LyapunovBound);
+        else Assert.DoesNotContain(r.Headlines, h => h.Name == RunReport.LyapunovBound);
+        Assert.DoesNotContain(r.Headlines, h => h.Name.Contains("agreement", StringComparison.Ordinal));
+    }
+
+    [Fact]
     public void Execute_QuickRun_EveryPngCarriesText()
     {
         foreach (string png in Directory.GetFiles(Path.Combine(fx.Folder, "figures"), "*.png"))
