@@ -340,6 +340,7 @@ internal static class EvolveCommand
         {
             sb.Append("  t* (Majoranas): ").Append(tm.Value is double tmv ? NumberFormat.Number(tmv, 3) + (EvolutionHeadlines.Convergence(r, "majoranaScramblingTime") is { Converged: false, Note: var note } ? $" (not converged: {note})" : "") : $"not reached (level {NumberFormat.Number(tm.Target, 3)})").Append('\n');
         }
+        if (EvolutionHeadlines.NormGrowthWarning(r) is { } broken) sb.Append("  WARNING: ").Append(broken).Append('\n');
         foreach (var note in r.Notes) sb.Append("  note: ").Append(note).Append('\n');
         if (defaultBudget is long budget)
         {

@@ -26,8 +26,8 @@ internal static class LanczosCommand
     /// <summary>Without truncation, stop before a Krylov vector of more strings than this unless --exact-limit says otherwise (finishes in about a minute on 2 cores).</summary>
     public const long DefaultExactLimit = 2_000_000;
 
-    /// <summary>With the default --exact-limit, also stop before a step of more than this many commutator products (about half a minute on 2 cores).</summary>
-    public const long DefaultProductLimit = 1_000_000_000;
+    /// <summary>With the default --exact-limit, also stop before the run's commutator products exceed this (a minute or two on 2 cores).</summary>
+    public const long DefaultProductLimit = 2_000_000_000;
 
     /// <summary>Largest --depth accepted.</summary>
     public const int MaxDepth = 10_000;
@@ -51,7 +51,7 @@ internal static class LanczosCommand
             Arity = ArgumentArity.ZeroOrMore,
             AllowMultipleArgumentsPerToken = true,
         };
-        var exactLimit = new Option<long?>("--exact-limit") { Description = $"Without truncation: stop (keeping the coefficients so far) before a Krylov vector of more than this many strings; 0 = no limit [default: {DefaultExactLimit:N0}, and at most {DefaultProductLimit:G2} commutator products per step]." };
+        var exactLimit = new Option<long?>("--exact-limit") { Description = $"Without truncation: stop (keeping the coefficients so far) before a Krylov vector of more than this many strings; 0 = no limit [default: {DefaultExactLimit:N0}, and at most {NumberFormat.Number(DefaultProductLimit)} commutator products in all]." };
         var memory = CommonOptions.Memory();
         var reorth = new Option<string>("--reorthogonalize")
         {
@@ -215,7 +215,7 @@ internal static class LanczosCommand
         if (reference.StopReason == LanczosStopReason.StringLimit)
         {
             string why = reference.StopMessage.StartsWith("work limit", StringComparison.Ordinal)
-                ? $"the next step would form more than {DefaultProductLimit:G2} commutator products (many terms per string; the default limit of an exact run)"
+                ? $"the next step would bring the run's commutator products above {NumberFormat.Number(DefaultProductLimit)} (many terms per string; the default work limit of an exact run)"
                 : $"the next Krylov vector would exceed {exactLimit:N0} strings";
             notes.Add($"stopped after b_{reference.B.Count} of {depth}: {why}; to go further: --exact-limit {exactLimit * 10} (about {MemoryBudget.Format((long)(reference.PeakAccountedBytes * 10 * 1.3))}; an explicit limit lifts the work limit), " +
                 (m.Lattice.Kind is "chain" or "ring" && m.IsTranslationInvariant && !m.IsDriven ? "--mode infinite-chain (a uniform chain: far deeper at the same cost), " : "") +

@@ -59,6 +59,7 @@ internal static class LanczosEngine
         double coupling = 0;            // b~_{n-1}
         double accBytesPerString = 48;  // prior until measured: (key + value) / load 0.35..0.7 = 34..69 B for N <= 64
         double growth = 8;              // prior growth ratio of string count per step until measured
+        double workDone = 0;            // commutator products formed so far (for StopAtProducts)
         var stop = LanczosStopReason.DepthReached;
         string stopMessage = $"all {opt.Depth} coefficients computed";
 
@@ -82,12 +83,13 @@ internal static class LanczosEngine
             // The map driver's emit buffers: one block of inputs times the products per input (sampled),
             // with up to 2x slack from doubling, plus their initial streams.
             double products = ProductsPerInput(basis, cur);
-            if (opt.MaxStrings == 0 && opt.StopAtProducts > 0 && n > 1 && cur.Count * products > opt.StopAtProducts)
+            if (opt.MaxStrings == 0 && opt.StopAtProducts > 0 && n > 1 && workDone + cur.Count * products > opt.StopAtProducts)
             {
                 stop = LanczosStopReason.StringLimit;
-                stopMessage = FormattableString.Invariant($"work limit: step {n} would form about {cur.Count * products:G3} products ({cur.Count:N0} strings times {products:F0} terms each), above the limit of {opt.StopAtProducts:G3}");
+                stopMessage = FormattableString.Invariant($"work limit: step {n} would bring the commutator products to about {Reporting.NumberFormat.Number(workDone + cur.Count * products, 3)} ({cur.Count:N0} strings times {products:F0} terms each), above the limit of {Reporting.NumberFormat.Number(opt.StopAtProducts, 3)} for the run");
                 break;
             }
+            workDone += cur.Count * products;
             long emitAllowance = ((long)opt.Threads * opt.Threads * 1024 + PauliMapper.BufferedEmissionsBound(cur.Count, products) * 2) * entryBytes;
             long held = cur.AllocatedBytes + (prev?.AllocatedBytes ?? 0) + kept.Sum(v => v.Bytes) + emitAllowance;
             long predictedBytes = held + (long)(predicted * (accBytesPerString + perString));

@@ -24,9 +24,10 @@ public sealed record LanczosOptions
     public long StopAtStrings { get; init; }
 
     /// <summary>
-    /// Without truncation: also stop before a step whose commutator would emit more than this many products
-    /// (strings of the current vector times the terms each one meets; 0 = no limit). Bounds the time of an exact run
-    /// on a Hamiltonian with many terms, where a vector of few strings already costs a lot.
+    /// Without truncation: also stop before a step that would bring the commutator products of the whole run
+    /// (strings of each vector times the terms each one meets, summed over the steps) above this (0 = no limit).
+    /// Bounds the time of an exact run on a Hamiltonian with many terms, where a vector of few strings already
+    /// costs a lot.
     /// </summary>
     public long StopAtProducts { get; init; }
 

@@ -137,6 +137,39 @@ public static class EvolutionHeadlines
         return others.Count == 0 ? text : text + " (" + string.Join(", ", others) + ")";
     }
 
+    /// <summary>
+    /// The largest growth of the kept norm ||O(t)||^2 between two records of the full-budget run, and the time it
+    /// started from. Rotations keep the norm and truncation only lowers it, so growth beyond rounding means branch
+    /// pruning broke a pass's unitarity: the records after that time describe a broken evolution.
+    /// </summary>
+    public static (double Increase, double From) NormGrowth(EvolutionResult evo)
+    {
+        ArgumentNullException.ThrowIfNull(evo);
+        double worst = 0, from = double.NaN;
+        var recs = evo.Main.Records;
+        for (int i = 1; i < recs.Count; i++)
+        {
+            double up = recs[i].NormSquared - recs[i - 1].NormSquared;
+            if (up > worst)
+            {
+                worst = up;
+                from = recs[i - 1].Time;
+            }
+        }
+        return (worst, from);
+    }
+
+    /// <summary>Growth of the kept norm above this counts as a broken evolution (rounding stays near 1e-12).</summary>
+    public const double NormGrowthTolerance = 1e-6;
+
+    /// <summary>The warning for a broken evolution, or null when the norm never grew.</summary>
+    public static string? NormGrowthWarning(EvolutionResult evo)
+    {
+        var (up, from) = NormGrowth(evo);
+        return up <= NormGrowthTolerance ? null
+            : FormattableString.Invariant($"the kept norm ||O||^2 grew by {NumberFormat.Number(up, 2)} after t = {NumberFormat.Number(from, 3)}: branch pruning broke the unitarity of the passes, so figures read off later times are not reliable; use a smaller --dt or a larger budget (see docs/evolution.md, branch pruning)");
+    }
+
     /// <summary>One console or text line per headline: "name: value (not converged: ...)".</summary>
     public static string Line(HeadlineFigure h)
     {

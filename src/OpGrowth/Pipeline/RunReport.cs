@@ -271,6 +271,8 @@ public static class RunReport
             var last = evo.Main.Records[^1];
             double budget = Math.Abs(last.NormSquared + last.DiscardedTotal - 1);
             list.Add(new CheckRow("norm accounting: ||O(t)||^2 + discarded weight = 1", Measured.Exact(Sig(budget), "|norm + discarded - 1| at the last time"), "<= 1e-8 (rounding)", budget <= 1e-8));
+            var (growth, _) = EvolutionHeadlines.NormGrowth(evo);
+            list.Add(new CheckRow("the kept norm never grows (passes stay unitary)", Measured.Exact(Sig(Math.Max(0, growth)), "largest increase of ||O(t)||^2 between records"), $"<= {NumberFormat.Number(EvolutionHeadlines.NormGrowthTolerance)} (rotations keep it, truncation lowers it)", growth <= EvolutionHeadlines.NormGrowthTolerance));
             string tolerance = $"moves by at most {r.EvolutionOptions.ConvergenceTolerance.ToString("P0", Inv)} of its value, or less than its own fit error";
             foreach (var c in evo.Convergence.Where(c => c.Values.Any(v => v is not null)))
                 list.Add(new CheckRow($"budget series: {EvolutionHeadlines.FigureName(c.Figure)}", Measured.Exact(Sig(c.Movement ?? double.NaN), "movement between the two largest budgets"), tolerance, c.Converged));
@@ -288,6 +290,7 @@ public static class RunReport
         };
         if (r.Model.IsDriven) list.Add("Driven model: the Lanczos coefficients belong to the period-averaged generator, not to the Floquet map.");
         if (!r.Completed) list.Add($"The run stopped early ({r.StopReason}); stages that did not finish are missing from this report.");
+        if (r.Evolution is { } e && EvolutionHeadlines.NormGrowthWarning(e) is { } broken) list.Add("Warning: " + char.ToUpperInvariant(broken[0]) + broken[1..] + ".");
         foreach (var n in r.Notes) list.Add("Note: " + n);
         return list;
     }

@@ -113,6 +113,11 @@ public static partial class ScramblingRun
                 stop = "diagnosis: interrupted";
                 diagnosisSkip = "interrupted";
             }
+            catch (Exception ex) when (ex is OutOfMemoryException || (ex is AggregateException ag && ag.Flatten().InnerExceptions.Any(i => i is OutOfMemoryException)))
+            {
+                // The battery sizes its own work; under a tight --memory cap it may not fit. The rest of the report stands.
+                diagnosisSkip = "did not fit the memory cap (--memory); rerun with more memory or 'opgrowth diagnose' on its own";
+            }
             timings["diagnosis"] = Lap(clock);
             Report(options, "diagnosis", 1, diagnosis is null ? "interrupted" : RunStages.OutcomeText(diagnosis.Overall.Outcome));
         }
