@@ -139,8 +139,15 @@ internal static class RunCommand
             else if (sw.Note is { } note) o.WriteLine($"  t*(N): {note}");
         }
         if (r.CrossCheck is { Ran: false } x) o.WriteLine($"  exact cross-check skipped: {x.SkipReason}");
-        o.WriteLine($"report: {Path.Combine(r.Folder, "report.html")}");
+        o.WriteLine($"report: {ShortPath(Path.Combine(r.Folder, "report.html"))}");
         return o.ToString();
+    }
+
+    /// <summary>A path relative to the working folder when it lies inside it, else the full path.</summary>
+    private static string ShortPath(string path)
+    {
+        var rel = Path.GetRelativePath(Environment.CurrentDirectory, path);
+        return rel.StartsWith("..", StringComparison.Ordinal) || Path.IsPathRooted(rel) ? path : rel;
     }
 
     private sealed class SpectreProgress(ProgressContext ctx) : IProgress<RunProgress>
