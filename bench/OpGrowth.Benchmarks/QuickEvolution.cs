@@ -24,8 +24,8 @@ public static class QuickEvolution
             Threads = threads,
             Truncation = new TruncationPolicy { MaxStrings = budget, MemoryBytes = memory },
         };
-        var rung = OperatorEvolution.ResolveBudgets(problem, options, out _)[0];
-        var engine = new EvolutionEngine<Pauli128>(problem, options, rung, 0, null);
+        var seriesBudget = OperatorEvolution.ResolveBudgets(problem, options, out _)[0];
+        var engine = new EvolutionEngine<Pauli128>(problem, options, seriesBudget, 0, null);
         engine.Start();
         var total = Stopwatch.StartNew();
         int grow = 0;

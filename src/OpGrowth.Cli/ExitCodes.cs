@@ -18,8 +18,11 @@ internal static class ExitCodes
     /// <summary>A check failed (e.g. a comparison beyond tolerance).</summary>
     public const int CheckFailed = 4;
 
-    /// <summary>Interrupted by the user (Ctrl-C); finished results kept.</summary>
+    /// <summary>Interrupted by the user (Ctrl-C, SIGINT); finished results and checkpoints kept.</summary>
     public const int Interrupted = 130;
+
+    /// <summary>Terminated by SIGTERM (e.g. a Slurm time limit); finished results and checkpoints kept.</summary>
+    public const int Terminated = 143;
 
     /// <summary>Unexpected internal error (a bug: please report it).</summary>
     public const int Internal = 70;

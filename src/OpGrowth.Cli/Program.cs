@@ -7,20 +7,17 @@ namespace OpGrowth.Cli;
 /// <summary>Entry point: builds the command tree; each command lives in Commands/ and only translates options to the library.</summary>
 public static class Program
 {
-    /// <summary>Usage examples shown at the end of --help (for a subcommand: the lines that use it).</summary>
-    internal static readonly string[] Examples =
-    [
-        "opgrowth models                                   # list the shipped models",
-        "opgrowth check mixed-field-ising                  # validate a shipped model and summarise it",
-        "opgrowth check models/xxz.toml --set N=24 --set W=8   # override parameters from the command line",
-        "opgrowth check demo/tilted-chain --json           # summary as JSON on stdout",
-    ];
+    /// <summary>-q: warnings and errors only (no progress, no log lines).</summary>
+    private static readonly Option<bool> Quiet = new("--quiet", "-q") { Description = "Print only results, warnings and errors.", Recursive = true };
 
-    /// <summary>Exit codes, as printed in --help and documented in docs/model-files.md.</summary>
-    internal const string ExitCodeText =
-        "Exit codes: 0 ok, 1 usage, 2 invalid input, 3 resource limit, 4 check failed, 70 internal error, 130 interrupted.";
+    /// <summary>-v: also per-step detail (every Lanczos step, every sample, every sector).</summary>
+    private static readonly Option<bool> Verbose = new("--verbose", "-v") { Description = "Also log every step (Lanczos steps, samples, sectors).", Recursive = true };
 
-    public static int Main(string[] args) => Run(args, Console.Out, Console.Error);
+    public static int Main(string[] args)
+    {
+        CliHost.OwnsProcess = true;
+        return Run(args, Console.Out, Console.Error);
+    }
 
     /// <summary>Runs the tool with explicit output writers (tests call this in-process).</summary>
     public static int Run(string[] args, TextWriter output, TextWriter error)
@@ -28,19 +25,40 @@ public static class Program
         ArgumentNullException.ThrowIfNull(output);
         ArgumentNullException.ThrowIfNull(error);
         CliHost.UseWriters(output, error);
-        var config = new InvocationConfiguration { Output = output, Error = error };
-        return BuildRoot().Parse(args).Invoke(config);
+        var parse = BuildRoot().Parse(args);
+        CliHost.Verbosity = parse.GetValue(Quiet) ? Verbosity.Quiet : parse.GetValue(Verbose) ? Verbosity.Verbose : Verbosity.Normal;
+        if (parse.Errors.Count > 0 && parse.Action is not HelpWithExamples)
+        {
+            // One line: the first problem, in the house form, and where to read more.
+            string command = parse.CommandResult.Command is RootCommand ? "opgrowth" : $"opgrowth {parse.CommandResult.Command.Name}";
+            error.WriteLine($"error: {UsageMessage(parse.Errors[0].Message)} (see '{command} --help')");
+            return ExitCodes.Usage;
+        }
+        var config = new InvocationConfiguration { Output = output, Error = error, ProcessTerminationTimeout = null };
+        return parse.Invoke(config);
+    }
+
+    /// <summary>A parser message without .NET type names ("as expected type 'System.Double'" becomes "; expected a number").</summary>
+    internal static string UsageMessage(string message)
+    {
+        string m = CliHost.OneLine(message);
+        m = System.Text.RegularExpressions.Regex.Replace(m, @" as expected type '([^']*)'\.?", t =>
+            t.Groups[1].Value.Contains("Double", StringComparison.Ordinal) ? "; expected a number"
+            : t.Groups[1].Value.Contains("Int", StringComparison.Ordinal) ? "; expected a whole number"
+            : t.Groups[1].Value.Contains("Boolean", StringComparison.Ordinal) ? "; expected true or false" : "; expected another value");
+        if (m.StartsWith("Unrecognized command or argument", StringComparison.Ordinal)) m = "found " + m["Unrecognized command or argument ".Length..].TrimEnd('.') + ", which is not a command, option or argument here";
+        return m.TrimEnd('.');
     }
 
     /// <summary>The root command with every subcommand (also used by tests to pin help and errors).</summary>
     public static RootCommand BuildRoot()
     {
         var root = new RootCommand(
-            "opgrowth: operator growth and information scrambling at infinite temperature.\n" +
-            "Evolves operators in the Pauli-string basis, runs the Lanczos recursion, computes exact OTOCs\n" +
-            "at small N, and reports whether (and how fast) a model scrambles.\n\n" +
-            "A MODEL is a model file (TOML, see docs/model-files.md) or the name of a shipped model.\n" +
-            ExitCodeText);
+            "opgrowth: does a model scramble quantum information, how fast, and can the answer be trusted?\n" +
+            "Operator growth at infinite temperature: Pauli-string evolution, Lanczos coefficients, exact OTOCs at small N.\n" +
+            "MODEL is a model file (TOML, see docs/model-files.md) or the name of a shipped model ('opgrowth models').");
+        root.Options.Add(Quiet);
+        root.Options.Add(Verbose);
         foreach (var c in Commands.CommandRegistry.All()) root.Subcommands.Add(c);
         foreach (var option in root.Options)
         {
@@ -49,26 +67,51 @@ public static class Program
         return root;
     }
 
-    /// <summary>The standard help, followed by the examples that use the command asked about.</summary>
+    /// <summary>The standard help, followed by the examples of the command asked about (and the exit codes at the top level).</summary>
     private sealed class HelpWithExamples(HelpAction inner) : SynchronousCommandLineAction
     {
         public override bool ClearsParseErrors => true;
 
         public override int Invoke(ParseResult parseResult)
         {
-            int code = inner.Invoke(parseResult);
             var command = parseResult.CommandResult.Command;
+            int code = command is RootCommand root ? WriteRootHelp(root, parseResult.InvocationConfiguration.Output) : inner.Invoke(parseResult);
             var lines = command is RootCommand
-                ? Examples
-                : Examples.Where(e => e.StartsWith($"opgrowth {command.Name} ", StringComparison.Ordinal)).ToArray();
+                ? CommandHelp.RootExamples
+                : CommandHelp.Examples.TryGetValue(command.Name, out var ex) ? ex : [];
+            var output = parseResult.InvocationConfiguration.Output;
             if (lines.Length > 0)
             {
-                var output = parseResult.InvocationConfiguration.Output;
                 output.WriteLine("Examples:");
                 foreach (var l in lines) output.WriteLine("  " + l);
                 output.WriteLine();
             }
+            if (command is RootCommand)
+            {
+                output.WriteLine(CommandHelp.ExitCodeText);
+                output.WriteLine();
+            }
             return code;
+        }
+
+        /// <summary>The top-level help: short, one line per command with <c>run</c> first.</summary>
+        private static int WriteRootHelp(RootCommand root, TextWriter o)
+        {
+            o.WriteLine(root.Description);
+            o.WriteLine();
+            o.WriteLine("Usage: opgrowth <command> [options]      (opgrowth <command> --help for a command's options)");
+            o.WriteLine();
+            o.WriteLine("Commands:");
+            int width = CommandHelp.Summaries.Max(c => c.Name.Length) + 2;
+            foreach (var (name, summary) in CommandHelp.Summaries) o.WriteLine($"  {name.PadRight(width)}{summary}");
+            o.WriteLine();
+            o.WriteLine("Options:");
+            o.WriteLine("  -q, --quiet    " + Quiet.Description);
+            o.WriteLine("  -v, --verbose  " + Verbose.Description);
+            o.WriteLine("  -h, --help     Show help (also after a command).");
+            o.WriteLine("  --version      Show the version.");
+            o.WriteLine();
+            return ExitCodes.Ok;
         }
     }
 }

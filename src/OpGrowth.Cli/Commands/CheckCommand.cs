@@ -10,13 +10,8 @@ internal static class CheckCommand
 {
     public static Command Create()
     {
-        var model = new Argument<string>("MODEL") { Description = "Model file (.toml) or the name of a shipped model (see 'opgrowth models')." };
-        var set = new Option<string[]>("--set")
-        {
-            Description = "Override a parameter: NAME=VALUE (a number or an expression over other parameters). Repeat for several.",
-            Arity = ArgumentArity.ZeroOrMore,
-            AllowMultipleArgumentsPerToken = false,
-        };
+        var model = CommonOptions.Model();
+        var set = CommonOptions.Set();
         var json = new Option<bool>("--json") { Description = "Write the summary as JSON on stdout." };
         var cmd = new Command("check", "Validate a model file and print its summary: qubits, terms, locality, norm of H per site, symmetries, random seeds, lattice, probes, drive.")
         {
@@ -30,11 +25,9 @@ internal static class CheckCommand
 
     private static int Execute(string modelArg, string[] sets, bool asJson)
     {
-        string path = ShippedModels.Resolve(modelArg);
-        var overrides = ModelLoader.ParseOverrides(sets, path);
         var sw = Stopwatch.StartNew();
-        var model = ModelLoader.Load(path, overrides);
-        using (var lf = CliHost.CreateLoggerFactory(LogLevel.Information))
+        var (_, _, model) = CommonOptions.LoadModel(modelArg, sets);
+        using (var lf = CliHost.CreateLoggerFactory())
         {
             lf.CreateLogger("check").LogInformation("built {Name}: {Terms} terms on {N} qubits in {Ms} ms", model.Name, model.Hamiltonian.Terms.Count, model.N, sw.ElapsedMilliseconds);
         }

@@ -7,16 +7,16 @@ internal static class CommandRegistry
 {
     public static IEnumerable<Command> All()
     {
+        yield return RunCommand.Create();
         yield return ModelsCommand.Create();
         yield return CheckCommand.Create();
-        yield return LanczosCommand.Create();
         yield return EvolveCommand.Create();
+        yield return LanczosCommand.Create();
         yield return ExactCommand.Create();
+        yield return CompareCommand.Create();
+        yield return DiagnoseCommand.Create();
         yield return SweepCommand.Create();
         yield return CollectCommand.Create();
-        yield return RunCommand.Create();
         yield return EnsembleCommand.Create();
-        yield return DiagnoseCommand.Create();
-        yield return CompareCommand.Create();
     }
 }

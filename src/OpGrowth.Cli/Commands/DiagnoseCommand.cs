@@ -73,7 +73,7 @@ internal static class DiagnoseCommand
         var members = FamilyMembers.FromFile(path, overrides, model);
 
         DiagnosisReport report;
-        using (var lf = CliHost.CreateLoggerFactory(LogLevel.Information))
+        using (var lf = CliHost.CreateLoggerFactory())
         {
             var log = lf.CreateLogger("diagnose");
             report = DiagnosisBattery.Run(model, members, o with { Logger = log }, ct);

@@ -19,14 +19,14 @@ internal static class EnsembleCommand
     public static Command Create()
     {
         var input = new Argument<string>("INPUT") { Description = "A circuit file (.toml with a [circuit] table; shipped: circuits/), or a model file / shipped model name for its Brownian counterpart." };
-        var set = new Option<string[]>("--set") { Description = "Override a parameter: NAME=VALUE. Repeat for several.", Arity = ArgumentArity.ZeroOrMore, AllowMultipleArgumentsPerToken = false };
-        var outDir = new Option<string?>("--out") { Description = "Report folder (default: ./opgrowth-report/<name>-circuit or -brownian)." };
+        var set = CommonOptions.Set();
+        var outDir = CommonOptions.Out("Report folder [default: ./opgrowth-report/<name>-circuit or -brownian].");
         var effort = new Option<string>("--effort") { Description = "quick (200 samples), standard (1000), thorough (4000).", DefaultValueFactory = _ => "standard" };
         effort.AcceptOnlyFromAmong("quick", "standard", "thorough");
         var samples = new Option<int?>("--samples") { Description = "Samples to average (overrides the effort's)." };
         var seed = new Option<long>("--seed") { Description = "Seed of the per-sample random streams (results do not depend on --threads).", DefaultValueFactory = _ => 1 };
-        var threads = new Option<int>("--threads") { Description = "Worker threads.", DefaultValueFactory = _ => Environment.ProcessorCount };
-        var time = new Option<double?>("--time") { Description = "Brownian: final time (default: the effort's, as in opgrowth run). Circuits run the file's layers." };
+        var threads = CommonOptions.Threads();
+        var time = new Option<double?>("--time") { Description = "Brownian: final time [default: the effort's, as in opgrowth run]. Circuits run the file's layers." };
         var noise = new Option<double>("--noise-time") { Description = "Brownian: noise time tau, E[J(t)J(t')] = J^2 tau delta(t-t'); hopping rate 4 J^2 tau.", DefaultValueFactory = _ => 1.0 };
         var method = new Option<string>("--method") { Description = "Brownian: auto (size chain where it is exact, else trajectories), trajectories, size-chain.", DefaultValueFactory = _ => "auto" };
         method.AcceptOnlyFromAmong("auto", "trajectories", "size-chain");
@@ -40,7 +40,7 @@ internal static class EnsembleCommand
             input, set, outDir, effort, samples, seed, threads, time, noise, method, sweep,
         };
         cmd.SetAction(pr => CliHost.Run(ct => Execute(pr.GetValue(input)!, pr.GetValue(set) ?? [], pr.GetValue(outDir), pr.GetValue(effort)!, pr.GetValue(samples), pr.GetValue(seed),
-            pr.GetValue(threads), pr.GetValue(time), pr.GetValue(noise), pr.GetValue(method)!, pr.GetValue(sweep), null, ct)));
+            CommonOptions.ThreadsOrDefault(pr.GetValue(threads)), pr.GetValue(time), pr.GetValue(noise), pr.GetValue(method)!, pr.GetValue(sweep), null, ct)));
         return cmd;
     }
 
@@ -51,7 +51,7 @@ internal static class EnsembleCommand
         string path = ShippedCircuits.TryResolve(input) ?? ShippedModels.Resolve(input);
         var overrides = ModelLoader.ParseOverrides(sets, path);
         if (samples is int s && s < 2) throw new InputException($"--samples {s}; expected at least 2");
-        using var lf = CliHost.CreateLoggerFactory(LogLevel.Information);
+        using var lf = CliHost.CreateLoggerFactory();
         var log = lf.CreateLogger("ensemble");
         var result = EnsembleRun.Execute(new EnsembleRunOptions
         {

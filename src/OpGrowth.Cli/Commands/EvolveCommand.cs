@@ -1,5 +1,4 @@
 using System.CommandLine;
-using System.CommandLine.Parsing;
 using System.Globalization;
 using System.Text;
 using Microsoft.Extensions.Logging;
@@ -7,64 +6,86 @@ using OpGrowth.Analysis;
 using OpGrowth.Evolution;
 using OpGrowth.IO;
 using OpGrowth.Models;
-using OpGrowth.Pauli;
+using OpGrowth.Pipeline;
+using OpGrowth.Reporting;
 using Spectre.Console;
 
 namespace OpGrowth.Cli.Commands;
 
 /// <summary>
 /// <c>opgrowth evolve MODEL</c>: Heisenberg evolution O(t) = e^{iHt} O e^{-iHt} (or period by period for
-/// a drive) in the Pauli-string basis with accounted truncation; writes evolve.json and CSV series
-/// (each atomically) and prints a short summary with the derived scrambling figures.
+/// a drive) in the Pauli-string basis with accounted truncation; writes evolve.json and the evolution's data
+/// files (the same names and columns as <c>opgrowth run</c> writes into data/) and prints the headline figures.
 /// </summary>
 internal static class EvolveCommand
 {
     private static readonly string[] Methods = ["trotter2", "trotter4", "rk4", "taylor"];
     private static readonly CultureInfo Inv = CultureInfo.InvariantCulture;
 
+    /// <summary>String budget when no truncation option is given, for models with up to three terms per site.</summary>
+    public const long DefaultMaxStrings = 100_000;
+
+    /// <summary>
+    /// The default string budget of a model: <see cref="DefaultMaxStrings"/> times (3 / terms per site)^2 when a
+    /// model has more than three terms (or drive rotations) per site, never below 2,000. A step costs more with
+    /// more terms per site both through more passes and through more anticommuting generators per string, so
+    /// with this budget every shipped model finishes in a few minutes on 2 cores with no budget option.
+    /// </summary>
+    /// <summary>
+    /// The default final time: 10, or 10 x 1,200 / terms for a model of more than 1,200 terms (or rotations), at
+    /// least 1: every commuting group is one pass per step, so a step of such a model costs seconds however small
+    /// the budget.
+    /// </summary>
+    public static double DefaultTimeFor(Model model)
+    {
+        ArgumentNullException.ThrowIfNull(model);
+        int terms = model.Drive is { } d ? d.RotationCount : model.Hamiltonian.Terms.Count;
+        return terms <= 1200 ? 10 : Math.Max(1, Math.Round(20.0 * 1200 / terms) / 2);
+    }
+
+    public static long DefaultBudgetFor(Model model)
+    {
+        ArgumentNullException.ThrowIfNull(model);
+        int terms = model.Drive is { } d ? d.RotationCount : model.Hamiltonian.Terms.Count;
+        double perSite = (double)terms / Math.Max(1, model.N);
+        double scale = perSite <= 3 ? 1 : 9 / (perSite * perSite);
+        return Math.Max(2_000, (long)(DefaultMaxStrings * scale) / 1000 * 1000);
+    }
+
     public static Command Create()
     {
-        var model = new Argument<string>("MODEL") { Description = "Model file (.toml) or the name of a shipped model (see 'opgrowth models')." };
-        var set = new Option<string[]>("--set")
-        {
-            Description = "Override a model parameter: NAME=VALUE. Repeat for several.",
-            Arity = ArgumentArity.ZeroOrMore,
-            AllowMultipleArgumentsPerToken = false,
-        };
-        var probe = new Option<string?>("--probe") { Description = "Initial operator: a Pauli string such as \"Z_12\" or \"X_3 X_4\", or the index of one of the model's probes (default 0)." };
-        var time = new Option<double>("--time") { Description = "Final time (for a drive: in units of the period's duration; rounded up to whole steps).", DefaultValueFactory = _ => 10 };
-        var dt = new Option<double>("--dt") { Description = "Time step. Trotter2: global error O(dt^2); trotter4 and rk4: O(dt^4); taylor: exact to rounding at any dt (cost grows with dt). Ignored for drives (exact per period).", DefaultValueFactory = _ => 0.05 };
-        var every = new Option<int?>("--record-every") { Description = "Record observables every this many steps (default: about 100 records over the run)." };
+        var model = CommonOptions.Model();
+        var set = CommonOptions.Set();
+        var probe = CommonOptions.Probe();
+        var time = new Option<double?>("--time") { Description = "Final time; for a periodic drive, the number of periods [default: 10; shorter for models of more than 1,200 terms, as the summary says]." };
+        var dt = new Option<double>("--dt") { Description = "Time step. trotter2: global error O(dt^2); trotter4 and rk4: O(dt^4); taylor: exact to rounding at any dt (cost grows with dt). Ignored for drives (exact per period).", DefaultValueFactory = _ => 0.05 };
+        var every = new Option<int?>("--record-every") { Description = "Record observables every this many steps [default: about 100 records over the run]." };
         var method = new Option<string>("--method") { Description = "trotter2 | trotter4 (norm-preserving Suzuki splittings over commuting groups) | rk4 (cross-check) | taylor (exact reference, small systems).", DefaultValueFactory = _ => "trotter2" };
         method.AcceptOnlyFromAmong(Methods);
         var threshold = new Option<double>("--threshold") { Description = "Drop strings with |c| below this after every pass. Biases late-time size and plateau low.", DefaultValueFactory = _ => 0 };
-        var maxStrings = new Option<long?>("--max-strings") { Description = "Keep the M strings of largest |c| after every pass (default: as many as --memory holds)." };
-        var memory = new Option<long?>("--memory")
-        {
-            Description = "Memory budget for the run's arrays, e.g. 8GiB, 512MiB (default: half of the machine). Never exceeded: a run that cannot hold its requested accuracy stops with exit code 3 and keeps its partial results.",
-            CustomParser = ParseMemory,
-        };
+        var maxStrings = new Option<long?>("--max-strings") { Description = $"Keep the M strings of largest |c| after every pass [default, when no other truncation option and no --memory is given: {DefaultMaxStrings:N0}, fewer for models with more than three terms per site; with --memory alone: as many as it holds]." };
+        var memory = CommonOptions.Memory();
         var maxSize = new Option<int?>("--max-size") { Description = "Drop strings acting on more than K sites. WARNING: suppresses size growth by construction (mean size, growth rates and saturation biased low, t* late, size never above K)." };
         var damping = new Option<string?>("--damping") { Description = "DAOE damping GAMMA@LSTAR: multiply c_S by exp(-GAMMA (size - LSTAR)) per unit time for strings longer than LSTAR (Rakovszky, von Keyserlingk, Pollmann 2022). Biases long-string quantities (size, OTOC, front) low." };
-        var ladder = new Option<int>("--ladder") { Description = "Convergence ladder: also rerun at half (and a quarter of) the budget and report how far each figure moved (its truncation uncertainty); 1 = off.", DefaultValueFactory = _ => 1 };
+        var budgets = new Option<int>("--budgets") { Description = "Budget series: also rerun at half (2) and a quarter (3) of the budget and report how far each figure moved (its truncation uncertainty); 1 = the given budget only.", DefaultValueFactory = _ => 1 };
         var front = new Option<double>("--front-fraction") { Description = "Front threshold for v_B as a fraction of the scrambled site weight 3/4.", DefaultValueFactory = _ => 0.5 };
-        var threads = new Option<int>("--threads") { Description = "Worker threads (results are identical at any count).", DefaultValueFactory = _ => Environment.ProcessorCount };
-        var outDir = new Option<string?>("--out") { Description = "Output folder (default: evolve-<model>)." };
-        var resume = new Option<bool>("--resume") { Description = "Continue from the checkpoints in the output folder (same model and options)." };
-        var ckEvery = new Option<double>("--checkpoint-minutes") { Description = "Minutes between checkpoints (taken at record times); 0 = at every record.", DefaultValueFactory = _ => 5 };
+        var threads = CommonOptions.Threads();
+        var outDir = CommonOptions.Out("Output folder [default: evolve-<model name>].");
+        var resume = new Option<bool>("--resume") { Description = "Continue from the checkpoints in the output folder (same model and options); an error when there are none." };
+        var ckEvery = new Option<double>("--checkpoint-minutes") { Description = "Minutes between checkpoints (taken at record times; an interruption always writes one); 0 = at every record.", DefaultValueFactory = _ => 5 };
         var noCk = new Option<bool>("--no-checkpoints") { Description = "Do not write checkpoints." };
         var keepCk = new Option<bool>("--keep-checkpoints") { Description = "Keep the checkpoints after a completed run (default: removed)." };
 
         var cmd = new Command("evolve",
-            "Evolve an operator in the Heisenberg picture, O(t) = e^{iHt} O e^{-iHt}, in the Pauli-string basis (64 to 1024 qubits) with accounted truncation, " +
+            "Evolve an operator in the Heisenberg picture, O(t) = e^{iHt} O e^{-iHt}, in the Pauli-string basis (up to 1024 qubits) with accounted truncation, " +
             "and read off scrambling: autocorrelation, size distribution, OTOCs against every single-site operator, the front and v_B, growth rates, saturation and t*.\n\n" +
             "Truncation biases: --threshold and --max-strings remove small coefficients (late-time size biased low); --max-size suppresses size growth by construction; " +
-            "--damping suppresses long strings. Every step records the discarded weight; use --ladder 3 to measure how much each figure depends on the budget.\n\n" +
-            "Examples:\n  opgrowth evolve mixed-field-ising --set N=128 --probe Z_64 --time 12 --max-strings 1000000 --ladder 3\n  opgrowth evolve kicked-ising --time 40 --memory 4GiB --out runs/kicked")
+            "--damping suppresses long strings. Every step records the discarded weight; use --budgets 3 to measure how much each figure depends on the budget. " +
+            "Ctrl-C or SIGTERM stops between two passes, writes a checkpoint and the results so far; --resume continues.")
         {
-            model, set, probe, time, dt, every, method, threshold, maxStrings, memory, maxSize, damping, ladder, front, threads, outDir, resume, ckEvery, noCk, keepCk,
+            model, set, probe, time, dt, every, method, threshold, maxStrings, memory, maxSize, damping, budgets, front, threads, outDir, resume, ckEvery, noCk, keepCk,
         };
-        cmd.SetAction(pr => CliHost.Run(ct => Execute(new Settings
+        cmd.SetAction(pr => CliHost.Run(ct => CommonOptions.Capped(pr.GetValue(memory), () => Execute(new Settings
         {
             Model = pr.GetValue(model)!,
             Sets = pr.GetValue(set) ?? [],
@@ -78,15 +99,15 @@ internal static class EvolveCommand
             Memory = pr.GetValue(memory),
             MaxSize = pr.GetValue(maxSize),
             Damping = pr.GetValue(damping),
-            Ladder = pr.GetValue(ladder),
+            Budgets = pr.GetValue(budgets),
             FrontFraction = pr.GetValue(front),
-            Threads = pr.GetValue(threads),
+            Threads = CommonOptions.ThreadsOrDefault(pr.GetValue(threads)),
             Out = pr.GetValue(outDir),
             Resume = pr.GetValue(resume),
             CheckpointMinutes = pr.GetValue(ckEvery),
             NoCheckpoints = pr.GetValue(noCk),
             KeepCheckpoints = pr.GetValue(keepCk),
-        }, ct)));
+        }, ct))));
         return cmd;
     }
 
@@ -95,7 +116,7 @@ internal static class EvolveCommand
         public required string Model { get; init; }
         public required string[] Sets { get; init; }
         public string? Probe { get; init; }
-        public double Time { get; init; }
+        public double? Time { get; init; }
         public double Dt { get; init; }
         public int? RecordEvery { get; init; }
         public required string Method { get; init; }
@@ -104,7 +125,7 @@ internal static class EvolveCommand
         public long? Memory { get; init; }
         public int? MaxSize { get; init; }
         public string? Damping { get; init; }
-        public int Ladder { get; init; }
+        public int Budgets { get; init; }
         public double FrontFraction { get; init; }
         public int Threads { get; init; }
         public string? Out { get; init; }
@@ -112,34 +133,6 @@ internal static class EvolveCommand
         public double CheckpointMinutes { get; init; }
         public bool NoCheckpoints { get; init; }
         public bool KeepCheckpoints { get; init; }
-    }
-
-    private static long? ParseMemory(ArgumentResult result)
-    {
-        string raw = result.Tokens.Count > 0 ? result.Tokens[0].Value : "";
-        try
-        {
-            return MemoryBudget.Parse(raw);
-        }
-        catch (InputException ex)
-        {
-            result.AddError("--memory: " + ex.Message);
-            return null;
-        }
-    }
-
-    /// <summary>Resolves the probe: a string on the model's qubits, or the index of a model probe.</summary>
-    internal static PauliString ResolveProbe(Model m, string? text)
-    {
-        if (string.IsNullOrWhiteSpace(text)) return m.Probes[0];
-        if (int.TryParse(text, NumberStyles.None, Inv, out int idx))
-        {
-            if (idx >= m.Probes.Count) throw new InputException($"--probe {idx}: the model has {m.Probes.Count} probe(s); expected an index 0..{m.Probes.Count - 1} or a Pauli string such as Z_3");
-            return m.Probes[idx];
-        }
-        if (!PauliString.TryParse(text, m.N, out var s, out string? error)) throw new InputException($"--probe '{text}': {error}");
-        if (s!.IsIdentity) throw new InputException($"--probe '{text}': found the identity; expected a non-identity Pauli string");
-        return s;
     }
 
     private static (double Gamma, int LStar) ParseDamping(string? text)
@@ -157,14 +150,22 @@ internal static class EvolveCommand
 
     private static int Execute(Settings st, CancellationToken ct)
     {
-        string path = ShippedModels.Resolve(st.Model);
-        var overrides = ModelLoader.ParseOverrides(st.Sets, path);
-        var model = ModelLoader.Load(path, overrides);
-        var probe = ResolveProbe(model, st.Probe);
+        // Options first (cheap), then the model: every refusal comes before any heavy work.
         var (gamma, lstar) = ParseDamping(st.Damping);
-        if (!(st.FrontFraction > 0 && st.FrontFraction <= 1)) throw new InputException($"--front-fraction {st.FrontFraction}; expected a number in (0, 1]");
-        if (st.CheckpointMinutes < 0) throw new InputException($"--checkpoint-minutes {st.CheckpointMinutes}; expected a non-negative number");
-        string outDir = Path.GetFullPath(st.Out ?? $"evolve-{model.Name}");
+        if (!(st.FrontFraction > 0 && st.FrontFraction <= 1)) throw new InputException($"--front-fraction: found {st.FrontFraction.ToString(Inv)}; expected a number in (0, 1]");
+        if (!(st.CheckpointMinutes >= 0) || !double.IsFinite(st.CheckpointMinutes)) throw new InputException($"--checkpoint-minutes: found {st.CheckpointMinutes.ToString(Inv)}; expected a non-negative number");
+        if (!(st.Dt > 0) || !double.IsFinite(st.Dt)) throw new InputException($"--dt: found {st.Dt.ToString(Inv)}; expected a positive time step");
+        if (st.Budgets is < 1 or > 3) throw new InputException($"--budgets: found {st.Budgets}; expected 1, 2 or 3");
+        if (st.MaxStrings is < 1) throw new InputException($"--max-strings: found {st.MaxStrings}; expected at least 1");
+        if (st.RecordEvery is < 1) throw new InputException($"--record-every: found {st.RecordEvery}; expected at least 1");
+        if (!(st.Threshold >= 0) || !double.IsFinite(st.Threshold)) throw new InputException($"--threshold: found {st.Threshold.ToString(Inv)}; expected a non-negative number");
+        var (path, _, model) = CommonOptions.LoadModel(st.Model, st.Sets);
+        var probe = ProbeChoice.Resolve(model, st.Probe);
+        double time = CommonOptions.AbsoluteTime(st.Time ?? DefaultTimeFor(model), model, st.Dt, OperatorEvolution.MaxSteps);
+        string outDir = Path.GetFullPath(st.Out ?? $"evolve-{ScramblingRun.Sanitize(model.Name)}");
+        string checkpoints = Path.Combine(outDir, "checkpoints");
+        if (st.Resume && (st.NoCheckpoints || !Directory.Exists(checkpoints) || Directory.GetFiles(checkpoints, "checkpoint-*.bin").Length == 0))
+            throw new InputException($"--resume: found no checkpoint in {checkpoints}; expected the output folder of an interrupted run (same --out, model and options)");
         var method = st.Method switch
         {
             "trotter4" => IntegrationMethod.Trotter4,
@@ -173,8 +174,10 @@ internal static class EvolveCommand
             _ => IntegrationMethod.Trotter2,
         };
         double stepTime = model.Drive?.Period ?? st.Dt;
-        long steps = stepTime > 0 ? (long)Math.Ceiling(st.Time / stepTime - 1e-9) : 0;
-        int recordEvery = st.RecordEvery ?? (int)Math.Max(1, steps / 100);
+        long steps = (long)Math.Ceiling(time / stepTime - 1e-9);
+        int recordEvery = st.RecordEvery ?? (int)Math.Clamp(steps / 100, 1, int.MaxValue);
+        // With no truncation option at all, a budget that finishes quickly; the summary says how to go further.
+        bool defaultBudget = st.MaxStrings is null && st.Memory is null && st.Threshold == 0 && st.MaxSize is null && gamma == 0;
         var problem = new EvolutionProblem
         {
             N = model.N,
@@ -190,54 +193,51 @@ internal static class EvolveCommand
         {
             Method = method,
             Dt = st.Dt,
-            Time = st.Time,
+            Time = time,
             RecordEvery = recordEvery,
             Threads = st.Threads,
-            LadderRungs = st.Ladder,
+            BudgetCount = st.Budgets,
             Truncation = new TruncationPolicy
             {
                 Threshold = st.Threshold,
-                MaxStrings = st.MaxStrings,
+                MaxStrings = defaultBudget ? DefaultBudgetFor(model) : st.MaxStrings,
                 MemoryBytes = st.Memory,
                 MaxSize = st.MaxSize,
                 DampingRate = gamma,
                 DampingMinSize = lstar,
             },
-            CheckpointDirectory = st.NoCheckpoints ? null : Path.Combine(outDir, "checkpoints"),
+            CheckpointDirectory = st.NoCheckpoints ? null : checkpoints,
             CheckpointInterval = TimeSpan.FromMinutes(st.CheckpointMinutes),
             Resume = st.Resume,
         };
-        var geometry = new LatticeGeometry(model.N, model.Lattice.Distance, model.Lattice.IsOneDimensional, model.Lattice.Kind);
+        var geometry = ScramblingRun.GeometryOf(model);
         var analysis = new ScramblingAnalysisOptions { FrontFraction = st.FrontFraction };
 
         EvolutionResult result;
-        using (var lf = CliHost.CreateLoggerFactory(LogLevel.Information))
+        using (var lf = CliHost.CreateLoggerFactory())
         {
             var log = lf.CreateLogger("evolve");
-            log.LogInformation("{Model}: {N} qubits, probe {Probe}, {Dynamics}, t = {Time}, output {Out}", model.Name, model.N, probe, model.Drive is null ? $"{st.Method} dt = {st.Dt}" : "periodic drive", st.Time, outDir);
-            bool fancy = !Console.IsErrorRedirected && string.IsNullOrEmpty(Environment.GetEnvironmentVariable("CI"));
-            if (fancy)
+            log.LogInformation("{Model}: {N} qubits, probe {Probe}, {Dynamics}, t = {Time}, output {Out}", model.Name, model.N, probe,
+                model.Drive is null ? $"{st.Method} dt = {NumberFormat.Number(st.Dt)}" : "periodic drive", NumberFormat.Number(time), outDir);
+            if (CliHost.FancyProgress)
             {
                 var console = AnsiConsole.Create(new AnsiConsoleSettings { Out = new AnsiConsoleOutput(Console.Error) });
                 EvolutionResult? r = null;
                 console.Progress()
                     .Columns(new TaskDescriptionColumn(), new ProgressBarColumn(), new PercentageColumn(), new ElapsedTimeColumn(), new RemainingTimeColumn())
-                    .Start(ctx =>
-                    {
-                        var rep = new SpectreProgress(ctx);
-                        r = OperatorEvolution.Run(problem, options, geometry, log, rep, ct, analysis);
-                    });
+                    .Start(ctx => r = OperatorEvolution.Run(problem, options, geometry, log, new SpectreProgress(ctx), ct, analysis));
                 result = r!;
             }
             else
             {
-                result = OperatorEvolution.Run(problem, options, geometry, log, new LogProgress(log), ct, analysis);
+                result = OperatorEvolution.Run(problem, options, geometry, log, CliHost.Verbosity == Verbosity.Quiet ? null : new LogProgress(log), ct, analysis);
             }
-            Write(outDir, result, options, model, probe);
+            string summary = Summary(result, defaultBudget ? DefaultBudgetFor(model) : null, st.Time is null && DefaultTimeFor(model) < 10 ? DefaultTimeFor(model) : null);
+            Write(outDir, result, options, model, path, probe, summary);
             log.LogInformation("wrote {Out}", outDir);
             if (result.Completed && !st.KeepCheckpoints && options.CheckpointDirectory is { } ck && Directory.Exists(ck)) Directory.Delete(ck, true);
+            CliHost.Out.Write(summary);
         }
-        CliHost.Out.Write(Summary(result, options));
         if (result.ResourceLimited) throw new ResourceLimitException($"{result.StopReason} (partial results written to {outDir})");
         if (result.StopReason == "interrupted") throw new OperationCanceledException();
         return ExitCodes.Ok;
@@ -249,17 +249,17 @@ internal static class EvolveCommand
 
         public void Report(EvolutionProgress p)
         {
-            if (!_tasks.TryGetValue(p.Rung, out var task))
+            if (!_tasks.TryGetValue(p.Run, out var task))
             {
-                task = ctx.AddTask($"rung {p.Rung + 1}/{p.Rungs}", maxValue: Math.Max(1, p.TotalSteps));
-                _tasks[p.Rung] = task;
+                task = ctx.AddTask($"budget {p.Run + 1}/{p.Runs}", maxValue: Math.Max(1, p.TotalSteps));
+                _tasks[p.Run] = task;
             }
             task.Value = p.Step;
-            task.Description = $"rung {p.Rung + 1}/{p.Rungs} t={p.Time:0.###} strings={p.Strings:N0} discarded={p.DiscardedTotal:0.###e0}";
+            task.Description = FormattableString.Invariant($"budget {p.Run + 1}/{p.Runs} t={p.Time:0.###} strings={p.Strings:N0} discarded={NumberFormat.Number(Math.Max(0, p.DiscardedTotal), 2)}");
         }
     }
 
-    /// <summary>Plain periodic log lines (redirected output or CI), at most one per 10 seconds plus each rung's end.</summary>
+    /// <summary>Plain periodic log lines (redirected output or CI), at most one per 10 seconds plus the end of each budget's run.</summary>
     private sealed class LogProgress(ILogger log) : IProgress<EvolutionProgress>
     {
         private DateTime _last = DateTime.MinValue;
@@ -270,24 +270,20 @@ internal static class EvolveCommand
             if ((now - _last).TotalSeconds < 10 && p.Step != p.TotalSteps) return;
             _last = now;
             string eta = p.Remaining is TimeSpan r ? r.ToString(@"hh\:mm\:ss", Inv) : "?";
-            log.LogInformation("rung {Rung}/{Rungs}: step {Step}/{Total} t = {Time:0.###} strings {Strings} discarded {Disc:0.###e0} elapsed {Elapsed} eta {Eta}",
-                p.Rung + 1, p.Rungs, p.Step, p.TotalSteps, p.Time, p.Strings, p.DiscardedTotal, p.Elapsed.ToString(@"hh\:mm\:ss", Inv), eta);
+            log.LogInformation("budget {Run}/{Runs}: step {Step}/{Total} t = {Time} strings {Strings} discarded {Disc} elapsed {Elapsed} eta {Eta}",
+                p.Run + 1, p.Runs, p.Step, p.TotalSteps, NumberFormat.Number(p.Time), p.Strings, NumberFormat.Number(Math.Max(0, p.DiscardedTotal), 2), p.Elapsed.ToString(@"hh\:mm\:ss", Inv), eta);
         }
     }
 
     // ------------------------------------------------------------------ output
 
-    private static string F(double v) => double.IsFinite(v) ? v.ToString("R", Inv) : "NaN";
-
-    private static string F(double? v) => v is double x ? F(x) : "";
-
-    private static void Write(string dir, EvolutionResult r, EvolutionOptions o, Model model, PauliString probe)
+    private static void Write(string dir, EvolutionResult r, EvolutionOptions o, Model model, string modelFile, Pauli.PauliString probe, string summary)
     {
         Directory.CreateDirectory(dir);
         var doc = new
         {
             format = "opgrowth-evolve/1",
-            model = new { name = model.Name, source = model.SourceFile, n = model.N, lattice = model.Lattice.Kind, parameters = model.Parameters, seeds = model.Seeds, sizeMeasure = r.SizeMeasure },
+            model = new { name = model.Name, file = modelFile, n = model.N, lattice = model.Lattice.Kind, parameters = model.Parameters, seeds = model.Seeds, sizeMeasure = r.SizeMeasure },
             probe = probe.ToString(),
             options = new
             {
@@ -297,141 +293,62 @@ internal static class EvolveCommand
                 time = o.Time,
                 recordEvery = o.RecordEvery,
                 threads = o.Threads,
-                ladder = o.LadderRungs,
+                budgets = o.BudgetCount,
                 truncation = o.Truncation,
                 groupsPerStep = r.Groups,
             },
             completed = r.Completed,
             stopReason = r.StopReason,
+            headline = EvolutionHeadlines.Of(r).Select(h => new { name = h.Name, value = h.Value.Value, uncertainty = h.Value.Uncertainty, unit = h.Value.Unit, definition = h.Value.Definition, converged = h.Converged, note = h.Note }),
+            discardedWeight = r.Main.Records.Count > 0 ? r.Main.Records[^1].DiscardedTotal : 0,
             notes = r.Notes,
             figures = r.Figures,
             convergence = r.Convergence,
-            rungs = r.Rungs,
+            budgetRuns = r.Runs.Select(s => new { maxStrings = s.Budget.MaxStrings, threshold = s.Budget.Threshold, maxSize = s.Budget.MaxSize, completed = s.Completed, stopReason = s.StopReason, peakStrings = s.PeakStrings, peakTrackedBytes = s.PeakTrackedBytes, seconds = s.ElapsedSeconds, discardedTotal = s.Records.Count > 0 ? s.Records[^1].DiscardedTotal : 0 }),
             wallSeconds = r.WallSeconds,
+            files = DataFiles.Descriptions.Keys.Where(f => File.Exists(Path.Combine(dir, f))).ToList(),
         };
+        if (r.Main.Records.Count > 0) DataFiles.WriteEvolution(dir, r);
         AtomicFile.WriteJson(Path.Combine(dir, "evolve.json"), doc);
-
-        var main = r.Main;
-        var fig = r.Figures[0];
-        int n = r.N;
-        var probeSet = new HashSet<int>(r.ProbeSites);
-        var sb = new StringBuilder("time,step,strings,norm_squared,discarded,discarded_total,autocorrelation,mean_size,mean_majorana_size,front,otoc_far,cut_magnitude\n");
-        for (int i = 0; i < main.Records.Count; i++)
-        {
-            var rec = main.Records[i];
-            double far = 0;
-            int cnt = 0;
-            for (int j = 0; j < n; j++)
-            {
-                if (probeSet.Contains(j)) continue;
-                far += 8.0 / 3.0 * rec.SiteWeights[j];
-                cnt++;
-            }
-            string frontV = fig.Butterfly is { } b && i < b.Front.Length ? b.Front[i].ToString(Inv) : "";
-            sb.Append(F(rec.Time)).Append(',').Append(rec.Step).Append(',').Append(rec.Strings).Append(',').Append(F(rec.NormSquared)).Append(',')
-              .Append(F(rec.DiscardedWeight)).Append(',').Append(F(rec.DiscardedTotal)).Append(',').Append(F(rec.Autocorrelation)).Append(',')
-              .Append(F(rec.MeanSize)).Append(',').Append(F(rec.MeanMajoranaSize)).Append(',').Append(frontV).Append(',')
-              .Append(cnt > 0 ? F(far / cnt) : "").Append(',').Append(F(rec.CutMagnitude)).Append('\n');
-        }
-        AtomicFile.WriteAllText(Path.Combine(dir, "series.csv"), sb.ToString());
-
-        AtomicFile.WriteAllText(Path.Combine(dir, "site_weights.csv"), Wide("rho", n, main.Records.Select(x => (x.Time, x.SiteWeights))));
-        AtomicFile.WriteAllText(Path.Combine(dir, "size_distribution.csv"), Wide("p", n + 1, main.Records.Select(x => (x.Time, x.SizeDistribution))));
-        if (main.Records.Count > 0 && main.Records[0].MajoranaSizeDistribution is not null)
-        {
-            AtomicFile.WriteAllText(Path.Combine(dir, "majorana_size_distribution.csv"), Wide("p", 2 * n + 1, main.Records.Select(x => (x.Time, x.MajoranaSizeDistribution!))));
-        }
-        var ot = new StringBuilder("time,site,otoc_x,otoc_y,otoc_z,otoc_mean,site_weight,right_edge,left_edge\n");
-        foreach (var rec in main.Records)
-        {
-            for (int j = 0; j < n; j++)
-            {
-                ot.Append(F(rec.Time)).Append(',').Append(j).Append(',').Append(F(rec.OtocX[j])).Append(',').Append(F(rec.OtocY[j])).Append(',')
-                  .Append(F(rec.OtocZ[j])).Append(',').Append(F(rec.OtocMean[j])).Append(',').Append(F(rec.SiteWeights[j])).Append(',')
-                  .Append(F(rec.RightEdge[j])).Append(',').Append(F(rec.LeftEdge[j])).Append('\n');
-            }
-        }
-        AtomicFile.WriteAllText(Path.Combine(dir, "otoc.csv"), ot.ToString());
-        var stp = new StringBuilder("rung,max_strings,step,time,strings,discarded,discarded_total\n");
-        foreach (var s in r.Rungs)
-        {
-            foreach (var x in s.Steps)
-            {
-                stp.Append(s.Budget.Rung).Append(',').Append(s.Budget.MaxStrings?.ToString(Inv) ?? "").Append(',').Append(x.Step).Append(',').Append(F(x.Time)).Append(',')
-                   .Append(x.Strings).Append(',').Append(F(x.Discarded)).Append(',').Append(F(x.DiscardedTotal)).Append('\n');
-            }
-        }
-        AtomicFile.WriteAllText(Path.Combine(dir, "steps.csv"), stp.ToString());
-        var lad = new StringBuilder("figure,full_budget,half_budget,quarter_budget,movement,relative_movement,converged\n");
-        foreach (var c in r.Convergence)
-        {
-            lad.Append(c.Figure).Append(',').Append(F(c.Values.ElementAtOrDefault(0))).Append(',').Append(F(c.Values.ElementAtOrDefault(1))).Append(',')
-               .Append(F(c.Values.ElementAtOrDefault(2))).Append(',').Append(F(c.Movement)).Append(',').Append(F(c.RelativeMovement)).Append(',')
-               .Append(c.Converged ? "yes" : "no").Append('\n');
-        }
-        AtomicFile.WriteAllText(Path.Combine(dir, "ladder.csv"), lad.ToString());
-        AtomicFile.WriteAllText(Path.Combine(dir, "summary.txt"), Summary(r, o));
+        AtomicFile.WriteAllText(Path.Combine(dir, "summary.txt"), summary);
     }
 
-    private static string Wide(string prefix, int width, IEnumerable<(double Time, double[] Values)> rows)
-    {
-        var sb = new StringBuilder("time");
-        for (int k = 0; k < width; k++) sb.Append(',').Append(prefix).Append('_').Append(k);
-        sb.Append('\n');
-        foreach (var (t, v) in rows)
-        {
-            sb.Append(F(t));
-            foreach (double x in v) sb.Append(',').Append(F(x));
-            sb.Append('\n');
-        }
-        return sb.ToString();
-    }
-
-    /// <summary>The short text summary printed on stdout.</summary>
-    internal static string Summary(EvolutionResult r, EvolutionOptions o)
+    /// <summary>The short text summary printed on stdout (and written to summary.txt).</summary>
+    internal static string Summary(EvolutionResult r, long? defaultBudget, double? shortTime = null)
     {
         var sb = new StringBuilder();
         var main = r.Main;
+        if (main.Records.Count == 0) return $"model {r.Model} (N = {r.N}), probe {r.Initial}: no record ({r.StopReason})\n";
         var last = main.Records[^1];
         var fig = r.Figures[0];
-        FigureConvergence? Conv(string name) => r.Convergence.FirstOrDefault(c => c.Figure == name);
-        string Ladder(string name) => Conv(name) is { } c
-            ? $"; ladder movement {F3(c.Movement)}{(c.Converged ? "" : " (NOT CONVERGED)")}"
-            : "";
-        sb.Append($"model {r.Model} (N = {r.N}), probe {r.Initial}, {r.Dynamics}, {r.Method}, t = {last.Time:0.###}{(r.Completed ? "" : $" (stopped: {r.StopReason})")}\n");
-        sb.Append($"strings {last.Strings:N0} (peak {main.PeakStrings:N0}), discarded weight {last.DiscardedTotal:0.###e0}, ||O||^2 {last.NormSquared:0.######}, {main.ElapsedSeconds:0.#} s\n");
-        sb.Append($"autocorrelation {last.Autocorrelation:0.#####}, mean size {last.MeanSize:0.###} (random operator {fig.Growth.SaturationExpected:0.###})");
-        if (last.MeanMajoranaSize is double mm) sb.Append($", mean Majorana size {mm:0.###}");
+        string stopped = r.Completed ? "" : $" (stopped: {r.StopReason})";
+        sb.Append(Inv, $"{r.Model} (N = {r.N}), probe {r.Initial}, {r.Dynamics}{(r.Dynamics == "hamiltonian" ? ", " + r.Method : "")}, t = {NumberFormat.Number(last.Time)}{stopped}\n");
+        sb.Append(Inv, $"  strings: {last.Strings:N0} (peak {main.PeakStrings:N0}); discarded weight: {EvolutionHeadlines.DiscardedText(r)}; {NumberFormat.Duration(TimeSpan.FromSeconds(main.ElapsedSeconds))}\n");
+        sb.Append(Inv, $"  autocorrelation: {NumberFormat.Number(last.Autocorrelation, 3)}; mean size: {NumberFormat.Number(last.MeanSize, 3)} (random operator {NumberFormat.Number(fig.Growth.SaturationExpected, 3)})");
+        if (last.MeanMajoranaSize is double mm) sb.Append(Inv, $", in Majoranas {NumberFormat.Number(mm, 3)}");
         sb.Append('\n');
-        if (fig.Butterfly is { } b)
-        {
-            var p = b.Primary;
-            sb.Append(p.Velocity is double v
-                ? $"v_B = {v:0.####} +- {F3(p.VelocityError)} sites/time (front at rho >= {p.Threshold:0.###}, distances {p.MinDistance}..{p.MaxDistance}, t in [{p.WindowStart:0.###}, {p.WindowEnd:0.###}]; threshold spread {F3(b.ThresholdSpread)}{Ladder("butterflyVelocity")})\n"
-                : $"v_B: {p.Note}\n");
-        }
-        else sb.Append($"v_B: {fig.ButterflyNote}\n");
+        var heads = EvolutionHeadlines.Of(r);
+        foreach (var h in heads) sb.Append("  ").Append(EvolutionHeadlines.Line(h)).Append('\n');
+        if (fig.Butterfly is null) sb.Append("  butterfly velocity v_B: ").Append(fig.ButterflyNote).Append('\n');
+        else if (fig.Butterfly.Primary.Velocity is null) sb.Append("  butterfly velocity v_B: ").Append(fig.Butterfly.Primary.Note).Append('\n');
         var g = fig.Growth;
-        var lin = g.SizeLinear;
-        var exp = g.SizeExponential;
-        sb.Append($"growth regime: {g.Regime} ({g.RegimeReason})\n");
-        if (lin.Rate is double lr) sb.Append($"  dn/dt = {lr:0.####} +- {F3(lin.RateError)} on t in [{lin.WindowStart:0.###}, {lin.WindowEnd:0.###}]{Ladder("sizeGrowthRateLinear")}\n");
-        if (exp.Rate is double er) sb.Append($"  lambda (size) = {er:0.####} +- {F3(exp.RateError)} on t in [{exp.WindowStart:0.###}, {exp.WindowEnd:0.###}]{Ladder("sizeGrowthRateExponential")}\n");
-        if (g.OtocExponential.Rate is double orr) sb.Append($"  lambda (OTOC) = {orr:0.####} +- {F3(g.OtocExponential.RateError)}{Ladder("otocGrowthRate")}\n");
-        sb.Append(g.Saturation is double s
-            ? $"saturation: mean size {s:0.###} +- {F3(g.SaturationSpread)} = {g.SaturationRatio:0.###} x random{Ladder("saturationMeanSize")}\n"
-            : "saturation: not reached\n");
-        var ts = fig.ScramblingTime;
-        sb.Append(ts.Value is double tv
-            ? $"t* = {tv:0.###} +- {F3(ts.GridUncertainty)} (grid) at n = 3N/8 = {ts.Target:0.###}{Ladder("scramblingTime")}\n"
-            : $"t*: n(t) did not reach 3N/8 = {ts.Target:0.###}\n");
+        sb.Append("  growth regime: ").Append(g.Regime).Append(" (").Append(g.RegimeReason).Append(")\n");
+        if (fig.ScramblingTime.Value is null)
+            sb.Append("  scrambling time t*: not reached: the mean size ").Append(NumberFormat.Number(last.MeanSize, 3)).Append(" is below 3N/8 = ").Append(NumberFormat.Number(fig.ScramblingTime.Target, 3))
+              .Append(" at t = ").Append(NumberFormat.Number(last.Time)).Append("; ").Append(RunReport.LongerRunAdvice(r)).Append('\n');
         if (fig.MajoranaScramblingTime is { } tm)
         {
-            sb.Append(tm.Value is double tmv ? $"t* (Majoranas) = {tmv:0.###} +- {F3(tm.GridUncertainty)}{Ladder("majoranaScramblingTime")}\n" : $"t* (Majoranas): not reached ({tm.Target:0.###})\n");
+            sb.Append("  t* (Majoranas): ").Append(tm.Value is double tmv ? NumberFormat.Number(tmv, 3) + (EvolutionHeadlines.Convergence(r, "majoranaScramblingTime") is { Converged: false, Note: var note } ? $" (not converged: {note})" : "") : $"not reached (level {NumberFormat.Number(tm.Target, 3)})").Append('\n');
         }
-        foreach (var note in r.Notes) sb.Append("note: ").Append(note).Append('\n');
+        if (EvolutionHeadlines.NormGrowthWarning(r) is { } broken) sb.Append("  WARNING: ").Append(broken).Append('\n');
+        foreach (var note in r.Notes) sb.Append("  note: ").Append(note).Append('\n');
+        if (defaultBudget is long budget)
+        {
+            long more = budget * 10;
+            sb.Append(Inv, $"  note: default budget of {budget:N0} strings; to go further: --max-strings {more} --budgets 3 (about {MemoryBudget.Format((long)(more * MemoryBudget.BytesPerString(r.N)))} at the full budget, about ten times the time)\n");
+        }
+        if (shortTime is double ts)
+            sb.Append(Inv, $"  note: default time {NumberFormat.Number(ts)} for a model of this many terms (each step applies every commuting group); to go further: --time 10\n");
         return sb.ToString();
     }
-
-    private static string F3(double? v) => v is double x ? x.ToString("0.###e0", Inv) : "n/a";
 }

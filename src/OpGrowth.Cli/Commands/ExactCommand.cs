@@ -5,7 +5,9 @@ using Microsoft.Extensions.Logging;
 using OpGrowth.Exact;
 using OpGrowth.IO;
 using OpGrowth.Models;
+using OpGrowth.Evolution;
 using OpGrowth.Pauli;
+using OpGrowth.Reporting;
 
 namespace OpGrowth.Cli.Commands;
 
@@ -20,58 +22,54 @@ internal static class ExactCommand
 
     public static Command Create()
     {
-        var model = new Argument<string>("MODEL") { Description = "Model file (.toml) or the name of a shipped model (see 'opgrowth models')." };
+        var model = CommonOptions.Model();
         var mode = new Option<string>("--mode") { Description = "otoc (infinite temperature), thermal (finite temperature at --beta), or levels (level statistics).", DefaultValueFactory = _ => "otoc" };
-        var set = new Option<string[]>("--set") { Description = "Override a model parameter: NAME=VALUE. Repeat for several.", Arity = ArgumentArity.ZeroOrMore, AllowMultipleArgumentsPerToken = false };
-        var op = new Option<string?>("--operator") { Description = "Evolved operator W, e.g. \"Z_0\" (default: the model's first probe)." };
+        mode.AcceptOnlyFromAmong("otoc", "thermal", "levels");
+        var set = CommonOptions.Set();
+        var op = CommonOptions.Probe();
         var sites = new Option<string>("--sites") { Description = "Sites j for OTOCs against X_j, Y_j, Z_j: \"all\", \"none\" or a list such as \"0,5,9\".", DefaultValueFactory = _ => "all" };
-        var probe = new Option<string[]>("--probe") { Description = "Further probe V (any Pauli string, e.g. \"Z_3 Z_4\"). Repeat for several.", Arity = ArgumentArity.ZeroOrMore, AllowMultipleArgumentsPerToken = false };
-        var times = new Option<string>("--times") { Description = "Time grid: START:STOP:COUNT (e.g. 0:8:41) or a list \"0,0.5,1\".", DefaultValueFactory = _ => "0:5:26" };
+        var probe = new Option<string[]>("--against") { Description = "A further operator V to take the OTOC against (any Pauli string, e.g. \"Z_3 Z_4\"). Repeat for several.", Arity = ArgumentArity.ZeroOrMore, AllowMultipleArgumentsPerToken = false };
+        var times = new Option<string>("--times") { Description = "Time grid: START:STOP:COUNT (e.g. 0:8:41) or a list \"0,0.5,1\"; for a periodic drive, whole numbers of periods.", DefaultValueFactory = _ => "0:5:26" };
         var beta = new Option<string>("--beta") { Description = "Inverse temperatures for --mode thermal, e.g. \"0.25,0.5,1\".", DefaultValueFactory = _ => "0.5" };
         var method = new Option<string>("--method") { Description = "auto (dense for N <= 8), dense (N <= 10), or typicality.", DefaultValueFactory = _ => "auto" };
-        var samples = new Option<string>("--samples") { Description = "Random states per estimate (typicality).", DefaultValueFactory = _ => "4" };
+        var samples = new Option<string>("--samples") { Description = "Random states per estimate (typicality); error bars are 68% Student-t intervals over them.", DefaultValueFactory = _ => "4" };
         var seed = new Option<string>("--seed") { Description = "Seed of the random states.", DefaultValueFactory = _ => "1" };
         var tol = new Option<string>("--tolerance") { Description = "Error tolerance of each propagation.", DefaultValueFactory = _ => "1e-8" };
-        var threads = new Option<string>("--threads") { Description = "Worker threads (0 = all cores).", DefaultValueFactory = _ => "0" };
+        var threads = CommonOptions.Threads();
         var fit = new Option<string>("--fit-range") { Description = "Growth-fit window on C = 1 - F/F(0): LOW:HIGH.", DefaultValueFactory = _ => "1e-3:0.3" };
         var resolve = new Option<string?>("--resolve") { Description = "levels: symmetries to resolve (comma list of total-z, reflection, spin-flip; \"none\"); default: every one H has, with the lattice mirrors (and a square's diagonal) among the spatial ones." };
         var realizations = new Option<string>("--realizations") { Description = "levels: disorder realisations (the model's 'seed' parameter is stepped).", DefaultValueFactory = _ => "1" };
         var fraction = new Option<string>("--central-fraction") { Description = "levels: fraction of each sector's levels kept around the middle.", DefaultValueFactory = _ => "0.8" };
         var meanSize = new Option<bool>("--mean-size") { Description = "otoc: also estimate the mean size for all sites with one random-sign probe (cheap at large N; used when not every site is resolved)." };
-        var outDir = new Option<string?>("--out") { Description = "Output folder (default: exact-<model name>)." };
+        var outDir = CommonOptions.Out("Output folder [default: exact-<model name>].");
         var cmd = new Command("exact",
-            "Exact state-vector engine at small N: OTOCs F(t) = Tr(W(t) V W(t) V)/2^N against X, Y, Z on every site " +
+            "Exact state-vector engine at small N: OTOCs F(t) = Tr(W(t) V W(t) V)/2^N of the probe W against X, Y, Z on every site " +
             "(dense traces or quantum typicality), the regularised finite-temperature OTOC with fitted growth rate and " +
-            "chaos-bound ratio, or level statistics (mean gap ratio in symmetry sectors).\n\n" +
-            "Examples:\n  opgrowth exact mixed-field-ising --set N=12 --operator Z_0 --times 0:6:31\n" +
-            "  opgrowth exact mixed-field-ising --set N=10 --mode thermal --beta 0.2,0.5 --sites 5\n" +
-            "  opgrowth exact mixed-field-ising --set N=12 --mode levels")
+            "chaos-bound ratio, or level statistics (mean gap ratio in symmetry sectors).")
         {
             model, mode, set, op, sites, probe, times, beta, method, samples, seed, tol, threads, fit, resolve, realizations, fraction, meanSize, outDir,
         };
         cmd.SetAction(pr => CliHost.Run(ct => Execute(new Settings(
             pr.GetValue(model)!, pr.GetValue(mode)!, pr.GetValue(set) ?? [], pr.GetValue(op), pr.GetValue(sites)!, pr.GetValue(probe) ?? [],
             pr.GetValue(times)!, pr.GetValue(beta)!, pr.GetValue(method)!, pr.GetValue(samples)!, pr.GetValue(seed)!, pr.GetValue(tol)!,
-            pr.GetValue(threads)!, pr.GetValue(fit)!, pr.GetValue(resolve), pr.GetValue(realizations)!, pr.GetValue(fraction)!, pr.GetValue(meanSize), pr.GetValue(outDir)), ct)));
+            CommonOptions.ThreadsOrDefault(pr.GetValue(threads)), pr.GetValue(fit)!, pr.GetValue(resolve), pr.GetValue(realizations)!, pr.GetValue(fraction)!, pr.GetValue(meanSize), pr.GetValue(outDir)), ct)));
         return cmd;
     }
 
     private sealed record Settings(string Model, string Mode, string[] Sets, string? Operator, string Sites, string[] Probes, string Times, string Beta,
-        string Method, string Samples, string Seed, string Tolerance, string Threads, string FitRange, string? Resolve, string Realizations, string Fraction, bool MeanSize, string? Out);
+        string Method, string Samples, string Seed, string Tolerance, int Threads, string FitRange, string? Resolve, string Realizations, string Fraction, bool MeanSize, string? Out);
 
     private static int Execute(Settings s, CancellationToken ct)
     {
-        string path = ShippedModels.Resolve(s.Model);
-        var overrides = ModelLoader.ParseOverrides(s.Sets, path);
-        var model = ModelLoader.Load(path, overrides);
+        var (path, overrides, model) = CommonOptions.LoadModel(s.Model, s.Sets);
         if (model.IsDriven && s.Mode != "otoc")
         {
             throw new InputException(path, 0, $"found a driven (Floquet) model with --mode {s.Mode}; expected --mode otoc (a drive has no thermal state and no energy levels)");
         }
-        string outDir = s.Out ?? $"exact-{model.Name}";
-        using var lf = CliHost.CreateLoggerFactory(LogLevel.Information);
+        string outDir = Path.GetFullPath(s.Out ?? $"exact-{Pipeline.ScramblingRun.Sanitize(model.Name)}");
+        using var lf = CliHost.CreateLoggerFactory();
         var log = lf.CreateLogger("exact");
-        int threads = ParseInt(s.Threads, "--threads", 0, 1024);
+        int threads = s.Threads;
         return s.Mode switch
         {
             "otoc" => RunOtoc(model, s, outDir, threads, log, thermal: false, ct),
@@ -85,9 +83,16 @@ internal static class ExactCommand
     {
         int n = model.N;
         if (n > PauliMask.MaxQubits) throw new InputException($"model has N = {n}; expected N <= {PauliMask.MaxQubits} for state vectors (2^N amplitudes)");
-        var w = s.Operator is null ? model.Probes[0] : ParsePauli(s.Operator, n, "--operator");
-        var probes = s.Probes.Select(p => ParsePauli(p, n, "--probe")).ToArray();
+        var w = ProbeChoice.Resolve(model, s.Operator);
+        var probes = s.Probes.Select(p => ParsePauli(p, n, "--against")).ToArray();
         var times = ParseTimes(s.Times);
+        if (model.Drive is { } drive)
+        {
+            // For a drive the grid counts periods: whole numbers only, then converted to time.
+            var bad = times.FirstOrDefault(t => Math.Abs(t - Math.Round(t)) > 1e-9 * Math.Max(1, t), -1);
+            if (bad >= 0) throw new InputException($"--times: found {bad.ToString(Inv)}; expected whole numbers of drive periods for a periodic drive");
+            times = times.Select(t => Math.Round(t) * drive.Period).Distinct().ToArray();
+        }
         var method = s.Method switch
         {
             "auto" => OtocMethod.Auto,
@@ -98,7 +103,7 @@ internal static class ExactCommand
         if (method == OtocMethod.Dense && n > DenseSpectrum.DefaultMaxQubits) throw new InputException($"--method dense: found N = {n}; expected N <= {DenseSpectrum.DefaultMaxQubits} (use typicality)");
         var fit = ParseRange(s.FitRange, "--fit-range");
         var siteList = ParseSites(s.Sites, n);
-        if (siteList is { Length: 0 } && probes.Length == 0 && !s.MeanSize) throw new InputException("--sites none: found no sites and no --probe; expected at least one OTOC to compute");
+        if (siteList is { Length: 0 } && probes.Length == 0 && !s.MeanSize) throw new InputException("--sites none: found no sites and no --against; expected at least one OTOC to compute");
         var betas = thermal ? ParseList(s.Beta, "--beta") : [0.0];
         if (betas.Any(b => b < 0)) throw new InputException("--beta: found a negative value; expected beta >= 0");
         var baseOptions = new ExactOtocOptions
@@ -123,8 +128,6 @@ internal static class ExactCommand
             log.LogInformation("{Model}: OTOC of {W}, beta = {Beta}, {Times} times", model.Name, w, b, times.Length);
             if (model.Drive is not null)
             {
-                var bad = times.FirstOrDefault(t => Math.Abs(t / model.Drive.Period - Math.Round(t / model.Drive.Period)) > 1e-9 * Math.Max(1, t / model.Drive.Period), -1);
-                if (bad >= 0) throw new InputException($"--times: found {bad.ToString(Inv)}; expected whole numbers of drive periods (period {model.Drive.Period.ToString(Inv)})");
                 results.Add(ExactOtoc.Run(model.Drive, n, baseOptions, ct));
             }
             else
@@ -137,22 +140,26 @@ internal static class ExactCommand
         AtomicFile.WriteJson(Path.Combine(outDir, stem + ".json"), doc);
         AtomicFile.WriteAllText(Path.Combine(outDir, stem + ".csv"), OtocCsv(results));
         var o = CliHost.Out;
+        static string V(double value, double error) => NumberFormat.ValueWithUncertainty(value, error);
         foreach (var r in results)
         {
-            o.WriteLine(FormattableString.Invariant($"{model.Name} N={n} W={r.Operator} beta={r.Beta} method={r.Method} samples={r.Samples} ({r.Cost.WallSeconds:F1} s, peak {r.Cost.PeakWorkingSetBytes / 1e6:F0} MB)"));
+            o.WriteLine(FormattableString.Invariant($"{model.Name} (N = {n}), probe W = {r.Operator}, beta = {NumberFormat.Number(r.Beta)}, {r.Method} ({NumberFormat.Duration(TimeSpan.FromSeconds(r.Cost.WallSeconds))}, peak {MemoryBudget.Format(r.Cost.PeakWorkingSetBytes)})"));
+            o.WriteLine($"  error bars: {r.ErrorKind}");
             int last = r.Times.Length - 1;
-            o.WriteLine(FormattableString.Invariant($"  autocorrelation at t={r.Times[last]}: {r.Autocorrelation.Values[last]:F5} +- {r.Autocorrelation.Errors[last]:F5}"));
-            if (r.MeanSize is not null) o.WriteLine(FormattableString.Invariant($"  mean size at t={r.Times[last]}: {r.MeanSize.Values[last]:F4} +- {r.MeanSize.Errors[last]:F4} (saturation 3N/4 = {0.75 * n:F2}; {r.MeanSizeMethod})"));
+            string at = NumberFormat.Number(r.Times[last]);
+            o.WriteLine($"  autocorrelation at t = {at}: {V(r.Autocorrelation.Values[last], r.Autocorrelation.Errors[last])}");
+            if (r.MeanSize is not null) o.WriteLine($"  mean size at t = {at}: {V(r.MeanSize.Values[last], r.MeanSize.Errors[last])} (random operator 3N/4 = {NumberFormat.Number(0.75 * n)}; {r.MeanSizeMethod})");
             foreach (var site in r.Sites.Take(40))
             {
-                o.WriteLine(FormattableString.Invariant($"  site {site.Site,3}: F_X {site.X.Values[last],8:F4}  F_Y {site.Y.Values[last],8:F4}  F_Z {site.Z.Values[last],8:F4}  weight {site.Weight.Values[last]:F4} +- {site.Weight.Errors[last]:F4}"));
+                o.WriteLine($"  site {site.Site,3} at t = {at}: F_X {V(site.X.Values[last], site.X.Errors[last])}, F_Y {V(site.Y.Values[last], site.Y.Errors[last])}, F_Z {V(site.Z.Values[last], site.Z.Errors[last])}; weight {V(site.Weight.Values[last], site.Weight.Errors[last])}");
             }
-            foreach (var p in r.Probes) o.WriteLine(FormattableString.Invariant($"  probe {p.Probe}: F = {p.Values[last]:F5} +- {p.Errors[last]:F5}"));
+            if (r.Sites.Count > 40) o.WriteLine($"  ({r.Sites.Count - 40} more sites in the files)");
+            foreach (var p in r.Probes) o.WriteLine($"  against {p.Probe} at t = {at}: F = {V(p.Values[last], p.Errors[last])}");
             if (thermal)
             {
                 foreach (var f in r.Fits.Where(f => f.Points >= 3))
                 {
-                    o.WriteLine(FormattableString.Invariant($"  fit {f.Probe}: lambda = {f.Lambda:F4} +- {f.LambdaError:F4} on t in [{f.WindowStart}, {f.WindowEnd}] ({f.Points} points, R^2 {f.RSquared:F3}); lambda/(2 pi T) = {f.BoundRatio:F3}"));
+                    o.WriteLine($"  fit {f.Probe}: lambda = {V(f.Lambda, f.LambdaError)} on t in {NumberFormat.Window(f.WindowStart, f.WindowEnd)} ({f.Points} points, R^2 {NumberFormat.Number(f.RSquared, 3)}); lambda/(2 pi T) = {NumberFormat.Number(f.BoundRatio, 3)}");
                 }
             }
             foreach (var note in r.Notes) o.WriteLine($"  note: {note}");
@@ -224,10 +231,10 @@ internal static class ExactCommand
         foreach (var sec in r.Sectors) sb.Append(FormattableString.Invariant($"\"{sec.Label}\",{sec.Dimension},{sec.Gaps},{sec.MeanRatio:R},{sec.StandardError:R},{sec.Degeneracies}\n"));
         AtomicFile.WriteAllText(Path.Combine(outDir, "exact-levels.csv"), sb.ToString());
         var o = CliHost.Out;
-        o.WriteLine(FormattableString.Invariant($"{model.Name} N={model.N}: <r> = {r.MeanRatio:F4} +- {r.StandardError:F4} over {r.Gaps} gap ratios, {r.Realizations} realisation(s) ({r.WallSeconds:F1} s)"));
+        o.WriteLine($"{model.Name} (N = {model.N}): <r> = {NumberFormat.ValueWithUncertainty(r.MeanRatio, r.StandardError)} over {r.Gaps} gap ratios, {r.Realizations} realisation(s) ({NumberFormat.Duration(TimeSpan.FromSeconds(r.WallSeconds))}; error: {r.ErrorKind})");
         o.WriteLine(FormattableString.Invariant($"  reference: Poisson {r.Poisson:F4}, GOE {r.Goe:F4}, GUE {r.Gue:F4}; closest: {r.Closest}; blocks {(r.RealBlocks ? "real (GOE class)" : "complex (GUE class)")}; eigensolver {(NativeLapack.IsAvailable ? "LAPACK" : "managed")}"));
         o.WriteLine($"  detected: {(r.Detected.Count == 0 ? "none" : string.Join(", ", r.Detected))}; resolved: {(r.Resolved.Count == 0 ? "none" : string.Join(", ", r.Resolved))}");
-        foreach (var sec in r.Sectors) o.WriteLine(FormattableString.Invariant($"  {sec.Label,-24} dim {sec.Dimension,6}  <r> {sec.MeanRatio:F4} +- {sec.StandardError:F4}"));
+        foreach (var sec in r.Sectors) o.WriteLine($"  {sec.Label,-24} dim {sec.Dimension,6}  <r> = {NumberFormat.ValueWithUncertainty(sec.MeanRatio, sec.StandardError)}");
         foreach (var wn in r.Warnings) o.WriteLine($"  warning: {wn}");
         o.WriteLine($"wrote {Path.Combine(outDir, "exact-levels.json")} and .csv");
         return ExitCodes.Ok;

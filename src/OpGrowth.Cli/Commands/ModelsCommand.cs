@@ -43,7 +43,7 @@ internal static class ModelsCommand
                 {
                     w.WriteStartObject();
                     w.WriteString("name", name);
-                    w.WriteString("declared_name", m.Name);
+                    w.WriteString("declaredName", m.Name);
                     w.WriteNumber("qubits", m.N);
                     w.WriteString("description", m.Description);
                     w.WriteString("file", file);

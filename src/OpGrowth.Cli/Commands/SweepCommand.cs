@@ -16,20 +16,20 @@ internal static class SweepCommand
     public static Command Create()
     {
         var plan = new Argument<string?>("PLAN") { Description = "Sweep plan (TOML). Optional when --model and --sizes are given.", Arity = ArgumentArity.ZeroOrOne };
-        var results = new Option<string?>("--results") { Description = "Results folder (shared with array tasks). Default: results/<plan name>." };
-        var jobs = new Option<int?>("--jobs") { Description = "Points to run at the same time (default: the number of cores)." };
-        var memory = new Option<string?>("--memory") { Description = "Memory the points running at once may use together, e.g. 16GiB (default: 80% of the machine)." };
-        var threads = new Option<int?>("--threads") { Description = "Threads per point (default: cores / jobs; in an array task the CPUs Slurm gave it)." };
+        var results = CommonOptions.Out("Results folder (shared with array tasks) [default: results/<plan name>].");
+        var jobs = new Option<int?>("--jobs") { Description = "Points to run at the same time [default: the number of cores]." };
+        var memory = CommonOptions.Memory();
+        var threads = CommonOptions.Threads();
         var model = new Option<string[]>("--model") { Description = "Model file to sweep (repeatable); replaces the plan's models.", Arity = ArgumentArity.ZeroOrMore };
         var sizes = new Option<string?>("--sizes") { Description = "Sizes N: a list 8,12,16 or a range from:to[:step] such as 8:32:4; replaces the plan's sizes." };
         var seeds = new Option<string?>("--seeds") { Description = "Disorder seeds: a list 1,2,3 or a range 1:8; replaces the plan's seeds." };
-        var probe = new Option<string[]>("--probe") { Description = "Probe operator (repeatable), e.g. Z_0 or Z_{N-1} or model; replaces the plan's probes.", Arity = ArgumentArity.ZeroOrMore };
+        var probe = new Option<string[]>("--probe") { Description = "Operator to evolve (repeatable), e.g. Z_0, Z_{N-1} or model:0 (the model's first probe at each N); replaces the plan's probes.", Arity = ArgumentArity.ZeroOrMore };
         var grid = new Option<string[]>("--grid") { Description = "Parameter grid NAME=v1,v2 or NAME=from:to:step (repeatable); replaces that parameter's values.", Arity = ArgumentArity.ZeroOrMore };
         var engine = new Option<string?>("--engine") { Description = "Engine: auto (exact at small N, Pauli beyond), pauli, exact, or synthetic (a closed-form stand-in to try the machinery)." };
-        var time = new Option<double?>("--time") { Description = "Final time of every run." };
+        var time = new Option<double?>("--time") { Description = "Final time of every run; for a periodic drive, the number of periods." };
         var dt = new Option<double?>("--dt") { Description = "Time step." };
-        var maxStrings = new Option<long?>("--max-strings") { Description = "String budget of the Pauli engine." };
-        var ladder = new Option<int?>("--ladder") { Description = "Rungs of the convergence ladder (1-3)." };
+        var maxStrings = new Option<long?>("--max-strings") { Description = "String budget of the Pauli engine (the strings of largest |c| kept after every pass)." };
+        var budgets = new Option<int?>("--budgets") { Description = "Budgets in the budget series (1-3): also rerun at half (and a quarter) of --max-strings for the truncation uncertainty." };
         var taskIndex = new Option<int?>("--task-index") { Description = "Run only the point with this index (0-based, plan order): what each Slurm array task does." };
         var noFigures = new Option<bool>("--no-figures") { Description = "Do not draw the t*(N) figures when collecting at the end." };
         var dryRun = new Option<bool>("--dry-run") { Description = "List the points (index, id, state, memory estimate) and stop." };
@@ -44,24 +44,22 @@ internal static class SweepCommand
         var slurmOption = new Option<string[]>("--slurm-option") { Description = "Extra #SBATCH line, e.g. --slurm-option=--account=phys (repeatable).", Arity = ArgumentArity.ZeroOrMore };
         var cmd = new Command("sweep",
             "Run a sweep of scrambling times over sizes N, parameters, disorder seeds and probes; results go to one JSON file per point,\n" +
-            "finished points are skipped on rerun, and the merged table and the t*(N) fits (ln N against linear) are written at the end.\n\n" +
-            "Examples:\n" +
-            "  opgrowth sweep models/sweeps/demo-chains.sweep --jobs 2\n" +
-            "  opgrowth sweep --model models/mixed-field-ising.toml --sizes 8:24:4 --probe Z_0 --results out/ising\n" +
-            "  opgrowth sweep plan.toml --slurm-script sweep.sbatch --submit --wait\n" +
-            "  opgrowth sweep plan.toml --results /shared/run1 --task-index 7")
+            "finished points are skipped on rerun, and the merged table and the t*(N) fits (ln N against linear) are written at the end.\n" +
+            "--threads is shared by the points that run at once (--jobs); --memory is what they may use together.")
         {
-            plan, results, jobs, memory, threads, model, sizes, seeds, probe, grid, engine, time, dt, maxStrings, ladder, taskIndex, dryRun, noFigures,
+            plan, results, jobs, memory, threads, model, sizes, seeds, probe, grid, engine, time, dt, maxStrings, budgets, taskIndex, dryRun, noFigures,
             slurmScript, submit, wait, waitMinutes, slurmTime, slurmPartition, slurmCpus, slurmMaxRunning, slurmOption,
         };
         cmd.SetAction(pr => CliHost.Run(ct =>
         {
+            CommonOptions.ApplyMemoryCap(pr.GetValue(memory));
             var p = BuildPlan(pr.GetValue(plan), pr.GetValue(model) ?? [], pr.GetValue(sizes), pr.GetValue(seeds), pr.GetValue(probe) ?? [],
-                pr.GetValue(grid) ?? [], pr.GetValue(engine), pr.GetValue(time), pr.GetValue(dt), pr.GetValue(maxStrings), pr.GetValue(ladder));
+                pr.GetValue(grid) ?? [], pr.GetValue(engine), pr.GetValue(time), pr.GetValue(dt), pr.GetValue(maxStrings), pr.GetValue(budgets));
             string dir = Path.GetFullPath(pr.GetValue(results) ?? Path.Combine("results", p.Name));
-            using var lf = CliHost.CreateLoggerFactory(LogLevel.Information);
+            using var lf = CliHost.CreateLoggerFactory();
             var log = lf.CreateLogger("sweep");
             bool figures = !pr.GetValue(noFigures);
+            if (pr.GetValue(jobs) is < 1) throw new InputException($"--jobs: found {pr.GetValue(jobs)}; expected at least 1");
             if (pr.GetValue(taskIndex) is int k) return RunTask(p, dir, k, pr.GetValue(threads), log, ct);
             if (pr.GetValue(dryRun)) return DryRun(p, dir, pr.GetValue(jobs), pr.GetValue(threads), log);
             if (pr.GetValue(slurmScript) is string script)
@@ -85,7 +83,7 @@ internal static class SweepCommand
 
     /// <summary>The plan file (if any) with the command-line ranges applied.</summary>
     internal static SweepPlan BuildPlan(string? planFile, string[] models, string? sizes, string? seeds, string[] probes, string[] grids,
-        string? engine, double? time, double? dt, long? maxStrings, int? ladder)
+        string? engine, double? time, double? dt, long? maxStrings, int? budgets)
     {
         SweepPlan p;
         if (planFile is not null) p = SweepPlanReader.Load(planFile);
@@ -149,35 +147,37 @@ internal static class SweepCommand
             if (!(d > 0 && d <= e.Time)) throw new InputException($"found --dt {d}; expected a positive step no larger than the final time");
             e = e with { Dt = d };
         }
+        if (e.Time / e.Dt > OpGrowth.Evolution.OperatorEvolution.MaxSteps)
+            throw new InputException($"found --time {e.Time.ToString(CultureInfo.InvariantCulture)} with --dt {e.Dt.ToString(CultureInfo.InvariantCulture)} ({e.Time / e.Dt:G3} steps); expected at most {OpGrowth.Evolution.OperatorEvolution.MaxSteps:N0} steps per point");
         if (maxStrings is long ms)
         {
             if (ms < 1) throw new InputException($"found --max-strings {ms}; expected at least 1");
             e = e with { MaxStrings = ms };
         }
-        if (ladder is int l)
+        if (budgets is int l)
         {
-            if (l is < 1 or > 3) throw new InputException($"found --ladder {l}; expected 1, 2 or 3");
-            e = e with { Ladder = l };
+            if (l is < 1 or > 3) throw new InputException($"--budgets: found {l}; expected 1, 2 or 3");
+            e = e with { Budgets = l };
         }
-        return p with { Engine = e };
+        p = p with { Engine = e };
+        if (models.Length > 0 || grids.Length > 0 || seeds is not null) SweepPlanReader.CheckParameters(p, null);
+        return p;
     }
 
-    private static int RunLocal(SweepPlan plan, string dir, int? jobs, string? memory, int? threads, bool figures, ILogger log, CancellationToken ct)
+    private static int RunLocal(SweepPlan plan, string dir, int? jobs, long? memory, int? threads, bool figures, ILogger log, CancellationToken ct)
     {
         var points = plan.Expand();
         var store = Prepare(plan, points, dir, log);
-        int cores = Environment.ProcessorCount;
-        int j = Math.Max(1, jobs ?? cores);
-        if (jobs is < 1) throw new InputException($"found --jobs {jobs}; expected at least 1");
-        int th = threads ?? Math.Max(1, cores / j);
-        if (th < 1) throw new InputException($"found --threads {th}; expected at least 1");
-        long budget = memory is null ? (long)(0.8 * GC.GetGCMemoryInfo().TotalAvailableMemoryBytes) : ParseMemory(memory);
+        int total = CommonOptions.ThreadsOrDefault(threads);
+        int j = Math.Max(1, jobs ?? Environment.ProcessorCount);
+        int th = Math.Max(1, total / j);
+        long budget = memory ?? CommonOptions.DefaultMemory;
         var runner = PointRunners.Create(th, log);
         var outcome = new SweepExecutor(store, runner, log).Run(points, new SweepExecution(j, budget), ct);
         int code = Collect(dir, log, figures);
         if (outcome.Failed.Count > 0)
         {
-            foreach (var f in outcome.Failed) Console.Error.WriteLine($"point {f.Index} ({f.Point}) failed: {f.Message}");
+            foreach (var f in outcome.Failed) CliHost.Err.WriteLine($"point {f.Index} ({f.Point}) failed: {CliHost.OneLine(f.Message)}");
             return outcome.Failed.Any(f => f.Kind == "resource-limit") ? ExitCodes.ResourceLimit : ExitCodes.Internal;
         }
         return code;
@@ -193,7 +193,7 @@ internal static class SweepCommand
         var outcome = new SweepExecutor(store, runner, log).Run([points[index]], new SweepExecution(1, long.MaxValue), ct);
         if (outcome.Failed.Count > 0)
         {
-            Console.Error.WriteLine($"point {index} failed: {outcome.Failed[0].Message}");
+            CliHost.Err.WriteLine($"point {index} failed: {CliHost.OneLine(outcome.Failed[0].Message)}");
             return outcome.Failed[0].Kind == "resource-limit" ? ExitCodes.ResourceLimit : ExitCodes.Internal;
         }
         return ExitCodes.Ok;
@@ -203,9 +203,9 @@ internal static class SweepCommand
     {
         var points = plan.Expand();
         var store = new PointStore(dir);
-        int th = threads ?? Math.Max(1, Environment.ProcessorCount / Math.Max(1, jobs ?? Environment.ProcessorCount));
+        int th = Math.Max(1, CommonOptions.ThreadsOrDefault(threads) / Math.Max(1, jobs ?? Environment.ProcessorCount));
         var runner = PointRunners.Create(th, log);
-        Console.Out.WriteLine("index  id                state     memory     point");
+        CliHost.Out.WriteLine("index  id                state     memory     point");
         foreach (var p in points)
         {
             string state = File.Exists(store.PathOf(p.Id)) ? (store.TryRead(store.PathOf(p.Id), out _) is not null ? "done" : "corrupt") : "todo";
@@ -218,7 +218,7 @@ internal static class SweepCommand
             {
                 mem = "n/a: " + ex.Problem;
             }
-            Console.Out.WriteLine($"{p.Index,5}  {p.Id}  {state,-8}  {mem,-9}  {p}");
+            CliHost.Out.WriteLine($"{p.Index,5}  {p.Id}  {state,-8}  {mem,-9}  {p}");
         }
         return ExitCodes.Ok;
     }
@@ -238,22 +238,22 @@ internal static class SweepCommand
         if (!submit)
         {
             if (wait) throw new InputException("found --wait without --submit; expected --submit --wait");
-            Console.Out.WriteLine(script);
+            CliHost.Out.WriteLine(script);
             return ExitCodes.Ok;
         }
         string job = SlurmArray.Submit(script, log);
-        Console.Out.WriteLine(job);
+        CliHost.Out.WriteLine(job);
         if (!wait) return ExitCodes.Ok;
         if (!SlurmArray.Wait(job, TimeSpan.FromMinutes(waitMinutes), TimeSpan.FromSeconds(2), log, ct))
         {
-            Console.Error.WriteLine($"job {job} still running after {waitMinutes} minutes; collect later with: opgrowth collect {dir}");
+            CliHost.Err.WriteLine($"job {job} still running after {waitMinutes} minutes; collect later with: opgrowth collect {dir}");
             return ExitCodes.CheckFailed;
         }
         int code = Collect(dir, log, figures);
         int missing = points.Count(p => !File.Exists(store.PathOf(p.Id)));
         if (missing > 0)
         {
-            Console.Error.WriteLine($"{missing} of {points.Count} points have no result after job {job}; see the task logs in {Path.Combine(dir, "slurm")} and resubmit (finished points are skipped)");
+            CliHost.Err.WriteLine($"{missing} of {points.Count} points have no result after job {job}; see the task logs in {Path.Combine(dir, "slurm")} and resubmit (finished points are skipped)");
             return ExitCodes.CheckFailed;
         }
         return code;
@@ -277,7 +277,7 @@ internal static class SweepCommand
         var files = c.Write(dir).ToList();
         if (figures) files.AddRange(SweepFigures.Write(c, dir));
         log.LogInformation("wrote {Files}", string.Join(", ", files.Select(f => Path.GetRelativePath(dir, f))));
-        Console.Out.Write(c.Summary());
+        CliHost.Out.Write(c.Summary());
         return ExitCodes.Ok;
     }
 
@@ -289,7 +289,4 @@ internal static class SweepCommand
         if (host is null || Path.GetFileNameWithoutExtension(host).Equals("dotnet", StringComparison.OrdinalIgnoreCase)) return [host ?? "dotnet", dll];
         return [host];
     }
-
-    private static long ParseMemory(string text)
-        => SweepPlanReader.TryParseBytes(text, out long b) ? b : throw new InputException($"found --memory '{text}'; expected a size such as 16GiB, 512MiB or 2GB");
 }

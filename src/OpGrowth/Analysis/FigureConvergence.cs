@@ -1,7 +1,7 @@
 namespace OpGrowth.Analysis;
 
 /// <summary>
-/// How one derived figure moved across the convergence ladder. <see cref="Values"/> are ordered from
+/// How one derived figure moved across the budget series. <see cref="Values"/> are ordered from
 /// the full budget down (budget, budget/2, budget/4). The truncation uncertainty is the movement
 /// between the two largest budgets; a figure is converged when that movement is within the
 /// tolerance (relative) of its value.
@@ -16,7 +16,7 @@ public sealed record FigureConvergence
     /// <summary>|f(budget) - f(budget/2)|: the truncation uncertainty.</summary>
     public double? Movement { get; init; }
 
-    /// <summary>|f(budget/2) - f(budget/4)| when three rungs ran.</summary>
+    /// <summary>|f(budget/2) - f(budget/4)| when three budgets ran.</summary>
     public double? PreviousMovement { get; init; }
 
     /// <summary>Movement / |f(budget)|.</summary>

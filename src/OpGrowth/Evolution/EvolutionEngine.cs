@@ -7,7 +7,7 @@ using OpGrowth.Pauli;
 namespace OpGrowth.Evolution;
 
 /// <summary>
-/// One evolution run (one rung of the ladder) at a fixed key width. Every step is a sequence of
+/// One evolution run (one budget of the budget series) at a fixed key width. Every step is a sequence of
 /// passes over the operator (a commuting rotation group, a Liouvillian application), each followed
 /// by one fused compaction that applies the truncation rules and books the removed weight.
 /// All state that influences later numbers lives in <see cref="EngineState"/> and the operator
@@ -19,7 +19,7 @@ internal sealed class EvolutionEngine<T> where T : unmanaged, IPauliKey<T>
 
     private readonly EvolutionProblem _problem;
     private readonly EvolutionOptions _options;
-    private readonly RungBudget _budget;
+    private readonly SeriesBudget _budget;
     private readonly ulong _fingerprint;
     private readonly ILogger? _logger;
     private readonly int _n;
@@ -43,7 +43,7 @@ internal sealed class EvolutionEngine<T> where T : unmanaged, IPauliKey<T>
     private EngineState _state = new();
     private EvolutionSeries _series;
 
-    public EvolutionEngine(EvolutionProblem problem, EvolutionOptions options, RungBudget budget, ulong fingerprint, ILogger? logger, CancellationToken ct = default)
+    public EvolutionEngine(EvolutionProblem problem, EvolutionOptions options, SeriesBudget budget, ulong fingerprint, ILogger? logger, CancellationToken ct = default)
     {
         _problem = problem;
         _options = options;
@@ -140,10 +140,10 @@ internal sealed class EvolutionEngine<T> where T : unmanaged, IPauliKey<T>
     /// <summary>The current operator (for tests).</summary>
     public PauliOperator<T> Operator => _cur.ToOperator(_n);
 
-    private string CheckpointPath => Path.Combine(_options.CheckpointDirectory!, $"checkpoint-rung{_budget.Rung}.bin");
+    private string CheckpointPath => Path.Combine(_options.CheckpointDirectory!, $"checkpoint-budget{_budget.Index}.bin");
 
     /// <summary>Runs (or resumes) to the final time. Resource limits and cancellation end the run early with partial series.</summary>
-    public EvolutionSeries Run(int rungIndex, int rungCount, IProgress<EvolutionProgress>? progress, CancellationToken ct)
+    public EvolutionSeries Run(int runIndex, int runCount, IProgress<EvolutionProgress>? progress, CancellationToken ct)
     {
         var wall = Stopwatch.StartNew();
         double elapsedBefore = 0;
@@ -151,7 +151,7 @@ internal sealed class EvolutionEngine<T> where T : unmanaged, IPauliKey<T>
         {
             Load(CheckpointPath);
             elapsedBefore = _state.ElapsedSeconds;
-            _logger?.LogInformation("rung {Rung}: resumed from {Path} at step {Step} of {Total}", _budget.Rung, CheckpointPath, _state.Step, _totalSteps);
+            _logger?.LogInformation("budget {Budget}: resumed from {Path} at step {Step} of {Total}", _budget.Index + 1, CheckpointPath, _state.Step, _totalSteps);
         }
         else
         {
@@ -167,7 +167,15 @@ internal sealed class EvolutionEngine<T> where T : unmanaged, IPauliKey<T>
             while (_state.Step < _totalSteps)
             {
                 long next = Math.Min(_totalSteps, (_state.Step / recordEvery + 1) * recordEvery);
-                Advance((int)(next - _state.Step), rungIndex, rungCount, progress, wall, stepsAtStart, ct);
+                int steps = _state.SegmentSteps > 0 ? _state.SegmentSteps : (int)(next - _state.Step);
+                if (!Advance(steps, runIndex, runCount, progress, wall, stepsAtStart, ct))
+                {
+                    // Interrupted between two passes: the operator and the state agree there, so a checkpoint
+                    // taken now resumes bit-identically (the segment continues from the same pass).
+                    _state.ElapsedSeconds = elapsedBefore + wall.Elapsed.TotalSeconds;
+                    if (_options.CheckpointDirectory is not null) Save(CheckpointPath);
+                    throw new OperationCanceledException(ct);
+                }
                 Record();
                 _state.ElapsedSeconds = elapsedBefore + wall.Elapsed.TotalSeconds;
                 bool halt = _options.HaltAtStep is long h && _state.Step >= h;
@@ -184,7 +192,7 @@ internal sealed class EvolutionEngine<T> where T : unmanaged, IPauliKey<T>
         catch (ResourceLimitException ex)
         {
             _series.StopReason = ex.Message;
-            _logger?.LogWarning("rung {Rung}: stopped at t = {Time}: {Reason}", _budget.Rung, _state.Records[^1].Time, ex.Message);
+            _logger?.LogWarning("budget {Budget}: stopped at t = {Time}: {Reason}", _budget.Index + 1, _state.Records[^1].Time, ex.Message);
         }
         catch (OperationCanceledException)
         {
@@ -219,7 +227,7 @@ internal sealed class EvolutionEngine<T> where T : unmanaged, IPauliKey<T>
     /// <summary>Benchmark hook: advances <paramref name="steps"/> steps (one segment); returns the strings held.</summary>
     internal int Step(int steps, CancellationToken ct = default)
     {
-        Advance(steps, 0, 1, null, Stopwatch.StartNew(), _state.Step, ct);
+        if (!Advance(steps, 0, 1, null, Stopwatch.StartNew(), _state.Step, ct)) throw new OperationCanceledException(ct);
         return _cur.Count;
     }
 
@@ -234,10 +242,24 @@ internal sealed class EvolutionEngine<T> where T : unmanaged, IPauliKey<T>
     /// <summary>Bytes held by the engine's arrays now.</summary>
     internal long HeldBytes => TrackedBytes;
 
-    private void Advance(int steps, int rungIndex, int rungCount, IProgress<EvolutionProgress>? progress, Stopwatch wall, long stepsAtStart, CancellationToken ct)
+    /// <summary>
+    /// Advances one segment of <paramref name="steps"/> steps (between two records), pass by pass. Cancellation is
+    /// honoured between passes only, where the operator and the state agree: the position inside the segment is
+    /// kept in the state (and in a checkpoint), and a later call with the same segment continues from there.
+    /// Returns false when interrupted.
+    /// </summary>
+    private bool Advance(int steps, int runIndex, int runCount, IProgress<EvolutionProgress>? progress, Stopwatch wall, long stepsAtStart, CancellationToken ct)
     {
+        var stages = StagesFor(steps);
+        int first = 0;
         long step = _state.Step;
         double pending = 0;
+        if (_state.SegmentSteps == steps && _state.SegmentStage > 0)
+        {
+            first = _state.SegmentStage;
+            step += _state.SegmentClosed;
+            pending = _state.SegmentPending;
+        }
         void Close(int count)
         {
             for (int e = 0; e < count; e++)
@@ -250,56 +272,69 @@ internal sealed class EvolutionEngine<T> where T : unmanaged, IPauliKey<T>
                 if (progress is not null)
                 {
                     long done = step - stepsAtStart;
-                    TimeSpan? eta = done > 0 ? TimeSpan.FromSeconds(wall.Elapsed.TotalSeconds / done * (_totalSteps - step)) : null;
-                    progress.Report(new EvolutionProgress(rungIndex, rungCount, step, _totalSteps, step * _stepTime, _cur.Count, _state.DiscardedTotal, wall.Elapsed, eta));
+                    double left = done > 0 ? wall.Elapsed.TotalSeconds / done * (_totalSteps - step) : double.NaN;
+                    TimeSpan? eta = double.IsFinite(left) && left < TimeSpan.MaxValue.TotalSeconds / 2 ? TimeSpan.FromSeconds(left) : null;
+                    progress.Report(new EvolutionProgress(runIndex, runCount, step, _totalSteps, step * _stepTime, _cur.Count, _state.DiscardedTotal, wall.Elapsed, eta));
                 }
             }
         }
 
-        if (_floquet)
+        for (int i = first; i < stages.Count; i++)
         {
-            for (int s = 0; s < steps; s++)
+            if (ct.IsCancellationRequested)
             {
-                foreach (var st in _periodStages)
-                {
-                    if (st.Group >= 0) pending += ApplyGroup(st.Group, 1.0, 1.0, st.StepEnds > 0 ? Damping(1) : null, ct);
-                    else if (_budget.DampingRate > 0) pending += DampOnly(ct);
-                    Close(st.StepEnds);
-                }
+                _state.SegmentSteps = steps;
+                _state.SegmentStage = i;
+                _state.SegmentClosed = step - _state.Step;
+                _state.SegmentPending = pending;
+                return false;
             }
-        }
-        else if (_compiled is null)
-        {
-            if (!_segments.TryGetValue(steps, out var stages))
-            {
-                stages = SplittingSchedule.Segment(_options.Method, _groups.Count, steps);
-                _segments[steps] = stages;
-            }
-            if (_groups.Count == 0)
-            {
-                for (int s = 0; s < steps; s++)
-                {
-                    if (_budget.DampingRate > 0) pending += DampOnly(ct);
-                    Close(1);
-                }
-                _state.Step = step;
-                return;
-            }
-            foreach (var st in stages)
-            {
-                pending += ApplyGroup(st.Group, st.Fraction, _options.Dt, st.StepEnds > 0 ? Damping(st.StepEnds) : null, ct);
-                Close(st.StepEnds);
-            }
-        }
-        else
-        {
-            for (int s = 0; s < steps; s++)
-            {
-                pending += _options.Method == IntegrationMethod.Rk4 ? Rk4Step(ct) : TaylorStep(ct);
-                Close(1);
-            }
+            var st = stages[i];
+            pending += ApplyStage(st);
+            Close(st.StepEnds);
         }
         _state.Step = step;
+        _state.SegmentSteps = 0;
+        _state.SegmentStage = 0;
+        _state.SegmentClosed = 0;
+        _state.SegmentPending = 0;
+        return true;
+    }
+
+    /// <summary>Group index of a stage that is one whole RK4 or Taylor step.</summary>
+    private const int WholeStep = -2;
+
+    /// <summary>Group index of a stage that only applies the damping (no rotation).</summary>
+    private const int DampingOnly = -1;
+
+    /// <summary>The passes of a segment of <paramref name="steps"/> steps (cached per length).</summary>
+    private List<SplitStage> StagesFor(int steps)
+    {
+        if (_segments.TryGetValue(steps, out var stages)) return stages;
+        if (_floquet)
+        {
+            stages = [];
+            for (int s = 0; s < steps; s++) stages.AddRange(_periodStages);
+        }
+        else if (_compiled is not null) stages = Enumerable.Repeat(new SplitStage(WholeStep, 1, 1), steps).ToList();
+        else if (_groups.Count == 0) stages = Enumerable.Repeat(new SplitStage(DampingOnly, 0, 1), steps).ToList();
+        else stages = SplittingSchedule.Segment(_options.Method, _groups.Count, steps);
+        _segments[steps] = stages;
+        return stages;
+    }
+
+    /// <summary>Applies one pass (a rotation group, a damping-only pass, or a whole RK4/Taylor step); returns the weight it discarded.</summary>
+    private double ApplyStage(SplitStage st)
+    {
+        var none = CancellationToken.None;
+        if (st.Group >= 0)
+        {
+            return _floquet
+                ? ApplyGroup(st.Group, 1.0, 1.0, st.StepEnds > 0 ? Damping(1) : null, none)
+                : ApplyGroup(st.Group, st.Fraction, _options.Dt, st.StepEnds > 0 ? Damping(st.StepEnds) : null, none);
+        }
+        if (st.Group == DampingOnly) return _budget.DampingRate > 0 ? DampOnly(none) : 0;
+        return _options.Method == IntegrationMethod.Rk4 ? Rk4Step(none) : TaylorStep(none);
     }
 
     /// <summary>Emitted contributions per input string above which a group is split into twice as many sub-blocks.</summary>
@@ -453,6 +488,17 @@ internal sealed class EvolutionEngine<T> where T : unmanaged, IPauliKey<T>
         return ArrayBudget - _cur.AllocatedBytes - dest - _runner.BufferBytes - extraOperators;
     }
 
+    /// <summary>
+    /// Distinct strings one pass's image may hold per kept string when a string budget is set. A commuting group
+    /// whose generators mostly anticommute with a string (all-to-all couplings) maps it to up to 2^m strings; past
+    /// this many, the pass is applied in spatial parts instead (exact: the generators commute), so the transient
+    /// image, and with it the memory, stays proportional to --max-strings.
+    /// </summary>
+    internal const int ImagePerKeptString = 16;
+
+    /// <summary>Distinct strings allowed in one pass's image under the string budget (unlimited without one).</summary>
+    private long ImageCap() => _budget.MaxStrings is long m ? Math.Max(1L << 16, ImagePerKeptString * m) : long.MaxValue;
+
     /// <summary>One grouped-rotation pass plus compaction; returns the weight it discarded.</summary>
     private double RotationPass(RotationGroup<T> group, double[] cos, double[] sin, double[]? damping, CancellationToken ct, out long emitted, out bool capped)
     {
@@ -478,8 +524,10 @@ internal sealed class EvolutionEngine<T> where T : unmanaged, IPauliKey<T>
             acc.Clear();
             var flag = new int[1];
             var map = new GroupRotationMap<T>(group, cos, sin, prune, flag);
-            bool ok = _runner.Run(_cur.Keys, _cur.Coeffs, _cur.Count, map, acc, AccumulatorLimit(), ct, out emitted, flag);
-            if (flag[0] != 0 && group.Count > 1)
+            bool ok = _runner.Run(_cur.Keys, _cur.Coeffs, _cur.Count, map, acc, AccumulatorLimit(), ct, out emitted, flag, ImageCap());
+            // Too many branches for one string, or an image beyond the string budget's allowance or the memory budget:
+            // apply the group in parts (exact: its generators commute). Only a single generator falls back to pruning.
+            if (group.Count > 1 && (flag[0] != 0 || !ok))
             {
                 capped = true;
                 acc.Clear();
@@ -489,6 +537,8 @@ internal sealed class EvolutionEngine<T> where T : unmanaged, IPauliKey<T>
         }
         double before = prune > 0 ? _cur.NormSquared() : 0;
         var stats = CompactInto(acc, Rule(damping), _spare);
+        // Weight lost to branch pruning. It can be negative: a pruned branch may have cancelled part of a kept
+        // one. Booking it with its sign keeps ||O||^2 + discarded = 1 exact (the norm check of every report).
         double passLoss = prune > 0 ? before - (stats.KeptWeight + stats.DeletedWeight + stats.DampedWeight) : 0;
         Swap();
         AfterPass(stats);
@@ -727,7 +777,7 @@ internal sealed class EvolutionEngine<T> where T : unmanaged, IPauliKey<T>
     private const int FormatVersion = 1;
 
     /// <summary>
-    /// Binary checkpoint: magic "OPGCKPT1", int32 version, int32 key bytes, int32 N, int32 rung,
+    /// Binary checkpoint: magic "OPGCKPT1", int32 version, int32 key bytes, int32 N, int32 budget index,
     /// uint64 options fingerprint, int64 string count, int32 state length, the engine state as UTF-8
     /// JSON (doubles round-trip exactly), the raw key array, the raw coefficient array, and a uint64
     /// checksum of everything before it. Written atomically (temporary file, flush, rename).
@@ -741,7 +791,7 @@ internal sealed class EvolutionEngine<T> where T : unmanaged, IPauliKey<T>
         BitConverter.TryWriteBytes(header.AsSpan(8), FormatVersion);
         BitConverter.TryWriteBytes(header.AsSpan(12), Unsafe.SizeOf<T>());
         BitConverter.TryWriteBytes(header.AsSpan(16), _n);
-        BitConverter.TryWriteBytes(header.AsSpan(20), _budget.Rung);
+        BitConverter.TryWriteBytes(header.AsSpan(20), _budget.Index);
         BitConverter.TryWriteBytes(header.AsSpan(24), _fingerprint);
         BitConverter.TryWriteBytes(header.AsSpan(32), (long)_cur.Count);
         BitConverter.TryWriteBytes(header.AsSpan(40), stateJson.Length);
@@ -778,12 +828,12 @@ internal sealed class EvolutionEngine<T> where T : unmanaged, IPauliKey<T>
         if (version != FormatVersion) throw Bad(path, $"found format version {version}; expected {FormatVersion}");
         int keyBytes = BitConverter.ToInt32(header, 12);
         int n = BitConverter.ToInt32(header, 16);
-        int rung = BitConverter.ToInt32(header, 20);
+        int budgetIndex = BitConverter.ToInt32(header, 20);
         ulong fp = BitConverter.ToUInt64(header, 24);
         long count = BitConverter.ToInt64(header, 32);
         int stateLength = BitConverter.ToInt32(header, 40);
         if (keyBytes != Unsafe.SizeOf<T>() || n != _n) throw Bad(path, $"found a run on {n} qubits ({keyBytes}-byte keys); expected {_n} qubits");
-        if (rung != _budget.Rung) throw Bad(path, $"found ladder rung {rung}; expected {_budget.Rung}");
+        if (budgetIndex != _budget.Index) throw Bad(path, $"found budget {budgetIndex + 1} of a budget series; expected budget {_budget.Index + 1}");
         if (fp != _fingerprint) throw Bad(path, "found a run with different model or options; expected the same model and options as the interrupted run (or delete the checkpoint)");
         long expected = header.Length + (long)stateLength + count * (Unsafe.SizeOf<T>() + 8) + 8;
         if (count < 0 || count > Array.MaxLength || stateLength < 0 || fs.Length != expected) throw Bad(path, $"found {fs.Length} bytes; expected {expected} (truncated or damaged file)");
@@ -842,6 +892,18 @@ internal sealed class EngineState
     public long Passes { get; set; }
 
     public double ElapsedSeconds { get; set; }
+
+    /// <summary>Length (steps) of the segment in progress when the run was interrupted between two passes; 0 otherwise.</summary>
+    public int SegmentSteps { get; set; }
+
+    /// <summary>Passes of that segment already applied.</summary>
+    public int SegmentStage { get; set; }
+
+    /// <summary>Steps of that segment already closed.</summary>
+    public long SegmentClosed { get; set; }
+
+    /// <summary>Weight discarded in that segment since the last closed step.</summary>
+    public double SegmentPending { get; set; }
 
     public List<EvolutionRecord> Records { get; set; } = [];
 

@@ -21,8 +21,18 @@ public sealed record EvolutionOptions
     /// <summary>Worker threads.</summary>
     public int Threads { get; init; } = Environment.ProcessorCount;
 
-    /// <summary>Number of budgets in the convergence ladder (1: no ladder; 2 or 3: budget/2 and budget/4 reruns too).</summary>
-    public int LadderRungs { get; init; } = 1;
+    /// <summary>
+    /// Number of budgets in the budget series (1: only the given budget; 2 or 3: reruns at half and a quarter
+    /// of it too). How far each figure moves between the two largest budgets is its truncation uncertainty.
+    /// </summary>
+    public int BudgetCount { get; init; } = 1;
+
+    /// <summary>The former name of <see cref="BudgetCount"/> (kept for the diagnosis battery until it uses BudgetCount).</summary>
+    public int LadderRungs
+    {
+        get => BudgetCount;
+        init => BudgetCount = value;
+    }
 
     /// <summary>Relative movement of a derived figure between the two largest budgets above which it is flagged as not converged.</summary>
     public double ConvergenceTolerance { get; init; } = 0.05;
@@ -30,7 +40,7 @@ public sealed record EvolutionOptions
     /// <summary>Folder for checkpoints (null: no checkpoints).</summary>
     public string? CheckpointDirectory { get; init; }
 
-    /// <summary>Wall time between checkpoints (taken at record times; the end of a rung is always checkpointed).</summary>
+    /// <summary>Wall time between checkpoints (taken at record times; the end of each budget's run and an interruption are always checkpointed).</summary>
     public TimeSpan CheckpointInterval { get; init; } = TimeSpan.FromMinutes(5);
 
     /// <summary>Continue from the checkpoints in <see cref="CheckpointDirectory"/> when present.</summary>

@@ -2,7 +2,7 @@ using OpGrowth.Analysis;
 
 namespace OpGrowth.Evolution;
 
-/// <summary>The outcome of an evolution: every rung's series, the derived figures and their ladder convergence.</summary>
+/// <summary>The outcome of an evolution: the series of every budget, the derived figures and how they moved across budgets.</summary>
 public sealed class EvolutionResult
 {
     /// <summary>Model name.</summary>
@@ -29,16 +29,16 @@ public sealed class EvolutionResult
     /// <summary>Size measure(s) recorded.</summary>
     public required string SizeMeasure { get; init; }
 
-    /// <summary>Rungs of the ladder, full budget first (one rung without a ladder).</summary>
-    public required IReadOnlyList<EvolutionSeries> Rungs { get; init; }
+    /// <summary>One series per budget of the budget series, full budget first (one without a series).</summary>
+    public required IReadOnlyList<EvolutionSeries> Runs { get; init; }
 
-    /// <summary>Derived figures per rung, full budget first.</summary>
+    /// <summary>Derived figures per budget, full budget first.</summary>
     public required IReadOnlyList<ScramblingFigures> Figures { get; init; }
 
-    /// <summary>How each figure moved across the ladder (empty without a ladder).</summary>
+    /// <summary>How each figure moved across the budgets (empty with a single budget).</summary>
     public IReadOnlyList<FigureConvergence> Convergence { get; init; } = [];
 
-    /// <summary>True when every rung reached the final time.</summary>
+    /// <summary>True when the run at every budget reached the final time.</summary>
     public bool Completed { get; init; }
 
     /// <summary>Why the run stopped early, if it did.</summary>
@@ -50,9 +50,9 @@ public sealed class EvolutionResult
     /// <summary>What the truncation rules bias, in words.</summary>
     public IReadOnlyList<string> Notes { get; init; } = [];
 
-    /// <summary>Wall seconds of this session, all rungs.</summary>
+    /// <summary>Wall seconds of this session, all budgets.</summary>
     public double WallSeconds { get; init; }
 
-    /// <summary>The full-budget rung.</summary>
-    public EvolutionSeries Main => Rungs[0];
+    /// <summary>The run at the full budget.</summary>
+    public EvolutionSeries Main => Runs[0];
 }

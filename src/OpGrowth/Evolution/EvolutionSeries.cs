@@ -1,10 +1,10 @@
 namespace OpGrowth.Evolution;
 
-/// <summary>Everything one evolution run (one rung of the ladder) produced.</summary>
+/// <summary>Everything one evolution run (one budget of the budget series) produced.</summary>
 public sealed class EvolutionSeries
 {
     /// <summary>Budget used.</summary>
-    public required RungBudget Budget { get; init; }
+    public required SeriesBudget Budget { get; init; }
 
     /// <summary>Recorded observables in time order.</summary>
     public List<EvolutionRecord> Records { get; init; } = [];

@@ -27,6 +27,9 @@ internal sealed class PassRunner<T> where T : unmanaged, IPauliKey<T>
 
     private double _emitPerInput = 4;
 
+    /// <summary>Safety factor on the emissions per input when a pass runs under a byte limit (bounds the emit buffers' growth).</summary>
+    private const double EmissionSafety = 4;
+
     /// <summary>Contributions per input string in the last pass (sets the block size; checkpointed so a resumed run blocks the same way).</summary>
     public double EmitPerInput
     {
@@ -63,14 +66,15 @@ internal sealed class PassRunner<T> where T : unmanaged, IPauliKey<T>
 
     /// <summary>
     /// Accumulates map(source) into <paramref name="target"/>. Returns false, leaving the target
-    /// partially filled, when the target's arrays grow beyond <paramref name="byteLimit"/> bytes.
+    /// partially filled, when the target's arrays grow beyond <paramref name="byteLimit"/> bytes (the second
+    /// overload also stops when the target holds more distinct strings than its count limit).
     /// </summary>
     public bool Run<TMap>(T[] keys, double[] coeffs, int count, TMap map, PassAccumulator<T> target, long byteLimit, CancellationToken ct)
         where TMap : struct, IPauliMap<T>
         => Run(keys, coeffs, count, map, target, byteLimit, ct, out _);
 
     /// <summary>As above; <paramref name="emitted"/> counts the contributions emitted (independent of the thread count).</summary>
-    public bool Run<TMap>(T[] keys, double[] coeffs, int count, TMap map, PassAccumulator<T> target, long byteLimit, CancellationToken ct, out long emitted, int[]? stop = null)
+    public bool Run<TMap>(T[] keys, double[] coeffs, int count, TMap map, PassAccumulator<T> target, long byteLimit, CancellationToken ct, out long emitted, int[]? stop = null, long countLimit = long.MaxValue)
         where TMap : struct, IPauliMap<T>
     {
         emitted = 0;
@@ -85,14 +89,22 @@ internal sealed class PassRunner<T> where T : unmanaged, IPauliKey<T>
         // overshoot the byte limit by much (the limit is checked between blocks).
         long perEntry = Unsafe.SizeOf<PassAccumulator<T>.Entry>() + 16;
         long byBytes = Math.Max(1024, byteLimit / 4 / perEntry);
-        int blockSize = (int)Math.Clamp(Math.Min(TargetBlockEmissions, byBytes) / Math.Max(1.0, _emitPerInput), 1024, 1 << 16);
-        for (int b0 = 0; b0 < count; b0 += blockSize, block++)
+        // The emissions per input of this pass are known only afterwards; a young operator can emit several times
+        // more than the last pass did, so under a byte limit the block is planned for four times the estimate.
+        double perInput = Math.Max(1.0, _emitPerInput) * (byteLimit < long.MaxValue / 2 ? EmissionSafety : 1);
+        int blockSize = (int)Math.Clamp(Math.Min(TargetBlockEmissions, byBytes) / perInput, 1024, 1 << 16);
+        // Each thread's buffer holds at most its share of the memory budget; a block that would emit more is
+        // redone in halves (block boundaries do not change any result: contributions merge in input order).
+        long entryCap = Math.Max(2L * GroupRotationMap<T>.StringEmissionCap, MemoryBudget.BufferReservePerThread / (2 * Unsafe.SizeOf<EmitBuffer<T>.Entry>()));
+        var overflow = new int[1];
+        for (int b0 = 0; b0 < count; block++)
         {
             ct.ThrowIfCancellationRequested();
             int b1 = Math.Min(count, b0 + blockSize);
+            overflow[0] = 0;
             if (threads == 1 || b1 - b0 < 1024)
             {
-                Produce(keys, coeffs, b0, b1, map, _buffers[0], stop);
+                Produce(keys, coeffs, b0, b1, map, _buffers[0], stop, entryCap, overflow);
                 for (int t = 1; t < threads; t++) Array.Clear(_buffers[t].Counts);
             }
             else
@@ -103,17 +115,23 @@ internal sealed class PassRunner<T> where T : unmanaged, IPauliKey<T>
                 {
                     int s = start + (int)((long)len * t / threads);
                     int e = start + (int)((long)len * (t + 1) / threads);
-                    Produce(keys, coeffs, s, e, map, buffers[t], stop);
+                    Produce(keys, coeffs, s, e, map, buffers[t], stop, entryCap, overflow);
                 });
             }
             if (stop is not null && Volatile.Read(ref stop[0]) != 0) return false;
+            if (overflow[0] != 0 && b1 - b0 > 1)
+            {
+                blockSize = Math.Max(1, (b1 - b0) / 2);
+                continue;
+            }
             for (int t = 0; t < threads; t++)
             {
                 var counts = _buffers[t].Counts;
                 for (int p = 0; p < counts.Length; p++) emitted += counts[p];
             }
             Merge(target, threads, options);
-            if (block % checkEvery == 0 && target.AllocatedBytes > byteLimit) return false;
+            if (block % checkEvery == 0 && (target.AllocatedBytes > byteLimit || target.Count > countLimit)) return false;
+            b0 = b1;
         }
         _emitPerInput = Math.Max(1.0, emitted / (double)count);
         return true;
@@ -127,15 +145,29 @@ internal sealed class PassRunner<T> where T : unmanaged, IPauliKey<T>
     }
 
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
-    private static void Produce<TMap>(T[] keys, double[] coeffs, int start, int end, TMap map, EmitBuffer<T> sink, int[]? stop)
+    private static void Produce<TMap>(T[] keys, double[] coeffs, int start, int end, TMap map, EmitBuffer<T> sink, int[]? stop, long entryCap, int[] overflow)
         where TMap : struct, IPauliMap<T>
     {
         Array.Clear(sink.Counts);
         for (int i = start; i < end; i++)
         {
             map.Apply(keys[i], coeffs[i], sink);
-            if (stop is not null && (i & 63) == 0 && Volatile.Read(ref stop[0]) != 0) return;
+            if ((i & 15) != 0) continue;
+            if (stop is not null && Volatile.Read(ref stop[0]) != 0) return;
+            if (Volatile.Read(ref overflow[0]) != 0) return;
+            if (i > start && Emitted(sink) > entryCap)
+            {
+                Volatile.Write(ref overflow[0], 1);
+                return;
+            }
         }
+    }
+
+    private static long Emitted(EmitBuffer<T> sink)
+    {
+        long n = 0;
+        foreach (int c in sink.Counts) n += c;
+        return n;
     }
 
     private void Merge(PassAccumulator<T> target, int threads, ParallelOptions options)

@@ -610,9 +610,13 @@ public static class ExactOtoc
     {
         int nt = times.Length;
         bool dense = method == OtocMethod.Dense;
+        // A mean over a few random states: its error bar is a Student-t interval (samples - 1 degrees of freedom),
+        // not a Gaussian one, so it covers the stated probability (68.3%, the Gaussian one-sigma coverage).
+        // Source: W. S. Gosset ("Student"), Biometrika 6, 1 (1908).
+        double tFactor = samples > 1 ? TypicalityInterval.Factor(samples) : 1;
         string errorKind = dense ? "none (exact trace)"
-            : samples > 1 ? $"standard error over {samples} random states"
-            : "a-priori Haar estimate sqrt((1 - F^2)/(d + 1)) from one random state";
+            : samples > 1 ? FormattableString.Invariant($"half-width of the {100 * TypicalityInterval.Coverage:0}% Student-t interval over {samples} random states ({samples - 1} degrees of freedom: {tFactor:0.###} standard errors)")
+            : "a-priori Haar estimate sqrt((1 - F^2)/(d + 1)) from one random state (one standard deviation)";
         if (!dense && samples == 1 && o.Beta > 0) notes.Add("With one random state at beta > 0 the a-priori error assumes an effective dimension d; it underestimates the error when few levels carry the thermal weight.");
 
         (double[] Mean, double[] Err, double[][] PerSample) Reduce(List<double>[] perSample)
@@ -625,7 +629,7 @@ public static class ExactOtoc
                 double m = rows.Average(r => r[k]);
                 mean[k] = m;
                 if (dense) err[k] = 0;
-                else if (samples > 1) err[k] = Math.Sqrt(rows.Sum(r => (r[k] - m) * (r[k] - m)) / (samples - 1) / samples);
+                else if (samples > 1) err[k] = tFactor * Math.Sqrt(rows.Sum(r => (r[k] - m) * (r[k] - m)) / (samples - 1) / samples);
                 else err[k] = Math.Sqrt(Math.Max(0, 1 - m * m) / (acc.RandomDimension + 1.0));
             }
             return (mean, err, rows);

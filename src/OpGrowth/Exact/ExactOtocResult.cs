@@ -2,9 +2,10 @@ namespace OpGrowth.Exact;
 
 /// <summary>
 /// Result of an exact OTOC run: all series share <see cref="Times"/>. F(t) = Tr(W(t) V W(t) V)/2^N at
-/// beta = 0, the regularised OTOC at beta &gt; 0. Typicality values carry the standard error over random
-/// states (or, with one sample, the a-priori Haar estimate sqrt((1 - F^2)/(d + 1)), d = dimension of the
-/// random part); dense values carry zero error.
+/// beta = 0, the regularised OTOC at beta &gt; 0. Typicality values carry the half-width of the 68% Student-t
+/// interval over the random states (<see cref="TypicalityInterval"/>; or, with one sample, the a-priori Haar
+/// estimate sqrt((1 - F^2)/(d + 1)), d = dimension of the random part); dense values carry zero error.
+/// <see cref="ErrorKind"/> says which, with the number of states and the coverage.
 /// </summary>
 public sealed record ExactOtocResult
 {

@@ -10,12 +10,13 @@ namespace OpGrowth.IO;
 /// </summary>
 public static class AtomicFile
 {
-    /// <summary>JSON settings shared by every result file: indented, camelCase, non-finite numbers as strings.</summary>
+    /// <summary>JSON settings shared by every result file: indented, camelCase keys, non-finite numbers as null (<see cref="NonFiniteAsNull"/>).</summary>
     public static readonly JsonSerializerOptions Json = new()
     {
         WriteIndented = true,
         PropertyNamingPolicy = JsonNamingPolicy.CamelCase,
-        NumberHandling = System.Text.Json.Serialization.JsonNumberHandling.AllowNamedFloatingPointLiterals,
+        DictionaryKeyPolicy = null,
+        Converters = { new NonFiniteAsNull() },
     };
 
     /// <summary>Writes bytes atomically.</summary>

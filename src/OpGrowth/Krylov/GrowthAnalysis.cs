@@ -25,6 +25,13 @@ public sealed record GrowthAnalysis
     /// </summary>
     public double LyapunovBound => 2 * Alpha;
 
+    /// <summary>
+    /// True when the bound 2 alpha says something: the best class grows linearly (linear or n/ln n) and the
+    /// slope is positive. For sqrt n or bounded growth the slope tends to 0 (no exponential growth to bound),
+    /// and a negative slope bounds nothing.
+    /// </summary>
+    public bool BoundApplies => Best.Class is GrowthClass.Linear or GrowthClass.LinearOverLog && Alpha > 0;
+
     /// <summary>First n of the fit window.</summary>
     public required int WindowStart { get; init; }
 
@@ -33,5 +40,8 @@ public sealed record GrowthAnalysis
 
     /// <summary>One line for summaries.</summary>
     public string Summary => FormattableString.Invariant(
-        $"best growth class {Best.Class} ({Best.Formula}, rms residual {Best.RmsResidual:G3}, delta AIC to next {DeltaAic:F1}) over n = {WindowStart}..{WindowEnd}; linear slope alpha = {Alpha:G5} +- {AlphaError:G2}, so lambda_L <= 2 alpha = {LyapunovBound:G5}");
+        $"best growth class {GrowthClassNames.Of(Best.Class)} ({Best.Formula}, rms residual {Best.RmsResidual:G3}, delta AIC to the next class {DeltaAic:F1}) over n = {WindowStart}..{WindowEnd}; linear slope alpha = {Reporting.NumberFormat.ValueWithUncertainty(Alpha, AlphaError)}")
+        + (BoundApplies
+            ? $", so lambda_L <= 2 alpha = {Reporting.NumberFormat.ValueWithUncertainty(LyapunovBound, 2 * AlphaError)}"
+            : $"; no bound on lambda_L from it ({(Alpha > 0 ? "the best class does not grow linearly" : "the slope is not positive")})");
 }

@@ -39,14 +39,16 @@ public sealed record GrowthFit
     /// <summary>Number of fitted parameters.</summary>
     public int Parameters => Class == GrowthClass.Bounded ? 1 : 2;
 
-    /// <summary>The fitted form, e.g. "b_n = 0.4012 n + 1.23".</summary>
+    /// <summary>The fitted form with four significant digits, e.g. "b_n = 0.4012 n + 1.23" or "b_n = 1.505 n/ln(n) - 0.9379".</summary>
     public string Formula => Class switch
     {
-        GrowthClass.Linear => FormattableString.Invariant($"b_n = {A:G6} n + {C:G6}"),
-        GrowthClass.LinearOverLog => FormattableString.Invariant($"b_n = {A:G6} n/ln(n) + {C:G6}"),
-        GrowthClass.SquareRoot => FormattableString.Invariant($"b_n = {A:G6} sqrt(n) + {C:G6}"),
-        _ => FormattableString.Invariant($"b_n = {C:G6}"),
+        GrowthClass.Linear => FormattableString.Invariant($"b_n = {A:G4} n") + Offset(C),
+        GrowthClass.LinearOverLog => FormattableString.Invariant($"b_n = {A:G4} n/ln(n)") + Offset(C),
+        GrowthClass.SquareRoot => FormattableString.Invariant($"b_n = {A:G4} sqrt(n)") + Offset(C),
+        _ => FormattableString.Invariant($"b_n = {C:G4}"),
     };
+
+    private static string Offset(double c) => c < 0 ? FormattableString.Invariant($" - {-c:G4}") : FormattableString.Invariant($" + {c:G4}");
 
     /// <summary>Evaluates the fitted form at n (n &gt;= 2 for the n/ln n class).</summary>
     public double Evaluate(double n) => A * Basis(Class, n) + C;

@@ -23,9 +23,10 @@ public static class KrylovChain
     /// Evolves with b(n) (n &gt;= 1) and returns C(t), K(t) at the given non-negative, ascending times. If the
     /// chain would exceed <paramref name="maxChain"/> sites or the work (chain sites times Chebyshev terms,
     /// summed over steps) would exceed <paramref name="maxWork"/>, it stops and returns the times completed,
-    /// with <see cref="KrylovChainResult.Limit"/> saying why.
+    /// with <see cref="KrylovChainResult.Limit"/> saying why. <paramref name="tailFrom"/>: also record the weight
+    /// sum_{n &gt;= tailFrom} phi_n^2 at each time (the part of the wave that only couplings b_n, n &gt;= tailFrom, let through).
     /// </summary>
-    public static KrylovChainResult Evolve(Func<int, double> b, IReadOnlyList<double> times, int maxChain = 2_000_000, long maxWork = 20_000_000_000)
+    public static KrylovChainResult Evolve(Func<int, double> b, IReadOnlyList<double> times, int maxChain = 2_000_000, long maxWork = 20_000_000_000, int? tailFrom = null)
     {
         ArgumentNullException.ThrowIfNull(b);
         ArgumentNullException.ThrowIfNull(times);
@@ -53,6 +54,7 @@ public static class KrylovChain
         double t = 0;
         var c = new double[times.Count];
         var k = new double[times.Count];
+        var tail = new double[times.Count];
         double normErr = 0;
         int maxLen = 1;
         double[] w0 = [], w1 = [], acc = [];
@@ -129,13 +131,15 @@ public static class KrylovChain
             }
             if (limit is not null) break;
             t = times[i];
-            double norm = 0, kc = 0;
+            double norm = 0, kc = 0, tw = 0;
             for (int n = 0; n < len; n++)
             {
                 double p2 = phi[n] * phi[n];
                 norm += p2;
                 kc += n * p2;
+                if (n >= tailFrom) tw += p2;
             }
+            tail[i] = tw;
             c[i] = phi[0];
             k[i] = kc;
             normErr = Math.Max(normErr, Math.Abs(norm - 1));
@@ -146,6 +150,7 @@ public static class KrylovChain
             Times = times.Take(done).ToArray(),
             Autocorrelation = c.Take(done).ToArray(),
             Complexity = k.Take(done).ToArray(),
+            TailWeight = tailFrom is null ? null : tail.Take(done).ToArray(),
             ChainLength = maxLen,
             NormError = normErr,
             Limit = limit,

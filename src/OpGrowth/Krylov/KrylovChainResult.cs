@@ -12,6 +12,9 @@ public sealed record KrylovChainResult
     /// <summary>Krylov complexity K(t) = sum_n n phi_n(t)^2.</summary>
     public required IReadOnlyList<double> Complexity { get; init; }
 
+    /// <summary>Weight sum_{n &gt;= tailFrom} phi_n(t)^2 at each time, when asked for (see <see cref="KrylovChain.Evolve"/>).</summary>
+    public IReadOnlyList<double>? TailWeight { get; init; }
+
     /// <summary>Largest chain index the wave function reached (beyond it every phi_n is below 1e-20).</summary>
     public required int ChainLength { get; init; }
 

@@ -43,7 +43,7 @@ public static class KrylovDynamics
         ArgumentNullException.ThrowIfNull(fit);
         int start = continuationStart ?? b.Count + 1;
         int alt = Math.Max(2, start - Math.Max(1, sensitivityShift));
-        var main = KrylovChain.Evolve(Continue(b, fit, start), times, maxChain, maxWork);
+        var main = KrylovChain.Evolve(Continue(b, fit, start), times, maxChain, maxWork, tailFrom: start);
         var other = KrylovChain.Evolve(Continue(b, fit, alt), times, maxChain, maxWork);
         double dc = 0, dk = 0;
         int common = Math.Min(main.Times.Count, other.Times.Count);
@@ -52,8 +52,14 @@ public static class KrylovDynamics
             dc = Math.Max(dc, Math.Abs(main.Autocorrelation[i] - other.Autocorrelation[i]));
             dk = Math.Max(dk, Math.Abs(main.Complexity[i] - other.Complexity[i]) / Math.Max(main.Complexity[i], 1));
         }
+        double? reach = null;
+        for (int i = 0; i < main.Times.Count && reach is null; i++)
+        {
+            if (main.TailWeight![i] > KrylovDynamicsResult.ContinuationWeight) reach = main.Times[i];
+        }
         return new KrylovDynamicsResult
         {
+            ContinuationTime = reach,
             Main = main,
             Alternative = other,
             ContinuationStart = start,

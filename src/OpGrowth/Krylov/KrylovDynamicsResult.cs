@@ -12,6 +12,15 @@ public sealed record KrylovDynamicsResult
     /// <summary>First n taken from the fitted form (computed b_n are used below it).</summary>
     public required int ContinuationStart { get; init; }
 
+    /// <summary>
+    /// Weight on Krylov sites n &gt;= <see cref="ContinuationStart"/> (reachable only through fitted couplings) above
+    /// which C(t) and K(t) count as coming from the continuation: 1e-3 (common practice).
+    /// </summary>
+    public const double ContinuationWeight = 1e-3;
+
+    /// <summary>First time at which the weight beyond the computed coefficients exceeds <see cref="ContinuationWeight"/> (null: never within the times).</summary>
+    public double? ContinuationTime { get; init; }
+
     /// <summary>The earlier start used for the sensitivity check.</summary>
     public required int SensitivityStart { get; init; }
 
@@ -28,5 +37,5 @@ public sealed record KrylovDynamicsResult
     public string Summary => Continuation is null
         ? "no continuation"
         : FormattableString.Invariant(
-            $"b_n for n >= {ContinuationStart} from {Continuation.Formula}; starting it at n = {SensitivityStart} instead changes C(t) by at most {MaxAutocorrelationChange:G3} and K(t) by at most {MaxRelativeComplexityChange:P2} (relative) over t = 0..{Main.Times[^1]:G4}");
+            $"b_n for n >= {ContinuationStart} from {Continuation.Formula}{(ContinuationTime is double tc ? $"; C(t) and K(t) rest on it from t = {tc:G3} on" : "")}; starting it at n = {SensitivityStart} instead changes C(t) by at most {MaxAutocorrelationChange:G3} and K(t) by at most {MaxRelativeComplexityChange:P2} (relative) over t = 0..{Main.Times[^1]:G4}");
 }

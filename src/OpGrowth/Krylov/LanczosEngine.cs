@@ -59,6 +59,7 @@ internal static class LanczosEngine
         double coupling = 0;            // b~_{n-1}
         double accBytesPerString = 48;  // prior until measured: (key + value) / load 0.35..0.7 = 34..69 B for N <= 64
         double growth = 8;              // prior growth ratio of string count per step until measured
+        double workDone = 0;            // commutator products formed so far (for StopAtProducts)
         var stop = LanczosStopReason.DepthReached;
         string stopMessage = $"all {opt.Depth} coefficients computed";
 
@@ -73,9 +74,22 @@ internal static class LanczosEngine
             var sw = Stopwatch.StartNew();
             var cpu0 = Process.GetCurrentProcess().TotalProcessorTime;
             long predicted = (long)Math.Ceiling(cur.Count * growth * 1.1);
+            if (opt.MaxStrings == 0 && opt.StopAtStrings > 0 && n > 1 && predicted > opt.StopAtStrings)
+            {
+                stop = LanczosStopReason.StringLimit;
+                stopMessage = FormattableString.Invariant($"string limit: step {n} would hold about {predicted:N0} strings, above the limit of {opt.StopAtStrings:N0}");
+                break;
+            }
             // The map driver's emit buffers: one block of inputs times the products per input (sampled),
             // with up to 2x slack from doubling, plus their initial streams.
             double products = ProductsPerInput(basis, cur);
+            if (opt.MaxStrings == 0 && opt.StopAtProducts > 0 && n > 1 && workDone + cur.Count * products > opt.StopAtProducts)
+            {
+                stop = LanczosStopReason.StringLimit;
+                stopMessage = FormattableString.Invariant($"work limit: step {n} would bring the commutator products to about {Reporting.NumberFormat.Number(workDone + cur.Count * products, 3)} ({cur.Count:N0} strings times {products:F0} terms each), above the limit of {Reporting.NumberFormat.Number(opt.StopAtProducts, 3)} for the run");
+                break;
+            }
+            workDone += cur.Count * products;
             long emitAllowance = ((long)opt.Threads * opt.Threads * 1024 + PauliMapper.BufferedEmissionsBound(cur.Count, products) * 2) * entryBytes;
             long held = cur.AllocatedBytes + (prev?.AllocatedBytes ?? 0) + kept.Sum(v => v.Bytes) + emitAllowance;
             long predictedBytes = held + (long)(predicted * (accBytesPerString + perString));
@@ -199,7 +213,7 @@ internal static class LanczosEngine
                 OrthogonalityLoss = orthLoss,
             };
             steps.Add(step);
-            log?.LogInformation("lanczos step {N}: b = {B:F10}, {Strings:N0} strings ({Before:N0} before truncation), discarded {W:G3}, {Sec:F2} s ({Cpu:F1} s CPU), {Mem} accounted, {Managed} managed",
+            log?.LogDebug("lanczos step {N}: b = {B:F10}, {Strings:N0} strings ({Before:N0} before truncation), discarded {W:G3}, {Sec:F2} s ({Cpu:F1} s CPU), {Mem} accounted, {Managed} managed",
                 n, bn, a.Count, before, discarded, step.Seconds, step.CpuSeconds, Gib(accounted), Gib(managed));
             onStep?.Invoke(step, a);
         }

@@ -17,6 +17,20 @@ public sealed record LanczosOptions
     /// <summary>Keep at most this many strings per Krylov vector (largest |c| first); 0 = no truncation (exact).</summary>
     public long MaxStrings { get; init; }
 
+    /// <summary>
+    /// Without truncation (<see cref="MaxStrings"/> = 0): stop, keeping the coefficients so far, before a step whose
+    /// Krylov vector is predicted to exceed this many strings (0 = no limit). Bounds time and memory of an exact run.
+    /// </summary>
+    public long StopAtStrings { get; init; }
+
+    /// <summary>
+    /// Without truncation: also stop before a step that would bring the commutator products of the whole run
+    /// (strings of each vector times the terms each one meets, summed over the steps) above this (0 = no limit).
+    /// Bounds the time of an exact run on a Hamiltonian with many terms, where a vector of few strings already
+    /// costs a lot.
+    /// </summary>
+    public long StopAtProducts { get; init; }
+
     /// <summary>Re-orthogonalization against earlier (kept, possibly truncated) Krylov vectors.</summary>
     public Reorthogonalization Reorthogonalize { get; init; } = Reorthogonalization.None;
 
@@ -44,6 +58,8 @@ public sealed record LanczosOptions
         ArgumentOutOfRangeException.ThrowIfLessThan(Depth, 1, nameof(Depth));
         ArgumentOutOfRangeException.ThrowIfLessThan(MemoryBudgetBytes, 1L << 20, nameof(MemoryBudgetBytes));
         ArgumentOutOfRangeException.ThrowIfNegative(MaxStrings, nameof(MaxStrings));
+        ArgumentOutOfRangeException.ThrowIfNegative(StopAtStrings, nameof(StopAtStrings));
+        ArgumentOutOfRangeException.ThrowIfNegative(StopAtProducts, nameof(StopAtProducts));
         ArgumentOutOfRangeException.ThrowIfLessThan(ReorthogonalizationWindow, 1, nameof(ReorthogonalizationWindow));
         ArgumentOutOfRangeException.ThrowIfLessThan(Threads, 1, nameof(Threads));
         ArgumentOutOfRangeException.ThrowIfNegative(ClosureTolerance, nameof(ClosureTolerance));

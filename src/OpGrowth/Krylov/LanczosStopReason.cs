@@ -17,4 +17,7 @@ public enum LanczosStopReason
 
     /// <summary>The operator outgrew the representable window (translation-canonical mode).</summary>
     WindowExceeded,
+
+    /// <summary>The next Krylov vector would hold more strings than <see cref="LanczosOptions.StopAtStrings"/> allows (no truncation); the coefficients so far are kept.</summary>
+    StringLimit,
 }

@@ -131,7 +131,8 @@ public static partial class ModelLoader
                 if (periodNode is not null)
                 {
                     period = ReadNumber(periodNode, "period");
-                    if (!(period > 0)) throw Err(periodNode.Line, $"found period = {Fmt(period)}; expected a positive duration");
+                    // Times are counted in periods, but the report states them in time units: keep them representable.
+                    if (!(period >= 1e-9 && period <= 1e9)) throw Err(periodNode.Line, $"found period = {Fmt(period)}; expected a positive duration from 1e-9 to 1e9 (time is in units of 1/energy)");
                 }
                 drive = ReadDrive(layerNode!, _root.KeyLine("layer"), period);
                 var avg = new List<PauliTerm>();
@@ -410,27 +411,42 @@ public static partial class ModelLoader
                 _ => ["kind", "sites", "edges"],
             };
             CheckKeys(t, keys, $"a {kind} [lattice]");
-            int max = PauliString.MaxQubits;
+            // The widest Pauli key of the engines: a larger model could be built but never run (and an all-to-all one
+            // of that size takes seconds and gigabytes to build), so it is refused here, before any work.
+            int max = Pauli.PauliWidth.MaxQubits;
             int Need(string key, int maxValue)
             {
                 var n = t.Get(key) ?? throw Err(t.Line, $"found a {kind} lattice without '{key}'; expected {key} = a whole number or a parameter name such as \"N\"");
                 return (int)ReadWhole(n, $"lattice {key}", 1, maxValue);
             }
             bool periodic = t.Get("periodic") is { } pn && ReadBool(pn, "lattice periodic");
+            // A wrap-around bond needs at least 3 sites along that direction (else it doubles an existing bond): refuse rather than drop it.
+            int TooShort(string key, int value, string what)
+                => throw Err(t.Get("periodic")!.Line, $"found periodic = true with {key} = {value}; expected at least 3 {what} for periodic boundaries (with fewer the wrap-around bond would repeat an existing one), or periodic = false");
             switch (kind)
             {
                 case "chain":
-                    return Lattice.Chain(Need("sites", max), periodic);
+                {
+                    int n = Need("sites", max);
+                    if (periodic && n < 3) TooShort("sites", n, "sites");
+                    return Lattice.Chain(n, periodic);
+                }
                 case "ring":
                     return Lattice.Chain(Need("sites", max), true);
                 case "all-to-all":
-                    return Lattice.AllToAll(Need("sites", 2048));
+                    return Lattice.AllToAll(Need("sites", max));
                 case "ladder":
-                    return Lattice.Ladder(Need("length", max / 2), periodic);
+                {
+                    int length = Need("length", max / 2);
+                    if (periodic && length < 3) TooShort("length", length, "rungs");
+                    return Lattice.Ladder(length, periodic);
+                }
                 case "square":
                 {
                     int w = Need("width", max), h = Need("height", max);
                     if ((long)w * h > max) throw Err(t.Line, $"found a {w}x{h} square lattice ({(long)w * h} sites); expected at most {max} sites");
+                    if (periodic && (w < 3 || h < 3))
+                        throw Err(t.Get("periodic")!.Line, $"found periodic = true on a {w}x{h} square; expected width and height of at least 3 for periodic boundaries (with fewer the wrap-around bond would repeat an existing one; a periodic 2 x L strip is kind = \"ladder\"), or periodic = false");
                     return Lattice.Square(w, h, periodic);
                 }
                 default:
@@ -977,8 +993,9 @@ public static partial class ModelLoader
                     : [PauliString.Single(n, _lattice.Center, 'Z')];
             }
             var items = new List<(string Text, int Line)>();
-            if (node is TomlScalar { Value: string one }) items.Add((one, node.Line));
-            else if (node is TomlList { IsTableArray: false } list && list.Items.Count > 0)
+            if (node is TomlScalar { Value: string one })
+                throw Err(node.Line, $"found the string \"{TomlScalar.Shorten(one)}\" for probes; expected an array of strings such as probes = [\"{TomlScalar.Shorten(one)}\"]");
+            if (node is TomlList { IsTableArray: false } list && list.Items.Count > 0)
             {
                 foreach (var item in list.Items)
                 {

@@ -78,7 +78,7 @@ public sealed class ModelSummary
         if (m.SourceFile is null) w.WriteNull("file");
         else w.WriteString("file", m.SourceFile);
         w.WriteNumber("qubits", m.N);
-        w.WriteString("size_measure", m.SizeMeasure == SizeMeasure.Majoranas ? "majoranas" : "qubits");
+        w.WriteString("sizeMeasure", m.SizeMeasure == SizeMeasure.Majoranas ? "majoranas" : "qubits");
         w.WriteNumber("majoranas", m.MajoranaCount);
         w.WriteStartObject("lattice");
         w.WriteString("kind", m.Lattice.Kind);
@@ -90,14 +90,14 @@ public sealed class ModelSummary
         w.WriteNumber("diameter", m.Lattice.Diameter);
         w.WriteEndObject();
         w.WriteStartObject("parameters");
-        foreach (var p in m.Parameters) w.WriteNumber(p.Key, p.Value);
+        foreach (var p in m.Parameters) Number(w, p.Key, p.Value);
         w.WriteEndObject();
         w.WriteNumber("terms", Terms);
         w.WriteNumber("locality", Locality);
-        w.WriteNumber("majorana_locality", MajoranaLocality);
-        w.WriteNumber("norm_squared", NormSquared);
-        w.WriteNumber("norm_squared_per_site", NormSquaredPerSite);
-        w.WriteNumber("norm_per_site", NormPerSite);
+        w.WriteNumber("majoranaLocality", MajoranaLocality);
+        Number(w, "normSquared", NormSquared);
+        Number(w, "normSquaredPerSite", NormSquaredPerSite);
+        Number(w, "normPerSite", NormPerSite);
         w.WriteStartArray("symmetries");
         foreach (var s in m.Symmetries) w.WriteStringValue(s);
         w.WriteEndArray();
@@ -105,14 +105,14 @@ public sealed class ModelSummary
         w.WriteStartArray("seeds");
         foreach (var s in m.Seeds) w.WriteNumberValue(s);
         w.WriteEndArray();
-        w.WriteBoolean("translation_invariant", m.IsTranslationInvariant);
+        w.WriteBoolean("translationInvariant", m.IsTranslationInvariant);
         w.WriteStartArray("probes");
         foreach (var p in m.Probes) w.WriteStringValue(p.ToString());
         w.WriteEndArray();
         if (m.Drive is { } d)
         {
             w.WriteStartObject("drive");
-            w.WriteNumber("period", d.Period);
+            Number(w, "period", d.Period);
             w.WriteStartArray("layers");
             foreach (var l in d.Layers) w.WriteNumberValue(l.Count);
             w.WriteEndArray();
@@ -121,6 +121,13 @@ public sealed class ModelSummary
         }
         else w.WriteNull("drive");
         w.WriteEndObject();
+    }
+
+    /// <summary>A number, or null when it is not finite (JSON has no NaN or infinity).</summary>
+    private static void Number(Utf8JsonWriter w, string name, double value)
+    {
+        if (double.IsFinite(value)) w.WriteNumber(name, value);
+        else w.WriteNull(name);
     }
 
     /// <summary>The JSON object as an indented string.</summary>

@@ -83,6 +83,9 @@ internal sealed class TomlTableNode : TomlNode
 /// </summary>
 internal static class TomlTree
 {
+    /// <summary>Deepest nesting of tables and dotted keys the TOML reader accepts.</summary>
+    private const int MaxNesting = 64;
+
     public static TomlTableNode Parse(string text, string file)
     {
         TomlParser parser;
@@ -103,6 +106,18 @@ internal static class TomlTree
             int nl = msg.IndexOfAny(['\r', '\n']);
             if (nl >= 0) msg = msg[..nl];
             msg = msg.Trim().TrimEnd('.');
+            if (msg.Contains("maximum depth", StringComparison.OrdinalIgnoreCase))
+            {
+                // The parser's nesting limit: name the line (the deepest dotted header or key) and leave the parser's own setting out.
+                var lines = text.Split('\n');
+                int deepest = 0, at = 0;
+                for (int i = 0; i < lines.Length; i++)
+                {
+                    int dots = lines[i].Count(c => c == '.');
+                    if (dots > deepest) (deepest, at) = (dots, i + 1);
+                }
+                throw new InputException(file, ex.Line ?? at, $"found a table or key nested {deepest + 1} levels deep; expected at most {MaxNesting} levels (a model file needs only [lattice], [parameters], [[term]] and [[layer]])");
+            }
             throw new InputException(file, ex.Line ?? 0, $"found a TOML syntax error ({msg}); expected valid TOML 1.1 (key = value lines, [table] and [[table]] headers)");
         }
         catch (InvalidOperationException ex)

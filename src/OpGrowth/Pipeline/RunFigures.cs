@@ -1,3 +1,5 @@
+using OpGrowth.Evolution;
+using OpGrowth.Krylov;
 using OpGrowth.Reporting;
 
 namespace OpGrowth.Pipeline;
@@ -5,7 +7,11 @@ namespace OpGrowth.Pipeline;
 /// <summary>The report's figures from a run's results (each only when its stage produced data).</summary>
 public static class RunFigures
 {
-    /// <summary>All figures: size distribution, mean size, light cone, b_n, Krylov complexity, Pauli vs exact.</summary>
+    /// <summary>
+    /// All figures: size distribution, mean size (with the 3N/8 level and the smaller budgets), discarded weight,
+    /// light cone, b_n, Krylov complexity (the part resting on the fitted continuation marked), Pauli vs exact
+    /// (C(t) and OTOCs F_j(t)), and t*(N) when a sweep ran.
+    /// </summary>
     public static List<FigureImage> All(ScramblingRunResult r)
     {
         var list = new List<FigureImage>();
@@ -22,22 +28,24 @@ public static class RunFigures
                 for (int k = 0; k <= n && k < recs[i].SizeDistribution.Length; k++) w[k, i] = recs[i].SizeDistribution[k];
             list.Add(Charts.SizeDistribution(new SizeDistributionSeries(times, w) { MeanSize = mean }, size));
 
-            var ladder = evo.Rungs.Skip(1).Select(s => new LadderCurve(s.Budget.MaxStrings ?? 0, s.Records.Select(x => x.Time).ToArray(), s.Records.Select(x => x.MeanSize).ToArray())).ToList();
+            var smaller = evo.Runs.Skip(1).Select(s => new BudgetCurve(s.Budget.MaxStrings ?? 0, s.Records.Select(x => x.Time).ToArray(), s.Records.Select(x => x.MeanSize).ToArray())).ToList();
             var ts = fig.ScramblingTime;
-            var tsHeadline = r.Headlines.FirstOrDefault(h => h.Name == "scrambling time t*");
+            var tsHeadline = r.Headlines.FirstOrDefault(h => h.Name == EvolutionHeadlines.ScramblingTime);
             list.Add(Charts.MeanSize(new MeanSizeSeries(times, mean, fig.Growth.SaturationExpected)
             {
                 ScramblingTime = tsHeadline?.Value,
                 ScramblingLevel = ts.Target,
-                Ladder = ladder,
+                Budgets = smaller,
                 Budget = evo.Main.Budget.MaxStrings,
             }, size));
+
+            if (DiscardedWeight(evo) is { } discarded) list.Add(discarded);
 
             var rho = new double[n, times.Length];
             for (int i = 0; i < times.Length; i++)
                 for (int j = 0; j < n; j++) rho[j, i] = recs[i].SiteWeights[j];
             FrontFit? front = null;
-            if (fig.Butterfly?.Primary is { Velocity: double v, Intercept: double c } p && r.Headlines.FirstOrDefault(h => h.Name == "butterfly velocity v_B") is { } vb)
+            if (fig.Butterfly?.Primary is { Velocity: double, Intercept: double c } p && r.Headlines.FirstOrDefault(h => h.Name == EvolutionHeadlines.ButterflyVelocity) is { } vb)
                 front = new FrontFit(vb.Value, c, p.Threshold);
             list.Add(Charts.LightCone(new LightConeMap(times, Enumerable.Range(0, n).Select(j => (double)j).ToArray(), rho)
             {
@@ -53,31 +61,83 @@ public static class RunFigures
             if (r.Krylov?.Growth is { } g)
             {
                 double[] ns = Enumerable.Range(g.WindowStart, g.WindowEnd - g.WindowStart + 1).Select(x => (double)x).ToArray();
-                curve = new GrowthCurve(g.Best.Class.ToString(), ns, ns.Select(x => g.Best.Evaluate(x)).ToArray())
+                curve = new GrowthCurve(GrowthClassNames.Of(g.Best.Class), ns, ns.Select(x => g.Best.Evaluate(x)).ToArray())
                 {
-                    Rate = r.Headlines.FirstOrDefault(h => h.Name == "Lanczos slope alpha")?.Value,
+                    Rate = r.Headlines.FirstOrDefault(h => h.Name == RunReport.LanczosSlope)?.Value,
                 };
             }
             list.Add(Charts.Lanczos(new LanczosSeries(lz.B.ToArray()) { Spread = lz.Uncertainty.Select(u => double.IsNaN(u) ? 0 : u).ToArray(), Fit = curve }, size));
             if (r.Krylov?.Chain is { } chain)
-                list.Add(Charts.Krylov(new KrylovSeries(chain.Times.ToArray(), chain.Complexity.ToArray(), chain.Autocorrelation.ToArray()), size));
-        }
-        if (r.CrossCheck is { Ran: true } x && x.Times.Length > 1)
-        {
-            list.Add(Charts.PauliVersusExact(new OverlaySeries(x.Times, x.PauliAutocorrelation, x.ExactAutocorrelation, $"autocorrelation C(t), N = {x.N}")
             {
-                Tolerance = x.Tolerance,
-                LogDifference = true,
-            }, size));
+                list.Add(Charts.Krylov(new KrylovSeries(chain.Times.ToArray(), chain.Complexity.ToArray(), chain.Autocorrelation.ToArray())
+                {
+                    ContinuationTime = r.Krylov.Dynamics?.ContinuationTime,
+                    ContinuationStart = r.Krylov.Dynamics?.ContinuationStart,
+                }, size));
+            }
         }
+        if (r.CrossCheck is { Ran: true } x && x.Times.Length > 1) list.Add(PauliVersusExact(x, size));
         if (r.Sweep?.Series is { } series && TStarSeries(series) is { } tsSeries)
         {
             string caption = series.Comparison?.Verdict is { } v
                 ? $"t* at each N with its total uncertainty and both fits; {v}."
                 : $"t* at each N with its total uncertainty; {series.Note ?? "too few sizes for the fits"}.";
-            list.Add(Charts.ScramblingTime(tsSeries, size, "tstar-scaling", $"t*(N): {r.Model.Name}, probe {series.Probe}", caption));
+            list.Add(Charts.ScramblingTime(tsSeries, size, "tstar-scaling", $"t*(N): {r.Model.Name}, {RunReport.SweepProbeText(r)}", caption));
         }
         return list;
+    }
+
+    /// <summary>Cumulative discarded weight against time for every budget of the series (null when nothing was discarded).</summary>
+    public static FigureImage? DiscardedWeight(EvolutionResult evo, FigureSize? size = null)
+    {
+        ArgumentNullException.ThrowIfNull(evo);
+        if (EvolutionHeadlines.Untruncated(evo)) return null;
+        var series = evo.Runs.Select((s, i) => new LineSeries(
+            s.Budget.MaxStrings is long m ? $"budget {NumberFormat.Count(m)} strings" : $"budget {i + 1}",
+            s.Records.Select(x => x.Time).ToArray(), s.Records.Select(x => x.DiscardedTotal).ToArray())
+        { Slot = i == 0 ? 0 : i + 2 }).ToList();
+        return Charts.Lines(new LineChartSpec("discarded-weight", "Discarded weight",
+            $"Weight removed by truncation up to each time (sum of the squared coefficients dropped), one line per string budget; in total {EvolutionHeadlines.DiscardedText(evo)}.",
+            AxisText.Time, "discarded weight (log scale)", series) { LogY = true }, size ?? FigureSize.Report);
+    }
+
+    /// <summary>
+    /// Pauli engine against the exact engine: C(t) and the OTOCs F_j(t) against Z_j at the probe's nearest, middle
+    /// and farthest sites (top), and the largest |difference| over every site, X/Y/Z and C at each time (bottom).
+    /// </summary>
+    public static FigureImage PauliVersusExact(CrossCheck x, FigureSize? size = null)
+    {
+        ArgumentNullException.ThrowIfNull(x);
+        var curves = new List<OverlayCurve>();
+        var sites = x.Sites.OrderBy(s => s.Site).ToList();
+        if (sites.Count > 0)
+        {
+            foreach (int j in new[] { sites[0].Site, sites[sites.Count / 2].Site, sites[^1].Site }.Distinct())
+            {
+                var s = sites.First(q => q.Site == j);
+                curves.Add(new OverlayCurve($"F_{j}(t) vs Z_{j}", s.PauliZ, s.ExactZ));
+            }
+        }
+        var worst = new double[x.Times.Length];
+        for (int i = 0; i < worst.Length; i++)
+        {
+            double d = Math.Abs(x.PauliAutocorrelation[i] - x.ExactAutocorrelation[i]);
+            foreach (var s in sites)
+            {
+                d = Math.Max(d, Math.Abs(s.PauliX[i] - s.ExactX[i]));
+                d = Math.Max(d, Math.Abs(s.PauliY[i] - s.ExactY[i]));
+                d = Math.Max(d, Math.Abs(s.PauliZ[i] - s.ExactZ[i]));
+            }
+            worst[i] = d;
+        }
+        return Charts.PauliVersusExact(new OverlaySeries(x.Times, x.PauliAutocorrelation, x.ExactAutocorrelation, $"C(t), N = {x.N}")
+        {
+            Tolerance = x.Tolerance,
+            LogDifference = true,
+            Curves = curves,
+            Difference = worst,
+            DifferenceLabel = "largest |Pauli - exact| over C and every F_j (X, Y, Z)",
+        }, size ?? FigureSize.Report);
     }
 
     /// <summary>The t*(N) points of a sweep series with both fitted laws (null with fewer than two sizes that reached t*).</summary>

@@ -1,6 +1,7 @@
 using System.Diagnostics;
 using System.Globalization;
 using OpGrowth.Analysis;
+using OpGrowth.Evolution;
 using OpGrowth.IO;
 using OpGrowth.Krylov;
 using OpGrowth.Reporting;
@@ -23,76 +24,33 @@ public static class RunReport
         "timingsSeconds", "files",
     ];
 
-    private static double Q(double? a, double? b) => Math.Sqrt(Sq(a) + Sq(b));
+    /// <summary>Headline names of the Lanczos figures.</summary>
+    public const string LanczosSlope = "Lanczos slope alpha";
+    public const string LyapunovBound = "bound on lambda_L (2 alpha)";
 
-    private static double Sq(double? x) => x is double v && double.IsFinite(v) ? v * v : 0;
-
-    private static FitWindow? Win(double? a, double? b, string v = "t")
-        => a is double x && b is double y && double.IsFinite(x) && double.IsFinite(y) && y >= x ? new FitWindow(x, y, v) : null;
-
-    /// <summary>Headline figures: v_B (1D) or size growth rate, t*, saturation, Lanczos alpha and 2 alpha, exact agreement.</summary>
+    /// <summary>
+    /// Headline figures, each stated once: v_B (chains) or the size growth rate, t*, the saturation (from the
+    /// evolution, see <see cref="EvolutionHeadlines"/>), the Lanczos slope alpha and, when the b_n grow linearly,
+    /// the bound lambda_L &lt;= 2 alpha. The diagnosis battery's own estimates are labelled in its section.
+    /// </summary>
     public static List<HeadlineFigure> Headlines(ScramblingRunResult r)
     {
         var list = new List<HeadlineFigure>();
-        var evo = r.Evolution;
-        if (evo is not null && evo.Figures.Count > 0)
-        {
-            var fig = evo.Figures[0];
-            FigureConvergence? C(string name) => evo.Convergence.FirstOrDefault(c => c.Figure == name);
-            bool Conv(string name) => C(name)?.Converged ?? false;
-            string? Note(string name) => C(name) is { } c ? c.Note : "no convergence ladder for this figure";
-            if (fig.Butterfly?.Primary is { Velocity: double v } p)
-            {
-                var c = C("butterflyVelocity");
-                list.Add(new HeadlineFigure("butterfly velocity v_B",
-                    new Measured(v, Q(p.VelocityError, c?.Movement), FormattableString.Invariant($"front r(t) at site weight >= {p.Threshold:0.###}, distances {p.MinDistance}..{p.MaxDistance}; uncertainty = fit error and ladder movement in quadrature"),
-                        Win(p.WindowStart, p.WindowEnd), "sites/time"), Conv("butterflyVelocity")) { Note = Note("butterflyVelocity") });
-            }
-            else
-            {
-                var g = fig.Growth;
-                bool expo = g.Regime.Contains("exp", StringComparison.OrdinalIgnoreCase);
-                var (fit, key, label) = expo && g.SizeExponential.Rate is not null
-                    ? (g.SizeExponential, "sizeGrowthRateExponential", "size growth rate lambda (n ~ e^{lambda t})")
-                    : (g.SizeLinear, "sizeGrowthRateLinear", "size growth rate dn/dt");
-                if (fit.Rate is double rate)
-                {
-                    list.Add(new HeadlineFigure(label,
-                        new Measured(rate, Q(fit.RateError, C(key)?.Movement), $"fit of the mean size ({g.Regime}); uncertainty = fit error and ladder movement in quadrature",
-                            Win(fit.WindowStart, fit.WindowEnd), "1/time"), Conv(key)) { Note = Note(key) });
-                }
-            }
-            var ts = fig.ScramblingTime;
-            if (ts.Value is double tv)
-            {
-                list.Add(new HeadlineFigure("scrambling time t*",
-                    new Measured(tv, Q(ts.GridUncertainty, C("scramblingTime")?.Movement), $"{ts.Definition}; uncertainty = time grid and ladder movement in quadrature", null, "time"),
-                    Conv("scramblingTime")) { Note = Note("scramblingTime") });
-            }
-            var gr = fig.Growth;
-            if (gr.Saturation is double s)
-            {
-                list.Add(new HeadlineFigure("saturation mean size",
-                    new Measured(s, Q(gr.SaturationSpread, C("saturationMeanSize")?.Movement),
-                        FormattableString.Invariant($"late-time mean size; a random operator has {gr.SaturationExpected:0.###} (3N/4), ratio {gr.SaturationRatio ?? double.NaN:0.###}"),
-                        gr.SaturationWindowStart is double w0 ? Win(w0, evo.Main.Records[^1].Time) : null, "sites"), Conv("saturationMeanSize")) { Note = Note("saturationMeanSize") });
-            }
-        }
+        if (r.Evolution is { } evo) list.AddRange(EvolutionHeadlines.Of(evo));
         if (r.Krylov?.Growth is { } lg && r.Lanczos is { } lz)
         {
             bool conv = LanczosConverged(lz, lg.WindowStart, lg.WindowEnd);
             var w = new FitWindow(lg.WindowStart, lg.WindowEnd, "n");
-            list.Add(new HeadlineFigure("Lanczos slope alpha",
-                new Measured(lg.Alpha, lg.AlphaError, $"linear slope of b_n; best growth class {lg.Best.Class} ({lg.Best.Formula})", w), conv)
-            { Note = conv ? null : "b_n in the window moved by more than 5% between string budgets" });
-            list.Add(new HeadlineFigure("bound on lambda_L (2 alpha)",
-                new Measured(lg.LyapunovBound, 2 * lg.AlphaError, "lambda_L <= 2 alpha from the b_n slope", w, "1/time"), conv));
-        }
-        if (r.CrossCheck is { Ran: true } x)
-        {
-            list.Add(new HeadlineFigure("Pauli vs exact agreement",
-                Measured.Exact(Math.Max(x.MaxOtocDifference, x.MaxAutocorrelationDifference),
-                    $"max |Delta F| and |Delta C| over times, sites and X/Y/Z at N = {x.N} (tolerance {x.Tolerance.ToString("G3", Inv)})"), x.Passed));
+            string note = "b_n in the fit window moved by more than 5% between string budgets";
+            list.Add(new HeadlineFigure(LanczosSlope,
+                new Measured(lg.Alpha, lg.AlphaError, $"slope of a straight line through b_n; best growth class {GrowthClassNames.Of(lg.Best.Class)} ({lg.Best.Formula})", w), conv)
+            { Note = conv ? null : note });
+            if (lg.BoundApplies)
+            {
+                list.Add(new HeadlineFigure(LyapunovBound,
+                    new Measured(lg.LyapunovBound, 2 * lg.AlphaError, "lambda_L <= 2 alpha at infinite temperature (Parker et al., PRX 9, 041017 (2019))", w, "1/time"), conv)
+                { Note = conv ? null : note });
+            }
         }
         return list;
     }
@@ -113,7 +71,7 @@ public static class RunReport
     {
         var headlines = Headlines(r);
         r = r with { Verdict = Decide(r) };
-        var verdicts = Verdicts(r);
+        var verdicts = Verdicts(r, headlines);
         var checks = Checks(r);
         var cautions = Cautions(r);
         var doc = new ReportDocument($"Scrambling report: {r.Model.Name}")
@@ -128,7 +86,7 @@ public static class RunReport
            .AddModel("probe", r.Problem.Initial[0].String.ToString())
            .AddModel("parameters", string.Join(", ", r.Model.Parameters.Select(kv => $"{kv.Key} = {kv.Value.ToString("G6", Inv)}")))
            .AddModel("symmetries", r.Model.Symmetries.Count == 0 ? "none declared" : string.Join(", ", r.Model.Symmetries))
-           .AddModel("effort", $"{r.Options.Effort.ToString().ToLowerInvariant()}: t = {r.EvolutionOptions.Time.ToString(Inv)}, dt = {r.EvolutionOptions.Dt.ToString(Inv)}, {r.EvolutionOptions.LadderRungs} ladder rung(s) from {r.Preset.MaxStrings:N0} strings, Lanczos depth {r.Preset.LanczosDepth}")
+           .AddModel("effort", $"{r.Options.Effort.ToString().ToLowerInvariant()}: t = {NumberFormat.Number(r.EvolutionOptions.Time, 4)}{(r.Model.IsDriven ? "" : $", dt = {NumberFormat.Number(r.EvolutionOptions.Dt, 4)}")}, budget series of {r.EvolutionOptions.BudgetCount} from {r.Preset.MaxStrings:N0} strings, Lanczos depth {r.Preset.LanczosDepth}")
            .AddModel("status", r.Completed ? "completed" : $"stopped early ({r.StopReason}); finished stages are reported");
         foreach (var h in headlines) doc.Headlines.Add(h);
         foreach (var v in verdicts) doc.Verdicts.Add(v);
@@ -137,6 +95,7 @@ public static class RunReport
         foreach (var c in cautions) doc.Cautions.Add(c);
         foreach (var f in RunFigures.All(r with { Headlines = headlines })) doc.Figures.Add(f);
         foreach (var d in dataFiles) doc.DataFiles.Add(new DataFileEntry(d, Describe(d)));
+        doc.DataFiles.Add(new DataFileEntry(ReportWriter.JsonFileName, "the report's own content (headlines, verdicts, checks, tables) as JSON"));
         doc.DataFiles.Add(new DataFileEntry(ResultsFileName, "every headline figure, window, uncertainty, option and seed"));
         doc.DataFiles.Add(new DataFileEntry(ManifestWriter.FileName, "tool version, model file SHA-256, options, seeds, threads, timings, file hashes"));
 
@@ -170,17 +129,8 @@ public static class RunReport
         return withReport;
     }
 
-    private static string Describe(string path) => Path.GetFileName(path) switch
+    private static string Describe(string path) => DataFiles.Descriptions.TryGetValue(Path.GetFileName(path), out var d) ? d : Path.GetFileName(path) switch
     {
-        "evolution.csv" => "per record: strings, norm, discarded weight, autocorrelation, mean size, front distance",
-        "size_distribution.csv" => "size distribution P_k(t), one column per size k",
-        "site_weights.csv" => "site weights rho_j(t) (OTOC light cone: 1 - F averaged over X, Y, Z = 4/3 rho_j)",
-        "ladder.csv" => "mean size for every string budget of the convergence ladder",
-        "lanczos.csv" => "Lanczos coefficients b_n with their spread across budgets",
-        "krylov.csv" => "autocorrelation C(t) and Krylov complexity K(t) from the b_n",
-        "cross_check.csv" => "autocorrelation from the Pauli engine and the exact engine at small N",
-        "diagnosis.json" => "the diagnosis battery's full report: verdict per test, figures, thresholds, sources, data, settings",
-        "diagnosis.txt" => "the diagnosis battery's verdict table as text",
         "table.csv" => "t*(N) sweep: one row per point (t*, its errors, engine, discarded weight)",
         "table.json" => "t*(N) sweep: the same table as JSON",
         "averages.csv" => "t*(N) sweep: per size (seed averages)",
@@ -190,67 +140,95 @@ public static class RunReport
         _ => "data",
     };
 
+    /// <summary>A number rounded to <paramref name="digits"/> significant digits (for check figures: no more digits than they mean).</summary>
+    private static double Sig(double v, int digits = 2)
+    {
+        if (v == 0 || !double.IsFinite(v)) return v;
+        double scale = Math.Pow(10, Math.Floor(Math.Log10(Math.Abs(v))) - digits + 1);
+        return Math.Round(v / scale) * scale;
+    }
+
     private static string Summary(ScramblingRunResult r, List<HeadlineFigure> h)
     {
         var parts = new List<string>();
-        if (r.Verdict is { } verdict)
-            parts.Add($"Verdict: {verdict.Outcome}" + (verdict.Mechanism == "-" ? "" : $" (leading mechanism: {verdict.Mechanism})") + $", from the {verdict.Source}.");
+        if (r.Verdict is { } verdict) parts.Add(VerdictText(verdict) + ".");
         var evo = r.Evolution;
-        if (evo is not null && evo.Figures.Count > 0)
+        if (evo is not null && evo.Figures.Count > 0 && evo.Main.Records.Count > 0)
         {
             var g = evo.Figures[0].Growth;
             var ts = evo.Figures[0].ScramblingTime;
-            parts.Add(ts.Value is double tv
-                ? FormattableString.Invariant($"The operator's mean size reaches 3N/8 at t* = {tv:0.##} and ")
-                : FormattableString.Invariant($"The operator's mean size does not reach 3N/8 = {ts.Target:0.##} within t = {evo.Main.Records[^1].Time:0.##}, and ")
-                );
-            parts[^1] += g.SaturationRatio is double sr ? FormattableString.Invariant($"saturates at {sr:0.##} of the random-operator value 3N/4.") : "has not saturated by the end of the run.";
+            string first = ts.Value is double tv
+                ? FormattableString.Invariant($"The operator's mean size reaches 3N/8 at t* = {NumberFormat.Number(tv, 3)} and ")
+                : FormattableString.Invariant($"The operator's mean size does not reach 3N/8 = {NumberFormat.Number(ts.Target, 3)} by t = {NumberFormat.Number(evo.Main.Records[^1].Time, 3)}, and ");
+            parts.Add(first + (g.SaturationRatio is double sr ? FormattableString.Invariant($"saturates at {NumberFormat.Number(sr, 2)} of the random-operator value 3N/4.") : "has not saturated by the end of the run."));
+            parts.Add($"Discarded weight: {EvolutionHeadlines.DiscardedText(evo)}.");
         }
-        foreach (var x in h.Where(x => x.Name.StartsWith("butterfly", StringComparison.Ordinal) || x.Name.StartsWith("size growth", StringComparison.Ordinal)))
-            parts.Add($"{x.Name}: {x.Value.FormatValue()}.");
-        if (r.Krylov?.Growth is { } lg) parts.Add($"The Lanczos coefficients fit best as class {lg.Best.Class}.");
+        foreach (var x in h.Where(x => x.Name == EvolutionHeadlines.ButterflyVelocity || x.Name.StartsWith("size growth", StringComparison.Ordinal)))
+            parts.Add($"{char.ToUpperInvariant(x.Name[0])}{x.Name[1..]}: {x.Value.FormatValue()}.");
+        if (r.Krylov?.Growth is { } lg) parts.Add($"The Lanczos coefficients grow best as {GrowthClassNames.Of(lg.Best.Class)} ({lg.Best.Formula}).");
         if (r.CrossCheck is { } c) parts.Add(c.Ran ? (c.Passed ? $"The Pauli engine agrees with the exact engine at N = {c.N}." : $"The Pauli engine DISAGREES with the exact engine at N = {c.N}.") : "The exact cross-check was skipped: " + c.SkipReason + ".");
         if (r.Sweep?.Series?.Comparison is { } cmp) parts.Add($"t*(N) over N = {string.Join(", ", r.Sweep.Series.Data.Select(d => d.N))}: {cmp.Verdict}.");
         int nc = h.Count(x => !x.Converged);
-        if (nc > 0) parts.Add($"{nc} headline figure(s) are not converged under the ladder; treat them as estimates.");
+        if (nc > 0) parts.Add($"{nc} headline figure(s) are not converged across the budget series; treat them as estimates.");
         return string.Join(" ", parts);
     }
 
-    private static List<VerdictRow> Verdicts(ScramblingRunResult r)
+    /// <summary>"Verdict: scrambles, from the diagnosis battery" or "Verdict: does not scramble (leading mechanism: localized), from ...".</summary>
+    public static string VerdictText(RunVerdict v)
+        => $"Verdict: {v.Outcome}" + (v.Mechanism == "-" ? "" : $" (leading mechanism: {v.Mechanism})") + $", from the {v.Source}";
+
+    /// <summary>
+    /// What to do when the evolution ends before the operator saturates. A longer truncated run helps only while
+    /// little weight has been discarded; beyond that it measures the truncation, and a t*(N) sweep at smaller N
+    /// (exact there) or the exact engine answers the question (the same advice as the README).
+    /// </summary>
+    public static string LongerRunAdvice(EvolutionResult evo)
+    {
+        ArgumentNullException.ThrowIfNull(evo);
+        double discarded = evo.Main.Records.Count > 0 ? evo.Main.Records[^1].DiscardedTotal : 0;
+        return discarded <= 0.1
+            ? $"a longer run (--time) can follow it further: only {NumberFormat.Number(discarded, 2)} of the weight has been discarded so far"
+            : $"a longer run at this budget would measure the truncation (already {NumberFormat.Number(discarded, 2)} of the weight discarded): use a t*(N) sweep at smaller N (e.g. --sweep 8,10,12, exact engine there) or 'opgrowth exact'";
+    }
+
+    private static List<VerdictRow> Verdicts(ScramblingRunResult r, List<HeadlineFigure> headlines)
     {
         var list = new List<VerdictRow>();
         var evo = r.Evolution;
-        if (evo is not null && evo.Figures.Count > 0)
+        if (evo is not null && evo.Figures.Count > 0 && evo.Main.Records.Count > 0)
         {
             var fig = evo.Figures[0];
             var g = fig.Growth;
+            double end = evo.Main.Records[^1].Time;
             double last = evo.Main.Records[^1].MeanSize;
             double ratio = g.SaturationRatio ?? last / g.SaturationExpected;
             string verdict = g.Saturation is not null && ratio >= 0.9 ? "scrambles" : fig.ScramblingTime.Value is not null ? "spreading (not yet saturated)" : "inconclusive";
             list.Add(new VerdictRow("operator spreads to a random operator",
-                Measured.Exact(ratio, g.Saturation is not null ? "saturation mean size / (3N/4)" : "final mean size / (3N/4)"),
+                Measured.Exact(Sig(ratio, 3), g.Saturation is not null ? "saturation mean size / (3N/4)" : $"mean size / (3N/4) at t = {NumberFormat.Number(end, 3)}"),
                 ">= 0.9 of 3N/4 at late times", verdict,
-                g.Saturation is not null ? $"the mean size settles at {ratio.ToString("0.###", Inv)} of a random operator's" : $"no plateau within t = {evo.Main.Records[^1].Time.ToString("0.##", Inv)}; run longer (--effort thorough) to see saturation"));
-            if (fig.Butterfly?.Primary is { Velocity: double v } p)
+                g.Saturation is not null ? $"the mean size settles at {NumberFormat.Number(ratio, 3)} of a random operator's" : $"no plateau by t = {NumberFormat.Number(end, 3)}; {LongerRunAdvice(evo)}"));
+            if (headlines.FirstOrDefault(x => x.Name == EvolutionHeadlines.ButterflyVelocity) is { } vb)
             {
-                double err = p.VelocityError ?? double.NaN;
-                bool finite = !double.IsNaN(err) && v > 2 * err;
-                list.Add(new VerdictRow("ballistic operator front", new Measured(v, double.IsNaN(err) ? double.NaN : err, "fitted front velocity", Win(p.WindowStart, p.WindowEnd), "sites/time"),
-                    "v_B > 2 sigma", finite ? "yes" : "inconclusive", finite ? "the front moves at a finite speed" : "the velocity is not resolved from zero"));
+                double v = vb.Value.Value, err = vb.Value.Uncertainty;
+                bool finite = double.IsFinite(err) && v > 2 * err;
+                list.Add(new VerdictRow("ballistic operator front", vb.Value, "v_B > 2 standard errors", finite ? "yes" : "inconclusive",
+                    finite ? "the front moves at a finite speed (the headline v_B)" : "the velocity is not resolved from zero"));
             }
-            list.Add(new VerdictRow("growth regime of the mean size", Measured.Exact(g.SizeLinear.Rate ?? double.NaN, "linear growth rate dn/dt"), "regime of the best fit", g.Regime, g.RegimeReason));
+            list.Add(new VerdictRow("growth regime of the mean size",
+                g.SizeLinear.Rate is double lr ? new Measured(lr, g.SizeLinear.RateError ?? double.NaN, "slope of the mean size", Win(g.SizeLinear.WindowStart, g.SizeLinear.WindowEnd), "sites/time") : Measured.Exact(double.NaN, "slope of the mean size"),
+                "regime of the best fit", g.Regime, g.RegimeReason));
         }
-        if (r.Krylov?.Growth is { } lg)
+        if (r.Krylov?.Growth is { } lg && headlines.FirstOrDefault(x => x.Name == LanczosSlope) is { } alpha)
         {
-            string cls = lg.Best.Class.ToString();
             string meaning = lg.Best.Class switch
             {
                 GrowthClass.Linear or GrowthClass.LinearOverLog => "consistent with chaos (linear growth, with a log correction in 1D)",
                 GrowthClass.SquareRoot => "points to interacting integrable dynamics",
                 _ => "points to free (quadratic) dynamics",
             };
-            list.Add(new VerdictRow("Lanczos growth class", new Measured(lg.Alpha, lg.AlphaError, "linear slope alpha", new FitWindow(lg.WindowStart, lg.WindowEnd, "n")),
-                "best AIC among linear, n/ln n, sqrt n, bounded", cls, $"{meaning}; delta AIC to the next class {lg.DeltaAic.ToString("0.#", Inv)}"));
+            list.Add(new VerdictRow("Lanczos growth class", alpha.Value,
+                "best AIC among linear, n-over-log-n, sqrt, bounded", GrowthClassNames.Of(lg.Best.Class),
+                $"{meaning}; AIC of the next class higher by {NumberFormat.Number(lg.DeltaAic, 2)}"));
         }
         if (r.Diagnosis is { } d)
         {
@@ -270,8 +248,8 @@ public static class RunReport
         if (r.Options.SweepSizes.Count > 0)
         {
             if (r.Sweep?.Series is { Comparison: { } cmp } series)
-                list.Add(new VerdictRow("t*(N) scaling", Measured.Exact(cmp.DeltaAic, "Delta AIC = AIC(a + N/v) - AIC(a + b ln N); positive favours ln N"),
-                    "|Delta AIC| >= 2 to prefer one law (Kass-Raftery scale)", cmp.Preferred switch { "log" => "ln N (fast)", "linear" => "linear in N (ballistic)", _ => "neither" }, cmp.Verdict));
+                list.Add(new VerdictRow("t*(N) scaling", Measured.Exact(Sig(cmp.DeltaAic, 2), "Delta AIC = AIC(a + N/v) - AIC(a + b ln N); positive favours ln N"),
+                    "|Delta AIC| >= 2 to prefer one law, and only with fits that describe the data (Kass-Raftery scale)", cmp.Preferred switch { "log" => "ln N (fast)", "linear" => "linear in N (ballistic)", _ => "neither" }, cmp.Verdict));
             else
                 list.Add(new VerdictRow("t*(N) scaling", Measured.Exact(r.Sweep?.Series?.Data.Count(x => x.TStar is not null) ?? 0, "sizes with t*"), "at least 3 sizes with t*", "not fitted",
                     r.Sweep?.Series?.Note ?? (r.Sweep is null ? "the sweep did not run (run stopped)" : "no sweep results")));
@@ -284,18 +262,20 @@ public static class RunReport
         var list = new List<CheckRow>();
         if (r.CrossCheck is { Ran: true } x)
         {
-            string tol = $"<= {x.Tolerance.ToString("G3", Inv)} (both engines are exact to rounding here)";
-            list.Add(new CheckRow($"Pauli vs exact OTOCs F_j(t), N = {x.N}", Measured.Exact(x.MaxOtocDifference, "max |Delta F| over times, sites, X/Y/Z"), tol, x.MaxOtocDifference <= x.Tolerance));
-            list.Add(new CheckRow($"Pauli vs exact autocorrelation, N = {x.N}", Measured.Exact(x.MaxAutocorrelationDifference, "max |Delta C| over times"), tol, x.MaxAutocorrelationDifference <= x.Tolerance));
+            string tol = $"<= {NumberFormat.Number(x.Tolerance)} (both engines are exact to rounding here)";
+            list.Add(new CheckRow($"Pauli vs exact OTOCs F_j(t), N = {x.N}", Measured.Exact(Sig(x.MaxOtocDifference), "max |Delta F| over times, sites, X/Y/Z"), tol, x.MaxOtocDifference <= x.Tolerance));
+            list.Add(new CheckRow($"Pauli vs exact autocorrelation, N = {x.N}", Measured.Exact(Sig(x.MaxAutocorrelationDifference), "max |Delta C| over times"), tol, x.MaxAutocorrelationDifference <= x.Tolerance));
         }
         if (r.Evolution is { } evo && evo.Main.Records.Count > 0)
         {
             var last = evo.Main.Records[^1];
             double budget = Math.Abs(last.NormSquared + last.DiscardedTotal - 1);
-            list.Add(new CheckRow("norm accounting: ||O(t)||^2 + discarded weight = 1", Measured.Exact(budget, "|norm + discarded - 1| at the last time"), "<= 1e-8 (rounding)", budget <= 1e-8));
+            list.Add(new CheckRow("norm accounting: ||O(t)||^2 + discarded weight = 1", Measured.Exact(Sig(budget), "|norm + discarded - 1| at the last time"), "<= 1e-8 (rounding)", budget <= 1e-8));
+            var (growth, _) = EvolutionHeadlines.NormGrowth(evo);
+            list.Add(new CheckRow("the kept norm never grows (passes stay unitary)", Measured.Exact(Sig(Math.Max(0, growth)), "largest increase of ||O(t)||^2 between records"), $"<= {NumberFormat.Number(EvolutionHeadlines.NormGrowthTolerance)} (rotations keep it, truncation lowers it)", growth <= EvolutionHeadlines.NormGrowthTolerance));
+            string tolerance = $"moves by at most {r.EvolutionOptions.ConvergenceTolerance.ToString("P0", Inv)} of its value, or less than its own fit error";
             foreach (var c in evo.Convergence.Where(c => c.Values.Any(v => v is not null)))
-                list.Add(new CheckRow($"ladder: {c.Figure}", Measured.Exact(c.Movement ?? double.NaN, "largest movement between the full and smaller budgets"),
-                    $"moves less than {(evo.Convergence.Count > 0 ? "the ladder tolerance" : "")} (relative {r.EvolutionOptions.ConvergenceTolerance.ToString("P0", Inv)}) or within its own uncertainty", c.Converged));
+                list.Add(new CheckRow($"budget series: {EvolutionHeadlines.FigureName(c.Figure)}", Measured.Exact(Sig(c.Movement ?? double.NaN), "movement between the two largest budgets"), tolerance, c.Converged));
         }
         return list;
     }
@@ -304,12 +284,13 @@ public static class RunReport
     {
         var list = new List<string>
         {
-            $"Truncation bias: the evolution keeps the {r.Preset.MaxStrings:N0} strings of largest |c| after every pass. Dropping small coefficients removes weight mostly from large strings, so late-time mean size, saturation and t* shift with the budget (the direction depends on the model: on the mixed-field Ising chain at N = 20, t* moved later as the budget grew); the discarded weight is recorded and the ladder (half and quarter budgets) shows how much each figure depends on the budget.",
+            $"Truncation bias: the evolution keeps the {r.Preset.MaxStrings:N0} strings of largest |c| after every pass. Dropping small coefficients removes weight mostly from large strings, so late-time mean size, saturation and t* shift with the budget (the direction depends on the model: on the mixed-field Ising chain at N = 20, t* moved later as the budget grew); the discarded weight is recorded (see the discarded-weight figure) and the budget series (half and quarter budgets) shows how much each figure depends on the budget.",
             $"Finite-size and boundary effects: N = {r.Model.N} on a {r.Model.Lattice.Kind}. The front velocity is fitted only before the front reaches the boundary; t* depends on N (a t*(N) sweep separates ballistic from logarithmic scaling); the exact cross-check is at a smaller N and checks the engine, not the large-N physics.",
             "Infinite temperature: every figure is computed with all states equally weighted (the trace inner product). An experiment at finite temperature or in a particular initial state may see slower or different dynamics; these numbers describe, and bound, the high-temperature regime.",
         };
         if (r.Model.IsDriven) list.Add("Driven model: the Lanczos coefficients belong to the period-averaged generator, not to the Floquet map.");
         if (!r.Completed) list.Add($"The run stopped early ({r.StopReason}); stages that did not finish are missing from this report.");
+        if (r.Evolution is { } e && EvolutionHeadlines.NormGrowthWarning(e) is { } broken) list.Add("Warning: " + char.ToUpperInvariant(broken[0]) + broken[1..] + ".");
         foreach (var n in r.Notes) list.Add("Note: " + n);
         return list;
     }
@@ -318,6 +299,7 @@ public static class RunReport
     {
         model = r.Options.Model ?? ScramblingRunOptions.DefaultModel,
         overrides = r.Options.Overrides,
+        probe = r.Problem.Initial[0].String.ToString(),
         effort = r.Options.Effort.ToString().ToLowerInvariant(),
         memoryBytes = r.Options.MemoryBytes,
         threads = r.Options.Threads,
@@ -332,14 +314,14 @@ public static class RunReport
             method = r.EvolutionOptions.Method.ToString().ToLowerInvariant(),
             dt = r.EvolutionOptions.Dt,
             recordEvery = r.EvolutionOptions.RecordEvery,
-            ladderRungs = r.EvolutionOptions.LadderRungs,
+            budgets = r.EvolutionOptions.BudgetCount,
             convergenceTolerance = r.EvolutionOptions.ConvergenceTolerance,
             truncation = r.EvolutionOptions.Truncation,
         },
         lanczos = r.LanczosOptions is null ? null : new { depth = r.LanczosOptions.Depth, budgets = r.Preset.LanczosBudgets, mode = "truncated", memoryBytes = r.LanczosOptions.MemoryBudgetBytes },
         exact = new { n = r.Preset.ExactN, time = r.Preset.ExactTime, method = "taylor (Pauli, no truncation) vs dense (exact)" },
         diagnosis = r.Diagnosis?.Settings,
-        sweep = r.Sweep is { } sw ? new { sizes = sw.Sizes, folder = "sweep", engine = sw.Engine.CanonicalAll() } : null,
+        sweep = r.Sweep is { } sw ? new { sizes = sw.Sizes, folder = "sweep", engine = sw.Engine.CanonicalAllJson() } : null,
     };
 
     /// <summary>
@@ -384,7 +366,9 @@ public static class RunReport
                     false => $"; note: {own}, which alone would point the other way (operator size also saturates in interacting integrable models, so the battery's combined tests decide).",
                 };
             }
-            return new RunVerdict(outcome, o.LeadingName, reason, "diagnosis battery");
+            // A leading mechanism is named only when it adds something ("scrambles" under "scrambles" would not).
+            string mechanism = o.Leading is OpGrowth.Diagnosis.Mechanism.Scrambles or OpGrowth.Diagnosis.Mechanism.Undetermined ? "-" : o.LeadingName;
+            return new RunVerdict(outcome, mechanism, reason, "diagnosis battery");
         }
         if (own is null) return new RunVerdict("inconclusive", "-", "no evolution data", "evolution");
         return new RunVerdict(ownScrambles ? "scrambles" : "inconclusive", "-",
@@ -397,12 +381,13 @@ public static class RunReport
         if (r.Diagnosis is { } d)
         {
             var rows = d.Tests.Select(t => (IReadOnlyList<string>)[t.Number.ToString(Inv), t.Name, OpGrowth.Diagnosis.MechanismNames.Of(t.Outcome), t.Figure,
-                t.Threshold == "-" ? "-" : t.Threshold + " (source: " + t.Source + ")", t.Reason]).ToList();
+                t.Threshold == "-" ? "-" : t.Threshold + " (source: " + WithoutOutsideFiles(t.Source) + ")", t.Reason]).ToList();
             var s = d.Settings;
             list.Add(new ReportTable("diagnosis", "Diagnosis", ["#", "test", "verdict", "figure", "threshold", "reason"], rows)
             {
-                Intro = FormattableString.Invariant($"Overall: {RunStages.OutcomeText(d.Overall.Outcome)}; leading mechanism: {d.Overall.LeadingName}. {d.Overall.Reason}. ") +
-                    FormattableString.Invariant($"Bounded battery ({d.Seconds:0} s): level statistics at N = {s.LevelN}, conserved quantities on N = {s.ClusterN} (weight <= {s.MaxWeight}), operator size at N = {s.SizeN}, finite temperature at N = {s.ThermalN}; Lanczos depth {s.LanczosDepth} and evolution to t = {s.EvolutionTime:0.#}/epsilon on the full model (epsilon = {d.Epsilon:0.###})."),
+                Intro = FormattableString.Invariant($"Overall: {RunStages.OutcomeText(d.Overall.Outcome)}{(r.Verdict is { Mechanism: not "-" } v ? $" (leading mechanism: {v.Mechanism})" : "")}. {d.Overall.Reason}. ") +
+                    FormattableString.Invariant($"Bounded battery ({d.Seconds:0} s): level statistics at N = {s.LevelN}, conserved quantities on N = {s.ClusterN} (weight <= {s.MaxWeight}), operator size at N = {s.SizeN}, finite temperature at N = {s.ThermalN}; Lanczos depth {s.LanczosDepth} and evolution to t = {s.EvolutionTime:0.#}/epsilon on the full model (epsilon = {d.Epsilon:0.###}). ") +
+                    "The battery runs its own, smaller computations, so its figures (for example the front velocity of test 4 and the Lanczos slope of test 2) come from a shorter evolution with a smaller string budget and from its own recursion; they are cross-checks of the outcome, not second values of the headline figures above, and may differ from them within those differences in method.",
                 Footer = d.Caveats.Count == 0 ? null : "Caveats: " + string.Join("; ", d.Caveats) + ".",
                 EmphasisColumn = 2,
             });
@@ -423,11 +408,32 @@ public static class RunReport
             }
             list.Add(new ReportTable("tstar-scaling", "Scrambling time against size", ["N", "engine", "t*", "discarded weight", "converged"], rows)
             {
-                Intro = $"t* (mean size reaches 3N/8) of the model's first probe at each N, from the sweep library (results in sweep/; rerunning the same command reuses finished points). Uncertainty: statistical, truncation (ladder), grid and sampling in quadrature. Engines: exact at N <= {r.Sweep.Engine.ExactMaxN}, Pauli strings above, final time {r.Sweep.Engine.Time.ToString("0.##", Inv)}.",
+                Intro = $"t* (mean size reaches 3N/8) of {SweepProbeText(r)} at each N, from the sweep library (results in sweep/; rerunning the same command reuses finished points). Uncertainty: statistical, truncation (movement across budgets), grid and sampling in quadrature. Engines: exact at N <= {r.Sweep.Engine.ExactMaxN}, Pauli strings above, final time {NumberFormat.Number(r.Sweep.Engine.Time, 3)}.",
                 Footer = fits ?? series.Note,
             });
         }
         return list;
+    }
+
+    /// <summary>
+    /// The battery names some sources by design notes that are not part of the repository (conventions.md,
+    /// check-values.md); the report points to what a reader has instead: the README's Conventions section and
+    /// docs/diagnosis.md.
+    /// </summary>
+    internal static string WithoutOutsideFiles(string text)
+        => text.Replace("conventions.md", "README, Conventions", StringComparison.Ordinal)
+               .Replace("check-values.md", "docs/diagnosis.md", StringComparison.Ordinal);
+
+    private static FitWindow? Win(double? a, double? b, string v = "t")
+        => a is double x && b is double y && double.IsFinite(x) && double.IsFinite(y) && y >= x ? new FitWindow(x, y, v) : null;
+
+    /// <summary>The probe of the t*(N) stage in words (the plan's template "model:K" is the model's probe K at each N).</summary>
+    public static string SweepProbeText(ScramblingRunResult r)
+    {
+        string? template = r.Sweep?.Series?.Probe;
+        if (template is null || !template.StartsWith("model:", StringComparison.Ordinal)) return template is null ? "the probe" : $"the probe {template}";
+        string k = template["model:".Length..];
+        return k == "0" ? $"the model's first probe ({r.Problem.Initial[0].String} at N = {r.Model.N})" : $"the model's probe {k}";
     }
 
     private static object DiagnosisJson(ScramblingRunResult r)
@@ -460,7 +466,7 @@ public static class RunReport
             computed = s.Computed,
             reused = s.Reused,
             failures = s.Failures,
-            engine = s.Engine.CanonicalAll(),
+            engine = s.Engine.CanonicalAllJson(),
             points = series?.Data.Select(a => new { n = a.N, engine = a.Engine, tStar = a.TStar, uncertainty = a.TStarTotalError, truncationError = a.TStarTruncationError, gridError = a.TStarGridError, samplingError = a.TStarSamplingError, discardedWeight = a.MaxDiscardedWeight, converged = a.Converged }),
             fits = series?.Comparison is { } c ? new { log = Fit(c.Log), linear = Fit(c.Linear), deltaAic = c.DeltaAic, logWeight = c.LogWeight, linearWeight = c.LinearWeight, preferred = c.Preferred, strength = c.Strength, verdict = c.Verdict } : null,
             note = series?.Note,
@@ -493,7 +499,7 @@ public static class RunReport
                 method = evo.Method,
                 figures = evo.Figures,
                 convergence = evo.Convergence,
-                rungs = evo.Rungs.Select(s => new { maxStrings = s.Budget.MaxStrings, completed = s.Completed, peakStrings = s.PeakStrings, seconds = s.ElapsedSeconds, discardedTotal = s.Records.Count > 0 ? s.Records[^1].DiscardedTotal : 0 }),
+                budgets = evo.Runs.Select(s => new { maxStrings = s.Budget.MaxStrings, completed = s.Completed, peakStrings = s.PeakStrings, seconds = s.ElapsedSeconds, discardedTotal = s.Records.Count > 0 ? s.Records[^1].DiscardedTotal : 0 }),
                 times = evo.Main.Records.Select(x => x.Time),
                 meanSize = evo.Main.Records.Select(x => x.MeanSize),
                 autocorrelation = evo.Main.Records.Select(x => x.Autocorrelation),
@@ -509,15 +515,15 @@ public static class RunReport
                 stop = lz.Reference.StopReason.ToString(),
                 growth = r.Krylov?.Growth is { } g ? new
                 {
-                    best = g.Best.Class.ToString(),
+                    best = GrowthClassNames.Of(g.Best.Class),
                     formula = g.Best.Formula,
                     alpha = g.Alpha,
                     alphaError = g.AlphaError,
-                    lyapunovBound = g.LyapunovBound,
+                    lyapunovBound = g.BoundApplies ? g.LyapunovBound : (double?)null,
                     windowStart = g.WindowStart,
                     windowEnd = g.WindowEnd,
                     deltaAic = g.DeltaAic,
-                    fits = g.Fits.Select(f => new { @class = f.Class.ToString(), a = f.A, aError = f.AError, c = f.C, cError = f.CError, aic = f.Aic }),
+                    fits = g.Fits.Select(f => new { @class = GrowthClassNames.Of(f.Class), formula = f.Formula, a = f.A, aError = f.AError, c = f.C, cError = f.CError, aic = f.Aic }),
                 } : null,
             },
             ["crossCheck"] = r.CrossCheck is { } x ? new

@@ -72,11 +72,18 @@ public static class RunStages
 
     /// <summary>
     /// The sweep plan of a run's t*(N) stage: the model file with the run's overrides (numbers become
-    /// one-value parameter axes; <c>seed</c> becomes the seed list), the model's first probe, the given
-    /// sizes, and <paramref name="engine"/>.
+    /// one-value parameter axes; <c>seed</c> becomes the seed list), the run's probe (a model probe index
+    /// becomes that probe of every member; a Pauli string must exist at every size), the given sizes, and
+    /// <paramref name="engine"/>.
     /// </summary>
-    public static SweepPlan SweepPlanFor(string path, Model model, IReadOnlyDictionary<string, string> overrides, IReadOnlyList<int> sizes, EngineSettings engine)
+    public static SweepPlan SweepPlanFor(string path, Model model, IReadOnlyDictionary<string, string> overrides, IReadOnlyList<int> sizes, EngineSettings engine, string? probe = null)
     {
+        string template = ProbeChoice.IsIndex(probe, out int index) ? $"model:{index}" : probe!.Trim();
+        foreach (int n in sizes)
+        {
+            if (!ProbeTemplate.TryResolve(template, n, out _, out string? err)) throw new InputException($"--sweep with --probe {probe}: {err}");
+        }
+        string shown = template.StartsWith("model:", StringComparison.Ordinal) ? (index == 0 ? "the model's first probe" : $"the model's probe {index}") : template;
         var axes = new List<ParameterAxis>();
         var seeds = new List<long>();
         foreach (var kv in overrides.OrderBy(k => k.Key, StringComparer.Ordinal))
@@ -94,11 +101,11 @@ public static class RunStages
         return new SweepPlan
         {
             Name = "tstar-" + ScramblingRun.Sanitize(model.Name),
-            Description = $"t*(N) of {model.Name}, probe model:0, from opgrowth run",
+            Description = $"t*(N) of {model.Name}, {shown}, from opgrowth run",
             ModelFiles = [Path.GetFullPath(path)],
             Sizes = sizes.Distinct().OrderBy(n => n).ToArray(),
             Seeds = seeds,
-            Probes = ["model:0"],
+            Probes = [template],
             Parameters = axes,
             Engine = engine,
         };

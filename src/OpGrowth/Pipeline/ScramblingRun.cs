@@ -15,7 +15,7 @@ namespace OpGrowth.Pipeline;
 
 /// <summary>
 /// The whole job from a model to a scrambling report: validate the model; evolve its first probe in the
-/// Heisenberg picture with the convergence ladder and derive size growth, light cone, v_B or growth rate,
+/// Heisenberg picture with the budget series and derive size growth, light cone, v_B or growth rate,
 /// saturation and t*; Lanczos coefficients with their growth class; Pauli engine against the exact engine at
 /// a small N of the same family; then report.html, report.md, figures, results.json, CSV series and
 /// manifest.json. Each stage's data files are written as soon as the stage finishes, so an interrupted run
@@ -30,7 +30,7 @@ public static partial class ScramblingRun
     {
         ArgumentNullException.ThrowIfNull(options);
         if (options.Threads < 1) throw new InputException($"--threads {options.Threads}; expected at least 1");
-        if (options.Time is double tt && !(tt > 0 && double.IsFinite(tt))) throw new InputException($"--time {tt}; expected a positive time");
+        if (options.Time is double tt && !(tt > 0 && double.IsFinite(tt))) throw new InputException($"--time: found {tt.ToString(Inv)}; expected a positive time (for a drive: a number of periods)");
         if (options.SweepSizes.Any(n => n < 2)) throw new InputException("--sweep: found a size below 2; expected sizes such as 8,12,16");
         var log = options.Logger;
         var timings = new Dictionary<string, double>();
@@ -39,8 +39,11 @@ public static partial class ScramblingRun
         // ---- stage 1: model
         string path = ShippedModels.Resolve(options.Model ?? ScramblingRunOptions.DefaultModel);
         var model = ModelLoader.Load(path, options.Overrides);
-        var probe = model.Probes[0];
+        var probe = ProbeChoice.Resolve(model, options.Probe);
         var preset = EffortPreset.For(options.Effort);
+        // Everything the later stages need is checked before any heavy work.
+        if (options.SweepSizes.Count > 0) RunStages.SweepPlanFor(path, model, options.Overrides, options.SweepSizes, new OpGrowth.Sweeps.EngineSettings(), options.Probe);
+        OperatorEvolution.CheckSteps(AbsoluteTime(model, options.Time ?? preset.Time), model.Drive?.Period ?? preset.Dt);
         string folder = Path.GetFullPath(options.OutputFolder ?? Path.Combine("opgrowth-report", Sanitize(model.Name)));
         Directory.CreateDirectory(folder);
         string dataDir = Path.Combine(folder, "data");
@@ -50,18 +53,18 @@ public static partial class ScramblingRun
         log?.LogInformation("{Model}: {N} qubits, {Terms} terms, probe {Probe}, effort {Effort}; report in {Folder}",
             model.Name, model.N, model.Hamiltonian.Terms.Count, probe, options.Effort.ToString().ToLowerInvariant(), folder);
 
-        // ---- stage 2: evolution with the convergence ladder
+        // ---- stage 2: evolution with the budget series
         var (problem, evoOptions) = EvolutionInputs(model, probe, options, preset);
         var geometry = GeometryOf(model);
         EvolutionResult? evo = null;
         var notes = new List<string>();
         string? stop = null;
-        Report(options, "evolution", 0, $"{evoOptions.LadderRungs} rung(s) up to t = {evoOptions.Time}");
+        Report(options, "evolution", 0, $"{evoOptions.BudgetCount} budget(s) up to t = {evoOptions.Time.ToString("0.##", Inv)}");
         evo = OperatorEvolution.Run(problem, evoOptions, geometry, log, new EvolutionProgressAdapter(options.Progress), ct);
         timings["evolution"] = Lap(clock);
         notes.AddRange(evo.Notes);
         if (!evo.Completed) stop = "evolution: " + (evo.StopReason ?? "stopped");
-        if (evo.Rungs.Count > 0 && evo.Main.Records.Count > 0) files.AddRange(WriteEvolutionData(dataDir, evo));
+        if (evo.Runs.Count > 0 && evo.Main.Records.Count > 0) files.AddRange(DataFiles.WriteEvolution(dataDir, evo).Select(f => "data/" + f));
         Report(options, "evolution", 1, "done");
 
         // ---- stage 3: Lanczos
@@ -76,7 +79,7 @@ public static partial class ScramblingRun
             if (lz.B.Count >= 3) krylov = KrylovAnalyzer.Analyze(lz, new KrylovAnalysisOptions());
             if (model.IsDriven) notes.Add("driven model: the Lanczos coefficients are those of the period-averaged generator, not of the Floquet map");
             if (lz.Reference.StopReason == LanczosStopReason.Cancelled) stop = "lanczos: interrupted";
-            files.AddRange(WriteLanczosData(dataDir, lz, krylov));
+            files.AddRange(DataFiles.WriteLanczos(dataDir, lz, krylov).Select(f => "data/" + f));
             timings["lanczos"] = Lap(clock);
             Report(options, "lanczos", 1, "done");
         }
@@ -87,7 +90,7 @@ public static partial class ScramblingRun
         {
             Report(options, "exact cross-check", 0, "Pauli engine (no truncation) and exact engine");
             cross = RunCrossCheck(path, model, options, preset, log, ct);
-            if (cross.Ran) files.Add(WriteCrossCheckData(dataDir, cross));
+            if (cross.Ran) files.Add("data/" + DataFiles.WriteComparison(dataDir, cross));
             timings["exact"] = Lap(clock);
             Report(options, "exact cross-check", 1, cross.Ran ? (cross.Passed ? "passed" : "FAILED") : "skipped");
         }
@@ -96,7 +99,7 @@ public static partial class ScramblingRun
         string? diagnosisSkip = options.RunDiagnosis ? null : "turned off (--no-diagnosis)";
         if (options.RunDiagnosis && !ct.IsCancellationRequested && stop is null)
         {
-            var dOptions = (options.Diagnosis ?? RunStages.DiagnosisFor(options.Effort, options.Threads)) with { Logger = log };
+            var dOptions = (options.Diagnosis ?? RunStages.DiagnosisFor(options.Effort, options.Threads)) with { Logger = options.DiagnosisLogger ?? log };
             Report(options, "diagnosis", 0, $"six tests, small members N = {dOptions.LevelN}/{dOptions.ClusterN}/{dOptions.ThermalN}");
             try
             {
@@ -111,6 +114,11 @@ public static partial class ScramblingRun
                 stop = "diagnosis: interrupted";
                 diagnosisSkip = "interrupted";
             }
+            catch (Exception ex) when (ex is OutOfMemoryException || (ex is AggregateException ag && ag.Flatten().InnerExceptions.Any(i => i is OutOfMemoryException)))
+            {
+                // The battery sizes its own work; under a tight --memory cap it may not fit. The rest of the report stands.
+                diagnosisSkip = "did not fit the memory cap (--memory); rerun with more memory or 'opgrowth diagnose' on its own";
+            }
             timings["diagnosis"] = Lap(clock);
             Report(options, "diagnosis", 1, diagnosis is null ? "interrupted" : RunStages.OutcomeText(diagnosis.Overall.Outcome));
         }
@@ -120,7 +128,7 @@ public static partial class ScramblingRun
         SweepStage? sweep = null;
         if (options.SweepSizes.Count > 0 && !ct.IsCancellationRequested && stop is null)
         {
-            double? tMain = evo.Figures.Count > 0 ? evo.Figures[0].ScramblingTime.Value : null;
+            double? tMain = evo.Figures.Count > 0 ? evo.Figures[0].ScramblingTime.Value / (model.Drive?.Period ?? 1) : null;
             double sweepTime = options.SweepTime ?? SweepTimeFor(preset, options, model.N, tMain, options.SweepSizes.Max());
             var engine = new OpGrowth.Sweeps.EngineSettings
             {
@@ -128,9 +136,9 @@ public static partial class ScramblingRun
                 Dt = preset.Dt,
                 RecordEvery = 2,
                 MaxStrings = preset.MaxStrings,
-                Ladder = 2,
+                Budgets = 2,
             };
-            var plan = RunStages.SweepPlanFor(path, model, options.Overrides, options.SweepSizes, engine);
+            var plan = RunStages.SweepPlanFor(path, model, options.Overrides, options.SweepSizes, engine, options.Probe);
             Report(options, "t*(N) sweep", 0, $"N = {string.Join(",", plan.Sizes)}, t up to {sweepTime.ToString("0.##", Inv)}");
             try
             {
@@ -191,10 +199,17 @@ public static partial class ScramblingRun
         CountMajoranas = model.SizeMeasure == SizeMeasure.Majoranas,
     };
 
+    /// <summary>
+    /// A final time in the model's own unit (time for a Hamiltonian, drive periods for a periodic drive) as
+    /// absolute time: a drive runs whole periods.
+    /// </summary>
+    public static double AbsoluteTime(Model model, double time)
+        => model.Drive is { } d ? Math.Max(1, Math.Ceiling(time - 1e-9)) * d.Period : time;
+
     /// <summary>The evolution problem and options the pipeline uses for a model (also for tests and reruns).</summary>
     public static (EvolutionProblem Problem, EvolutionOptions Options) EvolutionInputs(Model model, PauliString probe, ScramblingRunOptions options, EffortPreset preset)
     {
-        double time = options.Time ?? preset.Time;
+        double time = AbsoluteTime(model, options.Time ?? preset.Time);
         double stepTime = model.Drive?.Period ?? preset.Dt;
         long steps = (long)Math.Ceiling(time / stepTime - 1e-9);
         var problem = ProblemOf(model, probe);
@@ -203,9 +218,9 @@ public static partial class ScramblingRun
             Method = IntegrationMethod.Trotter2,
             Dt = preset.Dt,
             Time = time,
-            RecordEvery = (int)Math.Max(1, steps / 60),
+            RecordEvery = (int)Math.Clamp(steps / 60, 1, int.MaxValue),
             Threads = options.Threads,
-            LadderRungs = preset.LadderRungs,
+            BudgetCount = preset.Budgets,
             Truncation = new TruncationPolicy { MaxStrings = preset.MaxStrings, MemoryBytes = options.MemoryBytes },
         };
         return (problem, evo);
@@ -245,15 +260,17 @@ public static partial class ScramblingRun
         if (small is null)
             return new CrossCheck { SkipReason = $"the model has {model.N} sites and no size parameter to shrink (name one with size = \"...\" in the model file), so no member of at most {preset.ExactN} sites is defined", Tolerance = options.CrossCheckTolerance };
         foreach (var note in small.LoadNotes) log?.LogInformation("cross-check member: {Note}", note);
-        return CompareEngines(small, time, options.CrossCheckTolerance, options.Threads, log, ct);
+        return CompareEngines(small, time, options.CrossCheckTolerance, options.Threads, log, ct, options.Probe);
     }
 
     /// <summary>
     /// Pauli engine (no truncation, Taylor steps: exact to rounding) against the exact state-vector
     /// engine (dense traces) for the model file at size <paramref name="n"/> (set through its parameter N):
-    /// OTOCs against X, Y, Z on every site and the autocorrelation of the first probe on the same times.
+    /// OTOCs against X, Y, Z on every site and the autocorrelation of the probe on the same times.
+    /// <paramref name="time"/> is in the model's unit (periods for a drive); <paramref name="probeText"/> is a
+    /// --probe text (null: the model's first probe).
     /// </summary>
-    public static CrossCheck CompareEngines(string path, IReadOnlyDictionary<string, string> overrides, int n, double time, double tolerance, int threads, ILogger? log, CancellationToken ct)
+    public static CrossCheck CompareEngines(string path, IReadOnlyDictionary<string, string> overrides, int n, double time, double tolerance, int threads, ILogger? log, CancellationToken ct, string? probeText = null)
     {
         var ov = new Dictionary<string, string>(overrides) { ["N"] = n.ToString(Inv) };
         Model small;
@@ -265,17 +282,26 @@ public static partial class ScramblingRun
         {
             return new CrossCheck { SkipReason = $"the model does not load at N = {n}: {ex.Message}", Tolerance = tolerance };
         }
-        return CompareEngines(small, time, tolerance, threads, log, ct);
+        return CompareEngines(small, time, tolerance, threads, log, ct, probeText);
     }
 
     /// <summary>The same comparison on a model already built (a member of the family, or the model itself).</summary>
-    public static CrossCheck CompareEngines(Model small, double time, double tolerance, int threads, ILogger? log, CancellationToken ct)
+    public static CrossCheck CompareEngines(Model small, double time, double tolerance, int threads, ILogger? log, CancellationToken ct, string? probeText = null)
     {
         ArgumentNullException.ThrowIfNull(small);
         var options = new ScramblingRunOptions { CrossCheckTolerance = tolerance, Threads = threads, Time = time };
         if (small.N > PauliMask.MaxQubits || small.N > DenseSpectrum.DefaultMaxQubits)
             return new CrossCheck { SkipReason = $"N = {small.N} is too large for the dense exact engine", Tolerance = options.CrossCheckTolerance };
-        var probe = small.Probes[0];
+        PauliString probe;
+        try
+        {
+            probe = ProbeChoice.Resolve(small, probeText);
+        }
+        catch (InputException ex)
+        {
+            return new CrossCheck { SkipReason = $"the probe does not exist at N = {small.N}: {ex.Message}", Tolerance = options.CrossCheckTolerance };
+        }
+        time = AbsoluteTime(small, time);
         double dt = small.Drive?.Period ?? 0.1;
         long steps = Math.Max(1, (long)Math.Ceiling(time / dt - 1e-9));
         var problem = ProblemOf(small, probe);
@@ -287,7 +313,7 @@ public static partial class ScramblingRun
             Time = time,
             RecordEvery = (int)Math.Max(1, steps / 20),
             Threads = options.Threads,
-            LadderRungs = 1,
+            BudgetCount = 1,
             Truncation = TruncationPolicy.None,
         };
         log?.LogInformation("cross-check at N = {N}: probe {Probe}, t = {Time}", small.N, probe, time);
@@ -328,13 +354,17 @@ public static partial class ScramblingRun
             MaxAutocorrelationDifference = maxC,
             Tolerance = options.CrossCheckTolerance,
             ExactMethod = exact.Method,
+            Sites = exact.Sites.Select(s => new SiteComparison(s.Site,
+                recs.Select(x => x.OtocX[s.Site]).ToArray(), s.X.Values,
+                recs.Select(x => x.OtocY[s.Site]).ToArray(), s.Y.Values,
+                recs.Select(x => x.OtocZ[s.Site]).ToArray(), s.Z.Values)).ToArray(),
         };
     }
 
     /// <summary>
     /// Final time of the t*(N) points: 1.5 times the main run's t* scaled linearly to the largest size
     /// (a ballistic front needs time proportional to N; a faster scrambler finishes early), and never less
-    /// than the effort's evolution time.
+    /// than the effort's evolution time. All times in the model's unit (periods for a drive).
     /// </summary>
     public static double SweepTimeFor(EffortPreset preset, ScramblingRunOptions options, int n, double? tStar, int largest)
     {
@@ -354,7 +384,8 @@ public static partial class ScramblingRun
     private static void Report(ScramblingRunOptions o, string stage, double fraction, string detail)
         => o.Progress?.Report(new RunProgress(stage, fraction, detail));
 
-    internal static string Sanitize(string s)
+    /// <summary>A name made safe for a folder name (letters, digits, '-', '_', '.'; anything else becomes '-').</summary>
+    public static string Sanitize(string s)
     {
         var chars = s.Select(c => char.IsLetterOrDigit(c) || c is '-' or '_' or '.' ? c : '-').ToArray();
         return new string(chars);
@@ -365,9 +396,9 @@ public static partial class ScramblingRun
         public void Report(EvolutionProgress p)
         {
             if (target is null) return;
-            double f = (p.Rung + (p.TotalSteps > 0 ? (double)p.Step / p.TotalSteps : 1)) / Math.Max(1, p.Rungs);
+            double f = (p.Run + (p.TotalSteps > 0 ? (double)p.Step / p.TotalSteps : 1)) / Math.Max(1, p.Runs);
             target.Report(new RunProgress("evolution", Math.Clamp(f, 0, 1),
-                FormattableString.Invariant($"rung {p.Rung + 1}/{p.Rungs} t={p.Time:0.##} strings={p.Strings:N0}"), p.Remaining));
+                FormattableString.Invariant($"budget {p.Run + 1}/{p.Runs} t={p.Time:0.##} strings={p.Strings:N0}"), p.Remaining));
         }
     }
 }

@@ -2,7 +2,7 @@ using Microsoft.Extensions.Logging;
 
 namespace OpGrowth.Pipeline;
 
-/// <summary>How much work the run spends: evolution time and string budget, ladder rungs, Lanczos depth.</summary>
+/// <summary>How much work the run spends: evolution time and string budget, budgets in the budget series, Lanczos depth.</summary>
 public enum RunEffort
 {
     /// <summary>Seconds: a short evolution with a small budget (tests, a first look).</summary>
@@ -15,7 +15,7 @@ public enum RunEffort
 
 /// <summary>The numbers an <see cref="RunEffort"/> stands for (see <see cref="EffortPreset.For"/>).</summary>
 public sealed record EffortPreset(
-    double Time, double Dt, int LadderRungs, long MaxStrings, int LanczosDepth, long[] LanczosBudgets, int ExactN, double ExactTime)
+    double Time, double Dt, int Budgets, long MaxStrings, int LanczosDepth, long[] LanczosBudgets, int ExactN, double ExactTime)
 {
     /// <summary>The preset of an effort level.</summary>
     public static EffortPreset For(RunEffort effort) => effort switch
@@ -36,6 +36,8 @@ public sealed record ScramblingRunOptions
     public string? Model { get; init; }
     /// <summary>Parameter overrides (NAME -> VALUE), as from --set.</summary>
     public IReadOnlyDictionary<string, string> Overrides { get; init; } = new Dictionary<string, string>();
+    /// <summary>The operator to evolve, as --probe gives it: a model probe index or a Pauli string (null: the model's first probe).</summary>
+    public string? Probe { get; init; }
     /// <summary>Report folder (null: ./opgrowth-report/&lt;model name&gt;).</summary>
     public string? OutputFolder { get; init; }
     public RunEffort Effort { get; init; } = RunEffort.Standard;
@@ -52,11 +54,13 @@ public sealed record ScramblingRunOptions
     public double? SweepTime { get; init; }
     /// <summary>System sizes for a t*(N) sweep (empty: no sweep).</summary>
     public IReadOnlyList<int> SweepSizes { get; init; } = [];
-    /// <summary>Final evolution time (null: the effort's).</summary>
+    /// <summary>Final evolution time (null: the effort's); for a periodic drive, the number of periods.</summary>
     public double? Time { get; init; }
     /// <summary>Largest tolerated |Pauli - exact| in the cross-check (both engines are exact to rounding there).</summary>
     public double CrossCheckTolerance { get; init; } = 1e-6;
     public ILogger? Logger { get; init; }
+    /// <summary>Logger for the diagnosis battery's own lines (null: <see cref="Logger"/>).</summary>
+    public ILogger? DiagnosisLogger { get; init; }
     public IProgress<RunProgress>? Progress { get; init; }
 }
 

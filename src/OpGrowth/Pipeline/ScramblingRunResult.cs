@@ -23,9 +23,14 @@ public sealed record CrossCheck
     /// <summary>max over times of |C(Pauli) - C(exact)|.</summary>
     public double MaxAutocorrelationDifference { get; init; }
     public double Tolerance { get; init; }
+    /// <summary>OTOCs F_j(t) against X_j, Y_j, Z_j from both engines, per site.</summary>
+    public IReadOnlyList<SiteComparison> Sites { get; init; } = [];
     public bool Passed => Ran && MaxOtocDifference <= Tolerance && MaxAutocorrelationDifference <= Tolerance;
     public string ExactMethod { get; init; } = "";
 }
+
+/// <summary>One site's OTOCs F(t) against X_j, Y_j and Z_j from the Pauli engine and the exact engine.</summary>
+public sealed record SiteComparison(int Site, double[] PauliX, double[] ExactX, double[] PauliY, double[] ExactY, double[] PauliZ, double[] ExactZ);
 
 /// <summary>Everything a <see cref="ScramblingRun"/> produced (stages that did not run are null).</summary>
 public sealed record ScramblingRunResult

@@ -13,27 +13,39 @@ public static partial class Charts
         RequireNonEmpty("Times", data.Times);
         RequireLength("Pauli", data.Pauli, data.Times.Length);
         RequireLength("Exact", data.Exact, data.Times.Length);
+        foreach (var c in data.Curves)
+        {
+            RequireLength($"Curve '{c.Label}' (Pauli)", c.Pauli, data.Times.Length);
+            RequireLength($"Curve '{c.Label}' (exact)", c.Exact, data.Times.Length);
+        }
+        if (data.Difference is { } given) RequireLength("Difference", given, data.Times.Length);
 
-        Plot top = PlotKit.NewPanel("", data.Quantity);
-        PlotKit.Line(top, data.Times, data.Exact, data.ExactLabel, 2, width: 2f).LinePattern = LinePattern.Solid;
-        // Markers for the Pauli engine, thinned to about 40 so the exact line stays visible under them.
+        bool several = data.Curves.Count > 0;
+        Plot top = PlotKit.NewPanel("", several ? "value" : data.Quantity);
+        // Lines: the exact engine; open circles: the Pauli engine (thinned to about 40 so the line stays visible).
         int stride = Math.Max(1, data.Times.Length / 40);
-        double[] mt = data.Times.Where((_, i) => i % stride == 0).ToArray();
-        double[] mp = data.Pauli.Where((_, i) => i % stride == 0).ToArray();
-        (double[] cx, double[] cy, _) = Clean(mt, mp, null, false);
-        Scatter pts = PlotKit.Points(top, cx, cy, data.PauliLabel, 0, size: 6.5f);
-        pts.MarkerShape = MarkerShape.OpenCircle;
-        pts.MarkerLineWidth = 1.6f;
+        void Overlay(string label, double[] pauli, double[] exact, int slot)
+        {
+            PlotKit.Line(top, data.Times, exact, several ? label + ", exact" : data.ExactLabel, slot, width: 2f).LinePattern = LinePattern.Solid;
+            double[] mt = data.Times.Where((_, i) => i % stride == 0).ToArray();
+            double[] mp = pauli.Where((_, i) => i % stride == 0).ToArray();
+            (double[] cx, double[] cy, _) = Clean(mt, mp, null, false);
+            Scatter pts = PlotKit.Points(top, cx, cy, several ? null : data.PauliLabel, slot, size: 6.5f);
+            pts.MarkerShape = MarkerShape.OpenCircle;
+            pts.MarkerLineWidth = 1.6f;
+        }
+        Overlay(data.Quantity, data.Pauli, data.Exact, 2);
+        for (int c = 0; c < data.Curves.Count; c++) Overlay(data.Curves[c].Label, data.Curves[c].Pauli, data.Curves[c].Exact, c == 0 ? 0 : c + 2);
         PlotKit.ShowLegendAuto(top);
 
         var diff = new double[data.Times.Length];
-        for (int i = 0; i < diff.Length; i++) diff[i] = data.Pauli[i] - data.Exact[i];
+        for (int i = 0; i < diff.Length; i++) diff[i] = data.Difference?[i] ?? data.Pauli[i] - data.Exact[i];
         Plot bottom;
         if (data.LogDifference)
         {
             bottom = PlotKit.NewPanel(data.TimeLabel, "|difference| (log)");
             double[] abs = diff.Select(Math.Abs).ToArray();
-            AddSeries(bottom, new LineSeries("|Pauli - exact|", data.Times, abs), 0, true, "difference");
+            AddSeries(bottom, new LineSeries(data.Difference is null ? "|Pauli - exact|" : data.DifferenceLabel, data.Times, abs), 0, true, "difference");
             if (data.Tolerance is { } tol && tol > 0) PlotKit.HLine(bottom, Math.Log10(tol), "tolerance " + NumberFormat.Number(tol));
             PlotKit.LogY(bottom);
         }
@@ -56,7 +68,7 @@ public static partial class Charts
 
         return FigureRenderer.Render(name,
             title ?? "Pauli engine versus exact evolution",
-            caption ?? $"Top: {data.Quantity} from both engines on the same model; bottom: their difference"
+            caption ?? $"Top: {(several ? data.Quantity + " and " + string.Join(", ", data.Curves.Select(c => c.Label)) : data.Quantity)} from both engines on the same model (lines: exact state vector, circles: Pauli engine); bottom: {(data.Difference is null ? "their difference" : data.DifferenceLabel)}"
                      + (data.Tolerance is { } t ? $" and the agreement tolerance {NumberFormat.Number(t)}." : "."),
             size ?? FigureSize.Report, new PanelSpec(top, 1.3), new PanelSpec(bottom, 1.0));
     }

@@ -47,12 +47,32 @@ public static partial class Charts
         RequireLength("Autocorrelation", data.Autocorrelation, data.Times.Length);
 
         Plot top = PlotKit.NewPanel("", data.LogComplexity ? "K(t) (log scale)" : "K(t)");
-        AddSeries(top, new LineSeries("Krylov complexity K(t)", data.Times, data.Complexity), 0, data.LogComplexity, "K(t)");
+        Plot bottom = PlotKit.NewPanel(data.TimeLabel, "C(t)");
+        string contText = "";
+        if (data.ContinuationTime is double tc && tc <= data.Times[^1])
+        {
+            // Before tc the curves rest on computed b_n only; from tc on, on the fitted continuation as well.
+            string label = "from the fitted b_n" + (data.ContinuationStart is int n0 ? $" (n >= {n0})" : "");
+            PlotKit.XWindow(top, tc, data.Times[^1], label).FillColor = ChartStyle.Fit.WithAlpha(0.12);
+            PlotKit.XWindow(bottom, tc, data.Times[^1], null).FillColor = ChartStyle.Fit.WithAlpha(0.12);
+            int cut = Array.FindIndex(data.Times, t => t >= tc);
+            double[] t0 = data.Times[..(cut + 1)], t1 = data.Times[cut..];
+            AddSeries(top, new LineSeries("K(t), computed b_n", t0, data.Complexity[..(cut + 1)]), 0, data.LogComplexity, "K(t)");
+            AddSeries(top, new LineSeries("K(t), with the continuation", t1, data.Complexity[cut..]) { Look = SeriesLook.Line }, 0, data.LogComplexity, "K(t)");
+            top.GetPlottables().OfType<Scatter>().Last().LinePattern = LinePattern.Dashed;
+            AddSeries(bottom, new LineSeries("autocorrelation C(t)", t0, data.Autocorrelation[..(cut + 1)]), 2, false, "C(t)");
+            AddSeries(bottom, new LineSeries("C(t), with the continuation", t1, data.Autocorrelation[cut..]), 2, false, "C(t)");
+            bottom.GetPlottables().OfType<Scatter>().Last().LinePattern = LinePattern.Dashed;
+            contText = $"; shaded and dashed from t = {NumberFormat.Number(tc, 3)}: the curves rest on the fitted continuation of b_n{(data.ContinuationStart is int n1 ? $" (n >= {n1})" : "")} (more than 0.1% of the weight beyond the computed coefficients)";
+        }
+        else
+        {
+            AddSeries(top, new LineSeries("Krylov complexity K(t)", data.Times, data.Complexity), 0, data.LogComplexity, "K(t)");
+            AddSeries(bottom, new LineSeries("autocorrelation C(t)", data.Times, data.Autocorrelation), 2, false, "C(t)");
+        }
         if (data.LogComplexity) PlotKit.LogY(top);
         PlotKit.ShowLegendAuto(top);
 
-        Plot bottom = PlotKit.NewPanel(data.TimeLabel, "C(t)");
-        AddSeries(bottom, new LineSeries("autocorrelation C(t)", data.Times, data.Autocorrelation), 2, false, "C(t)");
         HorizontalLine zero = bottom.Add.HorizontalLine(0, 1f, ChartStyle.Reference, LinePattern.Solid);
         zero.LegendText = "";
         PlotKit.ShowLegendAuto(bottom);
@@ -60,7 +80,7 @@ public static partial class Charts
 
         return FigureRenderer.Render(name,
             title ?? "Krylov complexity and autocorrelation",
-            caption ?? "Top: K(t) = Σ n φ_n(t)², the mean position on the Krylov chain; bottom: C(t) = (O|O(t)); both computed from the b_n.",
+            caption ?? $"Top: K(t) = Σ n φ_n(t)², the mean position on the Krylov chain; bottom: C(t) = (O|O(t)); both computed from the b_n{contText}.",
             size ?? FigureSize.Report, new PanelSpec(top, 1.15), new PanelSpec(bottom, 1.0));
     }
 

@@ -62,8 +62,8 @@ public static partial class Charts
                 plot.Add.Markers(new[] { wx[0], wx[^1] }, new[] { wt[0], wt[^1] }, MarkerShape.FilledCircle, 7f, ChartStyle.Fit);
                 labelled = true;
             }
-            PlotKit.ShowLegend(plot, Alignment.UpperLeft);
-            frontText = $"; amber: fitted front r = v_B t + c at threshold {NumberFormat.Number(f.Threshold)} (solid on the fit window, dashed extrapolated)";
+            // The map fills the data area, so the front is described in the caption rather than a legend over the data.
+            frontText = $"; amber: fitted front r = v_B t + c at threshold {NumberFormat.Number(f.Threshold)}, v_B = {f.Velocity.FormatValue()} (solid on the fit window {w}, dashed extrapolated)";
         }
         return FigureRenderer.Render(name,
             title ?? "OTOC light cone",

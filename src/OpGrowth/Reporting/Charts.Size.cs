@@ -35,20 +35,19 @@ public static partial class Charts
         if (data.MeanSize is { } mean)
         {
             RequireLength("MeanSize", mean, data.Times.Length);
-            Scatter line = PlotKit.Line(plot, data.Times, mean, "mean size n(t)", 1, width: 2.2f);
+            Scatter line = PlotKit.Line(plot, data.Times, mean, null, 1, width: 2.2f);
             line.LinePattern = LinePattern.Solid;
-            PlotKit.ShowLegend(plot, Alignment.LowerRight);
         }
         string scale = data.LogScale
             ? $"colour is log10 P_k from {NumberFormat.Number(data.LogFloor)} (white) to 1 (dark)"
             : "white = no weight, dark = most weight";
         return FigureRenderer.Render(name,
             title ?? "Operator size distribution P_k(t)",
-            caption ?? $"Share of the operator's weight on Pauli strings of size k ({data.SizeUnit}) at each time; {scale}.",
+            caption ?? $"Share of the operator's weight on Pauli strings of size k ({data.SizeUnit}) at each time; {scale}{(data.MeanSize is null ? "" : "; line: mean size n(t)")}.",
             size ?? FigureSize.Report, new PanelSpec(plot));
     }
 
-    /// <summary>Mean size n(t) with the saturation line, t* (with its band) and optional ladder curves.</summary>
+    /// <summary>Mean size n(t) with the saturation line, t* (with its band) and optional curves at smaller budgets.</summary>
     public static FigureImage MeanSize(MeanSizeSeries data, FigureSize? size = null,
         string name = "mean-size", string? title = null, string? caption = null)
     {
@@ -67,10 +66,10 @@ public static partial class Charts
             band.LineWidth = 0;
             band.LegendText = "uncertainty band";
         }
-        for (int r = 0; r < data.Ladder.Count; r++)
+        for (int r = 0; r < data.Budgets.Count; r++)
         {
-            LadderCurve c = data.Ladder[r];
-            PlotKit.CheckSameLength($"Ladder curve {r} values", c.Times.Length, c.Values.Length, nameof(data));
+            BudgetCurve c = data.Budgets[r];
+            PlotKit.CheckSameLength($"Budget curve {r} values", c.Times.Length, c.Values.Length, nameof(data));
             Scatter s = PlotKit.Line(plot, c.Times, c.Values, "budget " + NumberFormat.Count(c.Budget), 3 + r, width: 1.4f);
             s.LinePattern = r % 2 == 0 ? LinePattern.Dashed : LinePattern.Dotted;
         }
@@ -78,11 +77,14 @@ public static partial class Charts
         PlotKit.Line(plot, data.Times, data.MeanSize, mainLabel, 0, width: 2.4f).LinePattern = LinePattern.Solid;
         PlotKit.HLine(plot, data.Saturation, data.SaturationLabel + " = " + NumberFormat.Number(data.Saturation));
 
-        if (data.ScramblingTime is { } ts)
+        if (data.ScramblingLevel is not null || data.ScramblingTime is not null)
         {
             double level = data.ScramblingLevel ?? data.Saturation / 2;
-            HorizontalLine half = PlotKit.HLine(plot, level, "level " + NumberFormat.Number(level) + " (defines t*)");
+            HorizontalLine half = PlotKit.HLine(plot, level, data.ScramblingLevelLabel + " = " + NumberFormat.Number(level) + " (defines t*)");
             half.LinePattern = LinePattern.Dotted;
+        }
+        if (data.ScramblingTime is { } ts)
+        {
             if (double.IsFinite(ts.Uncertainty) && ts.Uncertainty > 0)
             {
                 HorizontalSpan span = PlotKit.XWindow(plot, ts.Value - ts.Uncertainty, ts.Value + ts.Uncertainty, null);
@@ -95,7 +97,8 @@ public static partial class Charts
         PlotKit.ShowLegendAuto(plot);
         return FigureRenderer.Render(name,
             title ?? "Mean operator size n(t)",
-            caption ?? "Mean number of non-identity sites of the evolved operator; dashed: value for a random operator; t*: first time n reaches the dotted level.",
+            caption ?? "Mean number of non-identity sites of the evolved operator; dashed: value for a random operator; dotted: the level that defines t* (its first crossing)"
+                     + (data.ScramblingTime is null ? ", not reached in this run" : "") + (data.Budgets.Count > 0 ? "; thin lines: the same run at smaller string budgets." : "."),
             size ?? FigureSize.Report, new PanelSpec(plot));
     }
 }

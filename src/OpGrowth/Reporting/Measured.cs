@@ -6,7 +6,7 @@ namespace OpGrowth.Reporting;
 /// carries its uncertainty and its definition or window.
 /// </summary>
 /// <remarks>
-/// <see cref="Uncertainty"/> is a one-standard-deviation style spread (or the spread across the convergence ladder;
+/// <see cref="Uncertainty"/> is a one-standard-deviation style spread (or the spread across the budget series;
 /// the definition should say which). Zero means exact (a count, a closed form); NaN means it could not be
 /// estimated, which the report prints as such.
 /// </remarks>

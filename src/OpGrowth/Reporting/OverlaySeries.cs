@@ -16,4 +16,16 @@ public sealed record OverlaySeries(double[] Times, double[] Pauli, double[] Exac
     public bool LogDifference { get; init; }
 
     public string TimeLabel { get; init; } = AxisText.Time;
+
+    /// <summary>Further quantities from both engines on the same times (e.g. OTOCs F_j(t) at chosen sites), drawn in the top panel.</summary>
+    public IReadOnlyList<OverlayCurve> Curves { get; init; } = [];
+
+    /// <summary>
+    /// The difference to show in the bottom panel when it should cover more than <see cref="Pauli"/> - <see cref="Exact"/>
+    /// (e.g. the largest |Delta F| over every site and X/Y/Z at each time); with <see cref="LogDifference"/>.
+    /// </summary>
+    public double[]? Difference { get; init; }
+
+    /// <summary>Legend text of <see cref="Difference"/>.</summary>
+    public string DifferenceLabel { get; init; } = "|Pauli - exact|";
 }

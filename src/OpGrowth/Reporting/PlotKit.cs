@@ -138,18 +138,33 @@ internal static class PlotKit
         s_autoLegend.AddOrUpdate(plot, s_autoLegend);
     }
 
-    /// <summary>Places an auto-placed legend for a panel of the given pixel size (no-op for fixed legends).</summary>
+    /// <summary>
+    /// Places an auto-placed legend for a panel of the given pixel size (no-op for fixed legends): in the corner
+    /// that covers the fewest data points, and when every corner would cover data, in headroom made for it by
+    /// raising the top of the y axis, so that the legend never hides a point, a line or a reference line.
+    /// </summary>
     internal static void PlaceLegend(Plot plot, float panelWidth, float panelHeight)
     {
         if (!s_autoLegend.TryGetValue(plot, out _)) return;
-        plot.Legend.Alignment = BestLegendCorner(plot, panelWidth, panelHeight);
+        var place = FindLegendPlace(plot, panelWidth, panelHeight);
+        plot.Legend.Alignment = place.Corner;
+        if (place.Score <= 0 || !(place.Height < 0.8)) return;
+        // Raise the top so the legend's band (its height plus a margin) lies above every data point.
+        double band = place.Height + 0.04;
+        double top = place.Y1 + (place.Y1 - place.Y0) * band / (1 - band);
+        plot.Axes.SetLimitsY(place.Y0, top);
+        plot.Legend.Alignment = place.Corner is Alignment.UpperRight or Alignment.LowerRight ? Alignment.UpperRight : Alignment.UpperLeft;
     }
+
+    /// <summary>The corner whose legend-sized box covers the fewest data points (see <see cref="FindLegendPlace"/>).</summary>
+    internal static Alignment BestLegendCorner(Plot plot, float panelWidth, float panelHeight) => FindLegendPlace(plot, panelWidth, panelHeight).Corner;
 
     /// <summary>
     /// The corner whose legend-sized box covers the fewest data points (lines are sampled along their segments,
-    /// reference lines count heavily). The legend size is estimated from its entries and the font size.
+    /// reference lines count heavily), that corner's score, the legend's height as a fraction of the data area and
+    /// the y range of the data. The legend size is estimated from its entries and the font size.
     /// </summary>
-    internal static Alignment BestLegendCorner(Plot plot, float panelWidth, float panelHeight)
+    internal static (Alignment Corner, double Score, double Height, double Y0, double Y1) FindLegendPlace(Plot plot, float panelWidth, float panelHeight)
     {
         var pts = new List<(double X, double Y)>();
         var hLines = new List<double>();
@@ -170,21 +185,33 @@ internal static class PlotKit
                     }
                     break;
                 case ErrorBar e:
-                    for (int i = 0; i < e.Xs.Count; i++) pts.Add((e.Xs[i], e.Ys[i]));
+                    for (int i = 0; i < e.Xs.Count; i++)
+                    {
+                        pts.Add((e.Xs[i], e.Ys[i]));
+                        if (e.YErrorPositive is { } up && i < up.Count) pts.Add((e.Xs[i], e.Ys[i] + up[i]));
+                    }
                     break;
                 case HorizontalLine h: hLines.Add(h.Y); break;
                 case VerticalLine v: vLines.Add(v.X); break;
             }
         }
         pts.RemoveAll(p => !double.IsFinite(p.X) || !double.IsFinite(p.Y));
-        if (pts.Count == 0) return Alignment.UpperRight;
+        if (pts.Count == 0) return (Alignment.UpperRight, 0, 0, 0, 1);
         double x0 = pts.Min(p => p.X), x1 = pts.Max(p => p.X), y0 = pts.Min(p => p.Y), y1 = pts.Max(p => p.Y);
         foreach (double h in hLines) { y0 = Math.Min(y0, h); y1 = Math.Max(y1, h); }
+        double dataTop = y1;
         if (plot.Axes.LimitsHaveBeenSet)
         {
             AxisLimits l = plot.Axes.GetLimits();
             if (double.IsFinite(l.Left) && double.IsFinite(l.Right) && l.Right > l.Left) { x0 = l.Left; x1 = l.Right; }
             if (double.IsFinite(l.Bottom) && double.IsFinite(l.Top) && l.Top > l.Bottom) { y0 = l.Bottom; y1 = l.Top; }
+        }
+        else
+        {
+            // The library pads the data range by about 10% on each side; judge the corners on that view.
+            double pad = 0.1 * (y1 - y0);
+            y0 -= pad;
+            y1 += pad;
         }
         if (x1 <= x0) x1 = x0 + 1;
         if (y1 <= y0) y1 = y0 + 1;
@@ -212,7 +239,7 @@ internal static class PlotKit
             foreach (double xv in vLines) { double u = (xv - x0) / (x1 - x0); if (u >= bx0 && u <= bx1) score += 20; }
             if (score < bestScore - 1e-9) { bestScore = score; best = a; }
         }
-        return best;
+        return (best, bestScore, fh, y0, Math.Max(dataTop, y0 + 1e-12));
     }
 
     internal static void CheckSameLength(string what, int expected, int actual, string paramName)

@@ -16,7 +16,7 @@ public sealed record EngineSettings
     /// <summary>With <see cref="EngineChoice.Auto"/>: points with N at or below this use the exact engine, larger N the Pauli engine.</summary>
     public int ExactMaxN { get; init; } = 12;
 
-    /// <summary>Final time of every run (the scrambling time must be reached before it, or the point reports a lower bound).</summary>
+    /// <summary>Final time of every run, in drive periods for a periodic drive (the scrambling time must be reached before it, or the point reports a lower bound).</summary>
     public double Time { get; init; } = 20;
 
     /// <summary>Time step of the Pauli engine's integrator, and the record spacing of the exact engine.</summary>
@@ -28,14 +28,14 @@ public sealed record EngineSettings
     /// <summary>Integrator of the Pauli engine: "trotter2", "trotter4" or "rk4".</summary>
     public string Method { get; init; } = "trotter2";
 
-    /// <summary>String budget of the Pauli engine (largest |c| kept); the ladder reruns at half and a quarter.</summary>
+    /// <summary>String budget of the Pauli engine (largest |c| kept); the budget series reruns at half and a quarter.</summary>
     public long MaxStrings { get; init; } = 200_000;
 
     /// <summary>Coefficient threshold of the Pauli engine (0: off).</summary>
     public double Threshold { get; init; }
 
-    /// <summary>Rungs of the convergence ladder (1: none; 2 or 3). The truncation uncertainty of t* is the move between the two largest budgets.</summary>
-    public int Ladder { get; init; } = 2;
+    /// <summary>Budgets in the budget series (1: only the given one; 2 or 3). The truncation uncertainty of t* is the move between the two largest budgets.</summary>
+    public int Budgets { get; init; } = 2;
 
     /// <summary>Random states per point for the exact engine's typicality traces.</summary>
     public int Samples { get; init; } = 4;
@@ -70,7 +70,7 @@ public sealed record EngineSettings
                 d["method"] = Method;
                 d["max_strings"] = MaxStrings.ToString(CultureInfo.InvariantCulture);
                 d["threshold"] = F(Threshold);
-                d["ladder"] = Ladder.ToString(CultureInfo.InvariantCulture);
+                d["budgets"] = Budgets.ToString(CultureInfo.InvariantCulture);
                 break;
             case EngineChoice.Exact:
                 d["samples"] = Samples.ToString(CultureInfo.InvariantCulture);
@@ -91,6 +91,21 @@ public sealed record EngineSettings
         foreach (var kv in Synthetic.Canonical()) d["synthetic." + kv.Key] = kv.Value;
         d["engine"] = Name(Engine);
         d["exact_max_n"] = ExactMaxN.ToString(CultureInfo.InvariantCulture);
+        return d;
+    }
+
+    /// <summary>
+    /// <see cref="CanonicalAll"/> with the keys as JSON writes them (camelCase: "record_every" becomes
+    /// "recordEvery"); the plan files keep the TOML spelling.
+    /// </summary>
+    public SortedDictionary<string, string> CanonicalAllJson()
+    {
+        var d = new SortedDictionary<string, string>(StringComparer.Ordinal);
+        foreach (var kv in CanonicalAll())
+        {
+            var parts = kv.Key.Split('_');
+            d[parts[0] + string.Concat(parts.Skip(1).Select(p => p.Length == 0 ? p : char.ToUpperInvariant(p[0]) + p[1..]))] = kv.Value;
+        }
         return d;
     }
 

@@ -10,9 +10,9 @@ namespace OpGrowth.Sweeps;
 
 /// <summary>
 /// Runs a point on the Heisenberg-picture Pauli engine (<see cref="OperatorEvolution"/>): evolves the
-/// probe under the model with the plan's time step, string budget and convergence ladder, and reads t*,
+/// probe under the model with the plan's time step, string budget and budget series, and reads t*,
 /// the growth rate and v_B off the derived figures (<see cref="ScramblingAnalysis"/>). Truncation
-/// uncertainties are the ladder's movements between the two largest budgets.
+/// uncertainties are the movements between the two largest budgets.
 /// </summary>
 public sealed class PauliPointRunner : IPointRunner
 {
@@ -67,10 +67,11 @@ public sealed class PauliPointRunner : IPointRunner
                 _ => IntegrationMethod.Trotter2,
             },
             Dt = e.Dt,
-            Time = e.Time,
+            // For a drive the plan's time counts periods.
+            Time = model.Drive is { } dd ? Math.Max(1, Math.Ceiling(e.Time - 1e-9)) * dd.Period : e.Time,
             RecordEvery = e.RecordEvery,
             Threads = _threads,
-            LadderRungs = e.Ladder,
+            BudgetCount = e.Budgets,
             Truncation = new TruncationPolicy
             {
                 MaxStrings = e.MaxStrings,
@@ -82,24 +83,24 @@ public sealed class PauliPointRunner : IPointRunner
         var analysis = new ScramblingAnalysisOptions { FrontFraction = e.FrontFraction };
         var result = OperatorEvolution.Run(problem, options, geometry, _logger, null, cancellationToken, analysis);
         cancellationToken.ThrowIfCancellationRequested();
-        if (!result.Completed || result.Figures.Count == 0 || result.Rungs[0].Budget.Rung != 0)
+        if (!result.Completed || result.Figures.Count == 0 || result.Runs[0].Budget.Index != 0)
         {
             string why = result.StopReason ?? "the run did not complete";
             if (result.ResourceLimited) throw new ResourceLimitException($"point {point.Index} ({point}): {why}");
             throw new InvalidOperationException($"point {point.Index} ({point}): {why}");
         }
-        return FromFigures(point, pm, result.Figures[0], result.Convergence, result.Main.Records[^1], result.Main.PeakTrackedBytes, sw.Elapsed.TotalSeconds, e.Ladder > 1);
+        return FromFigures(point, pm, result.Figures[0], result.Convergence, result.Main.Records[^1], result.Main.PeakTrackedBytes, sw.Elapsed.TotalSeconds, e.Budgets > 1);
     }
 
     private static PointResult FromFigures(SweepPoint point, PointModel pm, ScramblingFigures f, IReadOnlyList<FigureConvergence> conv,
-        EvolutionRecord last, long bytes, double wall, bool ladder)
+        EvolutionRecord last, long bytes, double wall, bool series)
     {
         bool majorana = pm.Model.SizeMeasure == SizeMeasure.Majoranas;
         var ts = majorana && f.MajoranaScramblingTime is not null ? f.MajoranaScramblingTime : f.ScramblingTime;
         FigureConvergence? Get(string name) => conv.FirstOrDefault(c => c.Figure == name);
         bool truncated = last.DiscardedTotal > 0 || point.Engine.Threshold > 0;
-        // No ladder: unknown unless nothing was discarded (then exact up to the integrator).
-        double? Trunc(string name) => Get(name)?.Movement ?? (ladder || truncated ? null : 0);
+        // A single budget: unknown unless nothing was discarded (then exact up to the integrator).
+        double? Trunc(string name) => Get(name)?.Movement ?? (series || truncated ? null : 0);
         bool oneD = pm.Model.Lattice.IsOneDimensional;
         var growth = oneD ? f.Growth.SizeLinear : f.Growth.SizeExponential;
         var bv = f.Butterfly;

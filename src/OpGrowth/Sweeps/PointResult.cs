@@ -3,9 +3,9 @@ namespace OpGrowth.Sweeps;
 /// <summary>
 /// What one point produced. Uncertainties are kept apart by origin: the grid error comes from the
 /// record spacing (how well the crossing time is located between recorded times), the truncation
-/// error from the convergence ladder (how far the figure moved between the two largest budgets);
+/// error from the budget series (how far the figure moved between the two largest budgets);
 /// statistical errors over disorder only appear after averaging over seeds (<see cref="SweepCollector"/>).
-/// A null truncation error means it was not estimated (no ladder); 0 means the run was exact.
+/// A null truncation error means it was not estimated (a single budget); 0 means the run was exact.
 /// </summary>
 public sealed record PointResult
 {
@@ -15,7 +15,7 @@ public sealed record PointResult
     /// <summary>Uncertainty of t* from locating the crossing between recorded times.</summary>
     public double TStarGridError { get; init; }
 
-    /// <summary>Uncertainty of t* from truncation (ladder); null when not estimated.</summary>
+    /// <summary>Uncertainty of t* from truncation (budget series); null when not estimated.</summary>
     public double? TStarTruncationError { get; init; }
 
     /// <summary>Statistical error of t* from the exact engine's random-state (typicality) traces; null for other engines.</summary>
@@ -34,7 +34,7 @@ public sealed record PointResult
     /// <summary>Fit error of the growth rate.</summary>
     public double? GrowthRateError { get; init; }
 
-    /// <summary>Truncation uncertainty of the growth rate (ladder); null when not estimated.</summary>
+    /// <summary>Truncation uncertainty of the growth rate (budget series); null when not estimated.</summary>
     public double? GrowthRateTruncationError { get; init; }
 
     /// <summary>The fit window of the growth rate, "t0..t1".</summary>
@@ -46,7 +46,7 @@ public sealed record PointResult
     /// <summary>Fit error of v_B (threshold sensitivity included).</summary>
     public double? VBError { get; init; }
 
-    /// <summary>Truncation uncertainty of v_B (ladder); null when not estimated.</summary>
+    /// <summary>Truncation uncertainty of v_B (budget series); null when not estimated.</summary>
     public double? VBTruncationError { get; init; }
 
     /// <summary>Total weight discarded by truncation (sum of c^2 dropped) in the run the figures come from.</summary>

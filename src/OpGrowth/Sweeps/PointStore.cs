@@ -40,7 +40,10 @@ public sealed class PointStore
     public string CorruptDirectory => Path.Combine(Root, "corrupt");
 
     /// <summary>Manifest of the current plan's points.</summary>
-    public string ManifestPath => Path.Combine(Root, "sweep.json");
+    public string ManifestPath => Path.Combine(Root, ManifestFileName);
+
+    /// <summary>File name of the manifest of points (what marks a folder as a sweep's results folder).</summary>
+    public const string ManifestFileName = "sweep.json";
 
     /// <summary>The resolved plan the sweep ran (array tasks read it).</summary>
     public string PlanPath => Path.Combine(Root, "plan.toml");

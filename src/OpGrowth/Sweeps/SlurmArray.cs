@@ -49,7 +49,7 @@ public static class SlurmArray
         sb.Append("exec");
         foreach (string c in command) sb.Append(' ').Append(ShellQuote(c));
         sb.Append(" sweep ").Append(ShellQuote(planPath));
-        sb.Append(" --results ").Append(ShellQuote(resultsDirectory));
+        sb.Append(" --out ").Append(ShellQuote(resultsDirectory));
         sb.Append(" --task-index \"$SLURM_ARRAY_TASK_ID\"");
         sb.Append(" --threads ").Append(options.CpusPerTask.ToString(ci));
         sb.Append('\n');

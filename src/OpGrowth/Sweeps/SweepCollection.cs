@@ -51,7 +51,7 @@ public sealed record SweepCollection
         }
         var (header, rows) = TableRows();
         Put("table.csv", Csv(header, rows));
-        Put("table.json", Json(header, rows));
+        Put("table.json", Json(JsonKeys(header), rows));
         Put("averages.csv", AveragesCsv());
         Put("series.csv", SeriesCsv());
         Put("timings.csv", TimingsCsv());
@@ -97,6 +97,19 @@ public sealed record SweepCollection
             rows.Add(cells.ToArray());
         }
         return (header, rows);
+    }
+
+    /// <summary>The table's JSON keys: camelCase names of the fixed columns (as in the point files); parameter columns keep their names.</summary>
+    private static IReadOnlyList<string> JsonKeys(IReadOnlyList<string> header)
+    {
+        var names = new Dictionary<string, string>(StringComparer.Ordinal)
+        {
+            ["N"] = "n", ["t_star"] = "tStar", ["t_star_grid_err"] = "tStarGridError", ["t_star_trunc_err"] = "tStarTruncationError",
+            ["t_star_sampling_err"] = "tStarSamplingError", ["growth_kind"] = "growthKind", ["growth_rate"] = "growthRate", ["growth_rate_err"] = "growthRateError",
+            ["growth_rate_trunc_err"] = "growthRateTruncationError", ["growth_window"] = "growthWindow", ["v_b"] = "vb", ["v_b_err"] = "vbError",
+            ["v_b_trunc_err"] = "vbTruncationError", ["discarded_weight"] = "discardedWeight", ["final_size_fraction"] = "finalSizeFraction", ["final_time"] = "finalTime",
+        };
+        return header.Select((h, i) => names.TryGetValue(h, out var k) ? k : h.StartsWith("param_", StringComparison.Ordinal) ? "param" + h["param_".Length..] : h).ToList();
     }
 
     private string AveragesCsv()
@@ -166,9 +179,11 @@ public sealed record SweepCollection
             }
             if (s.Comparison is { } c)
             {
-                sb.Append(CultureInfo.InvariantCulture, $"  log:    a = {c.Log.A:0.####} +- {c.Log.AError:0.####}, b = {c.Log.Slope:0.####} +- {c.Log.SlopeError:0.####}, chi2/dof = {c.Log.ReducedChiSquared:0.##}, AIC = {c.Log.Aic:0.##}\n");
-                string v = c.Linear.V is double vv ? $", v = {vv:0.####} +- {c.Linear.VError:0.####}" : "";
-                sb.Append(CultureInfo.InvariantCulture, $"  linear: a = {c.Linear.A:0.####} +- {c.Linear.AError:0.####}, 1/v = {c.Linear.Slope:0.####} +- {c.Linear.SlopeError:0.####}{v}, chi2/dof = {c.Linear.ReducedChiSquared:0.##}, AIC = {c.Linear.Aic:0.##}\n");
+                static string V(double x, double e) => Reporting.NumberFormat.ValueWithUncertainty(x, e);
+                static string N(double x) => Reporting.NumberFormat.Number(x, 3);
+                sb.Append($"  log:    a = {V(c.Log.A, c.Log.AError)}, b = {V(c.Log.Slope, c.Log.SlopeError)}, chi2/dof = {N(c.Log.ReducedChiSquared)}, AIC = {N(c.Log.Aic)}\n");
+                string v = c.Linear.V is double vv ? $", v = {V(vv, c.Linear.VError ?? double.NaN)}" : "";
+                sb.Append($"  linear: a = {V(c.Linear.A, c.Linear.AError)}, 1/v = {V(c.Linear.Slope, c.Linear.SlopeError)}{v}, chi2/dof = {N(c.Linear.ReducedChiSquared)}, AIC = {N(c.Linear.Aic)}\n");
                 sb.Append("  ").Append(c.Verdict).Append('\n');
             }
             if (s.Note is not null) sb.Append("  note: ").Append(s.Note).Append('\n');
@@ -177,7 +192,7 @@ public sealed record SweepCollection
         return sb.ToString();
     }
 
-    private static string Fmt(double? v) => v is double d ? d.ToString("0.####", Ci) : "-";
+    private static string Fmt(double? v) => v is double d ? Reporting.NumberFormat.Number(d, 4) : "-";
 
     private static string Cell(object? v) => v switch
     {
@@ -213,7 +228,7 @@ public sealed record SweepCollection
                     {
                         case null: w.WriteNullValue(); break;
                         case double d when double.IsFinite(d): w.WriteNumberValue(d); break;
-                        case double d: w.WriteStringValue(d.ToString("R", Ci)); break;
+                        case double: w.WriteNullValue(); break;
                         case int n: w.WriteNumberValue(n); break;
                         case long l: w.WriteNumberValue(l); break;
                         case bool b: w.WriteBooleanValue(b); break;

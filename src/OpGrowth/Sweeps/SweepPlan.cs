@@ -167,7 +167,7 @@ public sealed record SweepPlan
         sb.Append("method = ").Append(Quote(e.Method)).Append('\n');
         sb.Append("max_strings = ").Append(e.MaxStrings.ToString(ci)).Append('\n');
         sb.Append("threshold = ").Append(Num(e.Threshold)).Append('\n');
-        sb.Append("ladder = ").Append(e.Ladder.ToString(ci)).Append('\n');
+        sb.Append("budgets = ").Append(e.Budgets.ToString(ci)).Append('\n');
         sb.Append("samples = ").Append(e.Samples.ToString(ci)).Append('\n');
         sb.Append("sample_seed = ").Append(e.SampleSeed.ToString(ci)).Append('\n');
         sb.Append("front_fraction = ").Append(Num(e.FrontFraction)).Append('\n');

@@ -14,7 +14,7 @@ public static partial class SweepPlanReader
     internal static readonly string[] TopKeys = ["name", "description", "model", "parameters", "engine", "synthetic"];
     internal static readonly string[] ModelKeys = ["file", "files", "sizes", "seeds", "seed_parameter", "probes"];
     internal static readonly string[] EngineKeys =
-        ["engine", "exact_max_n", "time", "dt", "record_every", "method", "max_strings", "threshold", "ladder", "samples", "sample_seed", "front_fraction"];
+        ["engine", "exact_max_n", "time", "dt", "record_every", "method", "max_strings", "threshold", "budgets", "samples", "sample_seed", "front_fraction"];
     internal static readonly string[] SyntheticKeys = ["law", "a", "b", "noise", "truncation_fraction", "delay", "memory"];
     public static readonly IReadOnlyList<string> Engines = ["auto", "pauli", "exact", "synthetic"];
     internal static readonly string[] Methods = ["trotter2", "trotter4", "rk4"];
@@ -124,6 +124,7 @@ public static partial class SweepPlanReader
             plan = plan with { Probes = probes };
         }
 
+        var axisLines = new Dictionary<string, int>(StringComparer.Ordinal);
         if (root.Get("parameters") is { } pv)
         {
             var table = r.Table(pv, "[parameters]");
@@ -136,6 +137,7 @@ public static partial class SweepPlanReader
                 var values = r.DoubleRange(value, key);
                 if (values.Distinct().Count() != values.Count) throw new InputException(file, value.Line, $"found a value twice for parameter '{key}'; expected distinct values");
                 axes.Add(new ParameterAxis(key, values));
+                axisLines[key] = value.Line;
             }
             plan = plan with { Parameters = axes };
         }
@@ -157,7 +159,7 @@ public static partial class SweepPlanReader
                     "method" => engine with { Method = r.Choice(v, key, Methods) },
                     "max_strings" => engine with { MaxStrings = r.Int(v, key, 1, 1L << 40) },
                     "threshold" => engine with { Threshold = r.Double(v, key, 0, 1) },
-                    "ladder" => engine with { Ladder = (int)r.Int(v, key, 1, 3) },
+                    "budgets" => engine with { Budgets = (int)r.Int(v, key, 1, 3) },
                     "samples" => engine with { Samples = (int)r.Int(v, key, 1, 10_000) },
                     "sample_seed" => engine with { SampleSeed = r.Int(v, key, long.MinValue, long.MaxValue) },
                     "front_fraction" => engine with { FrontFraction = r.Double(v, key, 1e-6, 0.999999) },
@@ -165,6 +167,8 @@ public static partial class SweepPlanReader
                 };
             }
             if (engine.Dt > engine.Time) throw new InputException(file, t.Line, $"found dt = {EngineSettings.F(engine.Dt)} larger than time = {EngineSettings.F(engine.Time)}; expected dt <= time");
+            if (engine.Time / engine.Dt > Evolution.OperatorEvolution.MaxSteps)
+                throw new InputException(file, t.Line, $"found time = {EngineSettings.F(engine.Time)} with dt = {EngineSettings.F(engine.Dt)} ({engine.Time / engine.Dt:G3} steps); expected at most {Evolution.OperatorEvolution.MaxSteps:N0} steps per point");
         }
         if (root.Get("synthetic") is { } sv)
         {
@@ -188,9 +192,35 @@ public static partial class SweepPlanReader
             engine = engine with { Synthetic = s };
         }
         plan = plan with { Engine = engine };
+        CheckParameters(plan, file, axisLines, model.Get("seeds")?.Line ?? model.Line);
         long count = (long)plan.ModelFiles.Count * plan.Combinations().Count * plan.Probes.Count * plan.Sizes.Count * Math.Max(1, plan.Seeds.Count);
         if (count > MaxPoints) throw new InputException(file, 0, $"found a plan of {count} points; expected at most {MaxPoints}");
         return plan;
+    }
+
+    /// <summary>
+    /// Every swept parameter must be a parameter of every model file of the plan, and when seeds are given at
+    /// least one model must have the seed parameter (seeds apply only where it is declared): a misspelt name would
+    /// otherwise sweep nothing. <paramref name="file"/> and the lines name where the plan says it (null for options
+    /// given on the command line).
+    /// </summary>
+    public static void CheckParameters(SweepPlan plan, string? file, IReadOnlyDictionary<string, int>? axisLines = null, int seedLine = 0)
+    {
+        ArgumentNullException.ThrowIfNull(plan);
+        bool seeded = false;
+        foreach (string modelFile in plan.ModelFiles)
+        {
+            var m = Models.ModelLoader.Load(modelFile);
+            foreach (var axis in plan.Parameters)
+            {
+                if (m.Parameters.ContainsKey(axis.Name)) continue;
+                int line = axisLines is not null && axisLines.TryGetValue(axis.Name, out int l) ? l : 0;
+                throw new InputException(file, line, $"found parameter '{axis.Name}', which model {m.Name} ({Path.GetFileName(modelFile)}) does not have; expected one of {string.Join(", ", m.Parameters.Keys.Where(k => k != "N"))}");
+            }
+            seeded |= m.Parameters.ContainsKey(plan.SeedParameter);
+        }
+        if (plan.Seeds.Count > 0 && plan.ModelFiles.Count > 0 && !seeded)
+            throw new InputException(file, seedLine, $"found seeds, but no model of the plan has the parameter '{plan.SeedParameter}'; expected seeds only with a disordered model (or seed_parameter = the name of its seed parameter)");
     }
 
     /// <summary>Parses a byte size: "8GiB", "512MiB", "2GB", "750MB", or a plain number of bytes.</summary>

@@ -117,7 +117,7 @@ public class ScramblingAnalysisTests
             },
             ScramblingTime = new ScramblingTime { Value = ts, Definition = "d" },
         };
-        var list = LadderConvergence.Compare([Fig(1.50, 10), Fig(1.49, 8), Fig(1.40, 6)], 0.05);
+        var list = BudgetConvergence.Compare([Fig(1.50, 10), Fig(1.49, 8), Fig(1.40, 6)], 0.05);
         var vb = list.Single(c => c.Figure == "butterflyVelocity");
         Assert.True(vb.Converged);
         Assert.Equal(0.01, vb.Movement!.Value, 12);

@@ -16,14 +16,67 @@ public class CliTests
     }
 
     [Fact]
-    public void Help_ListsCommandsExamplesAndExitCodes()
+    public void Help_IsShortListsRunFirstWithExamplesAndExitCodes()
     {
         var (code, output, _) = Run("--help");
         Assert.Equal(0, code);
         Assert.Contains("Examples:", output);
-        Assert.Contains("opgrowth check mixed-field-ising", output);
-        Assert.Contains("models", output);
+        Assert.Contains("opgrowth run ", output);
         Assert.Contains("2 invalid input", output);
+        Assert.Contains("143 terminated (SIGTERM)", output);
+        var commands = output.Split('\n').SkipWhile(l => !l.StartsWith("Commands:", StringComparison.Ordinal)).Skip(1).TakeWhile(l => l.Trim().Length > 0).ToList();
+        Assert.StartsWith("  run ", commands[0]);
+        Assert.Equal(10, commands.Count);
+        Assert.True(output.Split('\n').Length < 40, "the top-level help stays short");
+    }
+
+    [Theory]
+    [InlineData("run")]
+    [InlineData("models")]
+    [InlineData("check")]
+    [InlineData("evolve")]
+    [InlineData("lanczos")]
+    [InlineData("exact")]
+    [InlineData("compare")]
+    [InlineData("diagnose")]
+    [InlineData("sweep")]
+    [InlineData("collect")]
+    public void EveryCommandHelp_HasExamples(string command)
+    {
+        var (code, output, _) = Run(command, "--help");
+        Assert.Equal(0, code);
+        Assert.Contains("Examples:", output);
+        Assert.Contains($"opgrowth {command}", output);
+    }
+
+    [Theory]
+    [InlineData("run")]
+    [InlineData("evolve")]
+    [InlineData("lanczos")]
+    [InlineData("exact")]
+    [InlineData("compare")]
+    [InlineData("sweep")]
+    public void SharedOptions_MeanTheSameEverywhere(string command)
+    {
+        // One name for the evolved operator, and the same --threads and --memory defaults in readable units.
+        var (_, output, _) = Run(command, "--help");
+        Assert.Contains("--probe", output);
+        Assert.Contains($"--threads <threads>", output);
+        Assert.Contains($"[default: {Environment.ProcessorCount}, every core]", output);
+        if (command is not ("exact" or "compare"))
+            Assert.Contains($"[default: {OpGrowth.Evolution.MemoryBudget.Format(OpGrowth.Evolution.MemoryBudget.DefaultBytes())}, half of this machine's memory]", output);
+    }
+
+    [Fact]
+    public void UsageError_IsOneLineWithoutTypeNames()
+    {
+        var (code, output, err) = Run("evolve", "xxz", "--time", "abc");
+        Assert.Equal(ExitCodes.Usage, code);
+        Assert.Equal("", output);
+        var line = Assert.Single(err.Split('\n', StringSplitOptions.RemoveEmptyEntries));
+        Assert.StartsWith("error: ", line);
+        Assert.DoesNotContain("System.", line);
+        Assert.Contains("--help", line);
     }
 
     [Fact]
@@ -58,7 +111,7 @@ public class CliTests
         Assert.Equal(3, r.GetProperty("seeds")[0].GetInt64());
         Assert.True(r.GetProperty("disordered").GetBoolean());
         Assert.Equal("all-to-all", r.GetProperty("lattice").GetProperty("kind").GetString());
-        Assert.True(r.GetProperty("norm_per_site").GetDouble() > 0);
+        Assert.True(r.GetProperty("normPerSite").GetDouble() > 0);
         Assert.Equal(JsonValueKind.Null, r.GetProperty("drive").ValueKind);
     }
 

@@ -22,7 +22,7 @@ public class ExactCommandTests
         string dir = TempDir();
         try
         {
-            var (code, output, err) = Run("exact", "mixed-field-ising", "--set", "N=6", "--operator", "Z_0", "--times", "0:2:5", "--out", dir);
+            var (code, output, err) = Run("exact", "mixed-field-ising", "--set", "N=6", "--probe", "Z_0", "--times", "0:2:5", "--out", dir);
             Assert.True(code == 0, err);
             Assert.Contains("mean size", output);
             using var doc = JsonDocument.Parse(File.ReadAllText(Path.Combine(dir, "exact-otoc.json")));
@@ -61,14 +61,16 @@ public class ExactCommandTests
     }
 
     [Theory]
-    [InlineData("--times", "0:x:3")]
-    [InlineData("--operator", "Q_0")]
-    [InlineData("--mode", "spectrum")]
-    [InlineData("--sites", "99")]
-    public void Exact_BadOption_ExitsWithInputError(string option, string value)
+    [InlineData("--times", "0:x:3", 2)]
+    [InlineData("--probe", "Q_0", 2)]
+    [InlineData("--against", "Q_1", 2)]
+    [InlineData("--mode", "spectrum", 1)]
+    [InlineData("--sites", "99", 2)]
+    public void Exact_BadOption_ExitsWithInputError(string option, string value, int expected)
     {
         var (code, _, err) = Run("exact", "mixed-field-ising", "--set", "N=6", option, value, "--out", TempDir());
-        Assert.Equal(2, code);
+        Assert.Equal(expected, code);
+        Assert.Single(err.Split('\n', StringSplitOptions.RemoveEmptyEntries));
         Assert.StartsWith("error:", err.Trim());
         Assert.DoesNotContain("   at ", err);
     }

@@ -26,8 +26,9 @@ public class LanczosCommandTests
         {
             var (code, output, err) = Run("lanczos", "transverse-field-ising", "--mode", "infinite-chain", "--depth", "12", "--t-max", "2", "--time-points", "21", "--out", dir);
             Assert.True(code == 0, err);
-            Assert.Contains("best growth class SquareRoot", output);
-            foreach (var f in new[] { "lanczos.json", "coefficients.csv", "dynamics.csv", "spectrum.csv", "summary.txt" }) Assert.True(File.Exists(Path.Combine(dir, f)), f);
+            Assert.Contains("best growth class sqrt", output);
+            Assert.Contains("no bound on lambda_L", output);
+            foreach (var f in new[] { "lanczos.json", "lanczos.csv", "krylov.csv", "spectrum.csv", "summary.txt" }) Assert.True(File.Exists(Path.Combine(dir, f)), f);
             using var doc = JsonDocument.Parse(File.ReadAllText(Path.Combine(dir, "lanczos.json")));
             var coeffs = doc.RootElement.GetProperty("coefficients");
             Assert.Equal(12, coeffs.GetArrayLength());
@@ -37,7 +38,7 @@ public class LanczosCommandTests
                 Assert.Equal(2 * Math.Sqrt(n), c.GetProperty("b").GetDouble(), 11);
             }
             // Gaussian: C(t) = exp(-2 t^2) (check-values.md [V]); 21 points up to t = 2; the sqrt(n) fit continues it exactly.
-            var lines = File.ReadAllLines(Path.Combine(dir, "dynamics.csv"));
+            var lines = File.ReadAllLines(Path.Combine(dir, "krylov.csv"));
             Assert.Equal(22, lines.Length);
             var last = lines[^1].Split(',');
             Assert.Equal(Math.Exp(-2 * 4.0), double.Parse(last[1], System.Globalization.CultureInfo.InvariantCulture), 8);
@@ -57,7 +58,7 @@ public class LanczosCommandTests
             var (code, output, err) = Run("lanczos", "mixed-field-ising", "--set", "N=12", "--mode", "truncated", "--depth", "14", "--max-strings", "400", "--out", dir);
             Assert.True(code == 0, err);
             Assert.Contains("truncated at budgets 100, 400", output);
-            var rows = File.ReadAllLines(Path.Combine(dir, "coefficients.csv"));
+            var rows = File.ReadAllLines(Path.Combine(dir, "lanczos.csv"));
             Assert.StartsWith("n,b,uncertainty", rows[0]);
             Assert.EndsWith("b_budget_100", rows[0]);
         }
@@ -108,7 +109,7 @@ public class LanczosCommandTests
     [InlineData("2000000", 2_000_000L)]
     public void TryParseMemory_Units_Parse(string text, long expected)
     {
-        Assert.True(LanczosCommand.TryParseMemory(text, out long b));
+        Assert.True(OpGrowth.Evolution.MemoryBudget.TryParse(text, out long b));
         Assert.Equal(expected, b);
     }
 }

@@ -49,8 +49,9 @@ public class ScramblingRunTests(QuickRunFixture fx) : IClassFixture<QuickRunFixt
     private static readonly string[] ExpectedFiles =
     [
         "report.html", "report.md", "report.json", "results.json", "manifest.json",
-        "data/evolution.csv", "data/size_distribution.csv", "data/site_weights.csv", "data/ladder.csv",
-        "data/lanczos.csv", "data/krylov.csv", "data/cross_check.csv", "data/diagnosis.json", "data/diagnosis.txt",
+        "data/evolution.csv", "data/steps.csv", "data/size_distribution.csv", "data/site_weights.csv", "data/otoc.csv",
+        "data/convergence.csv", "data/mean_size_by_budget.csv",
+        "data/lanczos.csv", "data/krylov.csv", "data/compare.csv", "data/diagnosis.json", "data/diagnosis.txt",
         "figures/size-distribution.png", "figures/mean-size.png", "figures/light-cone.png",
         "figures/lanczos.png", "figures/krylov.png", "figures/pauli-vs-exact.png", "figures/tstar-scaling.png",
         "figures/size-distribution.svg", "figures/tstar-scaling.svg",
@@ -76,16 +77,22 @@ public class ScramblingRunTests(QuickRunFixture fx) : IClassFixture<QuickRunFixt
     {
         string html = File.ReadAllText(Path.Combine(fx.Folder, "report.html"));
         int uris = Regex.Matches(html, "data:image/").Count;
-        Assert.Equal(7, fx.Result.FigureCount);
+        bool discarded = fx.Result.Evolution!.Main.Records[^1].DiscardedTotal > 0;
+        Assert.Equal(discarded ? 8 : 7, fx.Result.FigureCount);
         Assert.Equal(fx.Result.FigureCount, uris);
         foreach (string id in new[] { "fig-size-distribution", "fig-mean-size", "fig-light-cone", "fig-lanczos", "fig-krylov", "fig-pauli-vs-exact", "fig-tstar-scaling" })
             Assert.Contains("id=\"" + id + "\"", html);
+        if (discarded) Assert.Contains("id=\"fig-discarded-weight\"", html);
         // The diagnosis table and the t*(N) table are in both report forms.
         string md = File.ReadAllText(Path.Combine(fx.Folder, "report.md"));
         foreach (string doc in new[] { html, md })
         {
             Assert.Contains("Diagnosis", doc);
-            Assert.Contains("leading mechanism", doc);
+            // A mechanism is named only when it adds something: never "leading mechanism: scrambles".
+            Assert.DoesNotContain("leading mechanism: scrambles", doc);
+            Assert.DoesNotContain("LinearOverLog", doc);
+            Assert.DoesNotContain("+ -", doc);
+            Assert.DoesNotContain("model:0", doc);
             Assert.Contains("Scrambling time against size", doc);
             Assert.Contains("b ln N", doc);
         }
@@ -115,7 +122,8 @@ public class ScramblingRunTests(QuickRunFixture fx) : IClassFixture<QuickRunFixt
         // The run's verdict is the battery's.
         var verdict = doc.RootElement.GetProperty("verdict");
         Assert.Equal(diag.GetProperty("overall").GetProperty("verdict").GetString(), verdict.GetProperty("outcome").GetString());
-        Assert.Equal(diag.GetProperty("overall").GetProperty("leadingMechanism").GetString(), verdict.GetProperty("mechanism").GetString());
+        string leading = diag.GetProperty("overall").GetProperty("leadingMechanism").GetString()!;
+        Assert.Equal(leading is "scrambles" or "undetermined" ? "-" : leading, verdict.GetProperty("mechanism").GetString());
 
         // Sweep: three sizes, both fits with errors, a preferred law.
         var sweep = doc.RootElement.GetProperty("sweep");
@@ -211,6 +219,35 @@ public class ScramblingRunTests(QuickRunFixture fx) : IClassFixture<QuickRunFixt
     }
 
     [Fact]
+    public void Execute_QuickRun_EveryJsonFileIsCamelCase()
+    {
+        // One key style in every JSON file the run writes (the battery's own data/diagnosis.json aside); model
+        // parameters and overrides are user-named dictionaries.
+        foreach (string f in Directory.GetFiles(fx.Folder, "*.json", SearchOption.AllDirectories))
+        {
+            if (Path.GetFileName(f) == "diagnosis.json" || f.Contains(Path.Combine("sweep", "points"), StringComparison.Ordinal)) continue;
+            OpGrowth.Tests.Reporting.JsonOutputTests.AssertCamelCase(File.ReadAllText(f), Path.GetRelativePath(fx.Folder, f), "parameters", "overrides", "timingsSeconds", "settings");
+        }
+    }
+
+    [Fact]
+    public void Execute_QuickRun_StatesEachHeadlineOnce()
+    {
+        // The verdict table reuses the headline figures (same value and uncertainty), and the report names a
+        // leading mechanism only when it adds something.
+        var r = fx.Result;
+        var vb = r.Headlines.SingleOrDefault(h => h.Name == EvolutionHeadlines.ButterflyVelocity);
+        var front = r.Verdicts.SingleOrDefault(v => v.Test == "ballistic operator front");
+        if (vb is not null && front is not null) Assert.Same(vb.Value, front.Figure);
+        var alpha = r.Headlines.Single(h => h.Name == RunReport.LanczosSlope);
+        Assert.Same(alpha.Value, r.Verdicts.Single(v => v.Test == "Lanczos growth class").Figure);
+        Assert.Equal(1, r.Headlines.Count(h => h.Name == RunReport.LanczosSlope));
+        if (r.Krylov!.Growth!.BoundApplies) Assert.Contains(r.Headlines, h => h.Name == RunReport.LyapunovBound);
+        else Assert.DoesNotContain(r.Headlines, h => h.Name == RunReport.LyapunovBound);
+        Assert.DoesNotContain(r.Headlines, h => h.Name.Contains("agreement", StringComparison.Ordinal));
+    }
+
+    [Fact]
     public void Execute_QuickRun_EveryPngCarriesText()
     {
         foreach (string png in Directory.GetFiles(Path.Combine(fx.Folder, "figures"), "*.png"))
@@ -243,7 +280,8 @@ public class RunCommandTests
             int code = OpGrowth.Cli.Program.Run(["run", "mixed-field-ising", "--set", "N=8", "--effort", "quick", "--no-lanczos", "--no-diagnosis", "--threads", "2", "--out", dir], o, e);
             Assert.True(code == 0, e.ToString());
             Assert.Contains("scrambling time t*", o.ToString());
-            Assert.Contains("VERDICT:", o.ToString());
+            Assert.Contains("verdict: ", o.ToString());
+            Assert.Contains("discarded weight: ", o.ToString());
             using (var doc = JsonDocument.Parse(File.ReadAllBytes(Path.Combine(dir, "results.json"))))
             {
                 Assert.False(doc.RootElement.GetProperty("diagnosis").GetProperty("ran").GetBoolean());

@@ -34,7 +34,7 @@ internal static class SampleData
             ScramblingTime = new Measured(2.6, 0.1, "first time n(t) = 3N/8"),
             Budget = 100_000,
             Uncertainty = n.Select(x => 0.02 * x).ToArray(),
-            Ladder = [new LadderCurve(10_000, Times, n.Select((x, i) => x * (1 - 0.02 * Times[i])).ToArray())],
+            Budgets = [new BudgetCurve(10_000, Times, n.Select((x, i) => x * (1 - 0.02 * Times[i])).ToArray())],
         };
     }
 

@@ -23,7 +23,7 @@ public class PointIdentityTests
         // Pinned: the canonical form must never change silently, or every stored result would be recomputed
         // (and, worse, a changed meaning could reuse old files). Change SchemaVersion deliberately instead.
         Assert.Equal(
-            """{"engine":{"dt":"0.05","engine":"pauli","front_fraction":"0.5","ladder":"2","max_strings":"200000","method":"trotter2","record_every":"2","threshold":"0","time":"20"},"model_sha256":"ab12","n":12,"parameters":{"g":"1.05","h":"0.5"},"probe":"Z_0","schema":"opgrowth.sweep-point/1","seed":"3","seed_parameter":"seed"}""",
+            """{"engine":{"budgets":"2","dt":"0.05","engine":"pauli","front_fraction":"0.5","max_strings":"200000","method":"trotter2","record_every":"2","threshold":"0","time":"20"},"model_sha256":"ab12","n":12,"parameters":{"g":"1.05","h":"0.5"},"probe":"Z_0","schema":"opgrowth.sweep-point/1","seed":"3","seed_parameter":"seed"}""",
             PointIdentity.CanonicalJson("ab12", 12, Params, 3, "seed", "Z_0", e));
         Assert.Equal(PointIdentity.Sha256Hex(System.Text.Encoding.UTF8.GetBytes(PointIdentity.CanonicalJson("ab12", 12, Params, 3, "seed", "Z_0", e)))[..16], a);
     }
@@ -51,7 +51,7 @@ public class PointIdentityTests
             ("method", Id(pauli with { Method = "trotter4" })),
             ("max_strings", Id(pauli with { MaxStrings = 200_001 })),
             ("threshold", Id(pauli with { Threshold = 1e-8 })),
-            ("ladder", Id(pauli with { Ladder = 3 })),
+            ("budgets", Id(pauli with { Budgets = 3 })),
             ("front_fraction", Id(pauli with { FrontFraction = 0.25 })),
             ("engine exact", Id(exact)),
             ("samples", Id(exact with { Samples = 8 })),

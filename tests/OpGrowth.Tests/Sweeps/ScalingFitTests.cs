@@ -84,6 +84,41 @@ public class ScalingFitTests
     }
 
     [Fact]
+    public void Compare_ThreeSizesNeitherLawFits_ClaimsNoEvidence()
+    {
+        // Three sizes, one realisation, errors far smaller than the scatter: both fits have chi2/dof >> 1 (the case
+        // that once printed "very strong evidence, Akaike weight 1.000"). A lower AIC between two laws that both
+        // fail the chi^2 test at the 1% level is not evidence (Eadie et al. 1971; common practice).
+        double[] n = [8, 10, 12];
+        double[] y = [2.0, 3.1, 3.3];
+        var c = FitComparison.Compare(n, y, [0.05, 0.05, 0.05]);
+        Assert.True(c.Log.ReducedChiSquared > 10 && c.Linear.ReducedChiSquared > 10, $"{c.Log.ReducedChiSquared} {c.Linear.ReducedChiSquared}");
+        Assert.Equal("neither", c.Preferred);
+        Assert.Equal("none", c.Strength);
+        Assert.Contains("neither law describes the data", c.Verdict);
+        Assert.DoesNotContain("strong", c.Verdict);
+        Assert.DoesNotContain("1.000", c.Verdict);
+    }
+
+    [Fact]
+    public void Compare_FewSizesOrNoErrors_AtMostWeak()
+    {
+        // Good fits on three sizes: one degree of freedom per law, so at most weak evidence however large Delta AIC is.
+        double[] n = [8, 16, 32];
+        var y = n.Select(x => 1 + 0.25 * x).ToArray();
+        var three = FitComparison.Compare(n, y, [0.01, 0.01, 0.01]);
+        Assert.Equal("linear", three.Preferred);
+        Assert.Equal("weak", three.Strength);
+        Assert.Contains("only 3 sizes", three.Verdict);
+        // Seven sizes without error estimates: nothing to test the fits against.
+        double[] n7 = [8, 12, 16, 24, 32, 48, 64];
+        var unweighted = FitComparison.Compare(n7, n7.Select(x => 1 + 0.25 * x + 0.01 * Math.Sin(x)).ToArray(), n7.Select(_ => 0.0).ToArray());
+        Assert.Equal("linear", unweighted.Preferred);
+        Assert.Equal("weak", unweighted.Strength);
+        Assert.Contains("no error estimates", unweighted.Verdict);
+    }
+
+    [Fact]
     public void Bootstrap_StandardError_ApproachesAnalyticLimit()
     {
         // For the mean, the bootstrap error tends to sqrt(sum (x - mean)^2) / n (Efron 1979).

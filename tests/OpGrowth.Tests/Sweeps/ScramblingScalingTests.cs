@@ -38,7 +38,7 @@ public class ScramblingScalingTests(ITestOutputHelper output)
             dt = 0.1
             record_every = 1
             max_strings = 100000
-            ladder = 2
+            budgets = 2
             """;
         var c = RunSweep(kit, plan);
         var s = Assert.Single(c.Series);
@@ -46,7 +46,7 @@ public class ScramblingScalingTests(ITestOutputHelper output)
         Assert.Equal(5, s.Data.Count(a => a.TStar is not null));
         var cmp = s.Comparison!;
         Assert.Equal("linear", cmp.Preferred);
-        // v_B from the sizes whose ladder converged and whose front had room to move (N >= 12).
+        // v_B from the sizes whose budget series converged and whose front had room to move (N >= 12).
         var vbs = c.Points.Where(p => p.N >= 12 && p.Result.Converged && p.Result.VB is not null).Select(p => p.Result.VB!.Value).ToList();
         Assert.NotEmpty(vbs);
         double vb = vbs.Average();
@@ -117,7 +117,7 @@ public class ScramblingScalingTests(ITestOutputHelper output)
             dt = 0.02
             record_every = 2
             max_strings = 100000
-            ladder = 1
+            budgets = 1
             """;
         var pauli = RunSweep(kit, plan.Replace("ENGINE", "pauli", StringComparison.Ordinal)).Points.Single().Result;
         using var kit2 = new SweepTestKit();

@@ -23,7 +23,7 @@ public class SlurmArrayTests(ITestOutputHelper output)
         Assert.Contains("#SBATCH --time=01:00:00\n", s, StringComparison.Ordinal);
         Assert.Contains("#SBATCH --account=phys\n", s, StringComparison.Ordinal);
         Assert.Contains("#SBATCH --output=/shared/run 1/slurm/%x-%A_%a.out\n", s, StringComparison.Ordinal);
-        Assert.Contains("exec /usr/bin/dotnet /opt/og/opgrowth.dll sweep '/shared/run 1/plan.toml' --results '/shared/run 1' --task-index \"$SLURM_ARRAY_TASK_ID\" --threads 2\n", s, StringComparison.Ordinal);
+        Assert.Contains("exec /usr/bin/dotnet /opt/og/opgrowth.dll sweep '/shared/run 1/plan.toml' --out '/shared/run 1' --task-index \"$SLURM_ARRAY_TASK_ID\" --threads 2\n", s, StringComparison.Ordinal);
     }
 
     [Fact]

@@ -19,7 +19,7 @@ public class SweepCliTests(ITestOutputHelper output)
         string killed = kit.Path("killed"), clean = kit.Path("clean");
         int total = 18;
 
-        using (var p = SweepTestKit.StartCli("sweep", plan, "--results", killed, "--jobs", "2"))
+        using (var p = SweepTestKit.StartCli("sweep", plan, "--out", killed, "--jobs", "2"))
         {
             p.StandardOutput.ReadToEndAsync();
             p.StandardError.ReadToEndAsync();
@@ -39,11 +39,11 @@ public class SweepCliTests(ITestOutputHelper output)
             Assert.Null(problem);
         }
 
-        var rerun = SweepTestKit.RunCli(TimeSpan.FromMinutes(2), "sweep", plan, "--results", killed, "--jobs", "2");
+        var rerun = SweepTestKit.RunCli(TimeSpan.FromMinutes(2), "sweep", plan, "--out", killed, "--jobs", "2");
         Assert.True(rerun.Code == 0, rerun.Stderr);
         Assert.Contains($"{done} already done, {total - done} to run", rerun.Stderr, StringComparison.Ordinal);
 
-        var fresh = SweepTestKit.RunCli(TimeSpan.FromMinutes(2), "sweep", plan, "--results", clean, "--jobs", "2");
+        var fresh = SweepTestKit.RunCli(TimeSpan.FromMinutes(2), "sweep", plan, "--out", clean, "--jobs", "2");
         Assert.True(fresh.Code == 0, fresh.Stderr);
         foreach (string f in new[] { "table.csv", "table.json", "averages.csv", "fits.json", "series.csv" })
         {
@@ -124,7 +124,7 @@ public class SweepCliTests(ITestOutputHelper output)
         const int total = 6;
         var clock = Stopwatch.StartNew();
         int done;
-        using (var p = SweepTestKit.StartCli("sweep", plan, "--results", killed, "--jobs", "1", "--no-figures"))
+        using (var p = SweepTestKit.StartCli("sweep", plan, "--out", killed, "--jobs", "1", "--no-figures"))
         {
             p.StandardOutput.ReadToEndAsync();
             p.StandardError.ReadToEndAsync();
@@ -138,10 +138,10 @@ public class SweepCliTests(ITestOutputHelper output)
         Assert.InRange(done, 1, total - 1);
         Assert.False(File.Exists(Path.Combine(killed, "table.csv")));
 
-        var rerun = SweepTestKit.RunCli(TimeSpan.FromMinutes(2), "sweep", plan, "--results", killed, "--jobs", "1", "--no-figures");
+        var rerun = SweepTestKit.RunCli(TimeSpan.FromMinutes(2), "sweep", plan, "--out", killed, "--jobs", "1", "--no-figures");
         Assert.True(rerun.Code == 0, rerun.Stderr);
         Assert.Contains($"{done} already done, {total - done} to run", rerun.Stderr, StringComparison.Ordinal);
-        var fresh = SweepTestKit.RunCli(TimeSpan.FromMinutes(2), "sweep", plan, "--results", clean, "--jobs", "1", "--no-figures");
+        var fresh = SweepTestKit.RunCli(TimeSpan.FromMinutes(2), "sweep", plan, "--out", clean, "--jobs", "1", "--no-figures");
         Assert.True(fresh.Code == 0, fresh.Stderr);
         foreach (string f in new[] { "table.csv", "table.json", "averages.csv", "fits.json", "series.csv" })
         {
@@ -167,7 +167,7 @@ public class SweepCliTests(ITestOutputHelper output)
         using var kit = new SweepTestKit();
         string plan = kit.WritePlan(SweepTestKit.SyntheticPlan(sizes: "[8, 12, 16]", seeds: "[1, 2]"));
         string dir = kit.Path("out"), clean = kit.Path("clean");
-        var first = SweepTestKit.RunCli(TimeSpan.FromMinutes(1), "sweep", plan, "--results", dir);
+        var first = SweepTestKit.RunCli(TimeSpan.FromMinutes(1), "sweep", plan, "--out", dir);
         Assert.True(first.Code == 0, first.Stderr);
         string reference = File.ReadAllText(Path.Combine(dir, "table.csv"));
         var files = Directory.GetFiles(Path.Combine(dir, "points"), "*.json").Order(StringComparer.Ordinal).ToArray();
@@ -178,7 +178,7 @@ public class SweepCliTests(ITestOutputHelper output)
         File.WriteAllText(tampered, text[..i] + "9" + text[i..]);   // t* gains a leading 9: still valid JSON
         File.Delete(Path.Combine(dir, "table.csv"));
 
-        var again = SweepTestKit.RunCli(TimeSpan.FromMinutes(1), "sweep", plan, "--results", dir);
+        var again = SweepTestKit.RunCli(TimeSpan.FromMinutes(1), "sweep", plan, "--out", dir);
         Assert.True(again.Code == 0, again.Stderr);
         output.WriteLine(again.Stderr);
         Assert.Contains($"corrupt point file {truncated}: is not valid JSON (truncated or damaged", again.Stderr, StringComparison.Ordinal);
@@ -187,7 +187,7 @@ public class SweepCliTests(ITestOutputHelper output)
         Assert.Contains("2 computed, 4 skipped, 0 failed, 2 corrupt files replaced", again.Stderr, StringComparison.Ordinal);
         Assert.Equal(2, Directory.GetFiles(Path.Combine(dir, "corrupt")).Length);
         Assert.Equal(reference, File.ReadAllText(Path.Combine(dir, "table.csv")));
-        var fresh = SweepTestKit.RunCli(TimeSpan.FromMinutes(1), "sweep", plan, "--results", clean);
+        var fresh = SweepTestKit.RunCli(TimeSpan.FromMinutes(1), "sweep", plan, "--out", clean);
         Assert.True(fresh.Code == 0, fresh.Stderr);
         Assert.Equal(File.ReadAllText(Path.Combine(clean, "table.csv")), File.ReadAllText(Path.Combine(dir, "table.csv")));
         Assert.Equal(File.ReadAllText(Path.Combine(clean, "fits.json")), File.ReadAllText(Path.Combine(dir, "fits.json")));
@@ -199,7 +199,7 @@ public class SweepCliTests(ITestOutputHelper output)
         using var kit = new SweepTestKit();
         string plan = kit.WritePlan(SweepTestKit.SyntheticPlan(sizes: "[8, 12, 16]", seeds: "[1]"));
         string dir = kit.Path("out");
-        var first = SweepTestKit.RunCli(TimeSpan.FromMinutes(1), "sweep", plan, "--results", dir);
+        var first = SweepTestKit.RunCli(TimeSpan.FromMinutes(1), "sweep", plan, "--out", dir);
         Assert.True(first.Code == 0, first.Stderr);
         string victim = Directory.GetFiles(Path.Combine(dir, "points"))[0];
         File.WriteAllText(victim, File.ReadAllText(victim)[..100]);
@@ -208,7 +208,7 @@ public class SweepCliTests(ITestOutputHelper output)
         Assert.Contains("corrupt point file", c.Stderr, StringComparison.Ordinal);
         Assert.Contains("1 missing", c.Stdout, StringComparison.Ordinal);
         Assert.Equal(3, File.ReadAllLines(Path.Combine(dir, "table.csv")).Length);   // header + 2 sound points
-        var again = SweepTestKit.RunCli(TimeSpan.FromMinutes(1), "sweep", plan, "--results", dir);
+        var again = SweepTestKit.RunCli(TimeSpan.FromMinutes(1), "sweep", plan, "--out", dir);
         Assert.Equal(0, again.Code);
         Assert.Equal(4, File.ReadAllLines(Path.Combine(dir, "table.csv")).Length);
         output.WriteLine(c.Stderr);
@@ -219,7 +219,7 @@ public class SweepCliTests(ITestOutputHelper output)
     {
         using var kit = new SweepTestKit();
         string plan = kit.WritePlan("[model]\nfile = \"model.toml\"\nsizes = [8]\nsizez = 3\n");
-        var r = SweepTestKit.RunCli(TimeSpan.FromMinutes(1), "sweep", plan, "--results", kit.Path("out"));
+        var r = SweepTestKit.RunCli(TimeSpan.FromMinutes(1), "sweep", plan, "--out", kit.Path("out"));
         Assert.Equal(2, r.Code);
         Assert.Equal($"error: {plan}:4: found unknown key 'sizez' in [model] (did you mean 'sizes'?); expected one of file, files, sizes, seeds, seed_parameter, probes", r.Stderr.Trim());
     }
@@ -230,14 +230,14 @@ public class SweepCliTests(ITestOutputHelper output)
         using var kit = new SweepTestKit();
         string dir = kit.Path("cli");
         var dry = SweepTestKit.RunCli(TimeSpan.FromMinutes(1), "sweep", "--model", kit.ModelFile, "--sizes", "8:16:4", "--seeds", "1,2",
-            "--grid", "h=0.3,0.6", "--probe", "Z_{N-1}", "--engine", "synthetic", "--results", dir, "--dry-run");
+            "--grid", "h=0.3,0.6", "--probe", "Z_{N-1}", "--engine", "synthetic", "--out", dir, "--dry-run");
         Assert.True(dry.Code == 0, dry.Stderr);
         var lines = dry.Stdout.Split('\n', StringSplitOptions.RemoveEmptyEntries);
         Assert.Equal(1 + 3 * 2 * 2, lines.Length);
         Assert.Contains("model N=16 h=0.6 seed=2 Z_15 synthetic", dry.Stdout, StringComparison.Ordinal);
         Assert.All(lines.Skip(1), l => Assert.Contains(" todo ", l, StringComparison.Ordinal));
         var run = SweepTestKit.RunCli(TimeSpan.FromMinutes(1), "sweep", "--model", kit.ModelFile, "--sizes", "8:16:4", "--seeds", "1,2",
-            "--grid", "h=0.3,0.6", "--probe", "Z_{N-1}", "--engine", "synthetic", "--results", dir);
+            "--grid", "h=0.3,0.6", "--probe", "Z_{N-1}", "--engine", "synthetic", "--out", dir);
         Assert.True(run.Code == 0, run.Stderr);
         Assert.Equal(13, File.ReadAllLines(Path.Combine(dir, "table.csv")).Length);
         // Two series (h = 0.3 and 0.6), each fitted over three sizes.
@@ -246,7 +246,7 @@ public class SweepCliTests(ITestOutputHelper output)
         var saved = SweepPlanReader.Load(Path.Combine(dir, "plan.toml"));
         var manifest = SweepManifest.Load(Path.Combine(dir, "sweep.json"))!;
         Assert.Equal(manifest.Points.Select(p => p.Id), saved.Expand().Select(p => p.Id));
-        var task = SweepTestKit.RunCli(TimeSpan.FromMinutes(1), "sweep", Path.Combine(dir, "plan.toml"), "--results", dir, "--task-index", "99");
+        var task = SweepTestKit.RunCli(TimeSpan.FromMinutes(1), "sweep", Path.Combine(dir, "plan.toml"), "--out", dir, "--task-index", "99");
         Assert.Equal(2, task.Code);
         Assert.Contains("expected 0..11", task.Stderr, StringComparison.Ordinal);
     }
@@ -256,7 +256,7 @@ public class SweepCliTests(ITestOutputHelper output)
     public void Sweep_EngineNotInThisBuild_IsInputErrorBeforeRunning()
     {
         using var kit = new SweepTestKit();
-        var r = SweepTestKit.RunCli(TimeSpan.FromMinutes(1), "sweep", "--model", kit.ModelFile, "--sizes", "8", "--engine", "pauli", "--results", kit.Path("x"));
+        var r = SweepTestKit.RunCli(TimeSpan.FromMinutes(1), "sweep", "--model", kit.ModelFile, "--sizes", "8", "--engine", "pauli", "--out", kit.Path("x"));
         Assert.Equal(2, r.Code);
         Assert.Contains("needs the Pauli engine, which this build does not include", r.Stderr, StringComparison.Ordinal);
     }

@@ -25,7 +25,7 @@ public class SweepPlanTests
         time = 12
         dt = 0.1
         max_strings = 50000
-        ladder = 3
+        budgets = 3
         """;
 
     [Fact]
@@ -37,7 +37,7 @@ public class SweepPlanTests
         Assert.Equal([8, 12, 16], plan.Sizes);
         Assert.Equal([1L, 2L], plan.Seeds);
         Assert.Equal(12, plan.Engine.Time);
-        Assert.Equal(3, plan.Engine.Ladder);
+        Assert.Equal(3, plan.Engine.Budgets);
         var points = plan.Expand();
         // 1 model x 2 h-values x 1 g x 2 probes x 3 sizes x 2 seeds.
         Assert.Equal(24, points.Count);
@@ -75,7 +75,7 @@ public class SweepPlanTests
     [InlineData("[model]\nfile = \"model.toml\"\nsizes = [8]\n[engine]\nengine = \"paul\"", 5, "found the string \"paul\" for 'engine' (did you mean 'pauli'?)")]
     [InlineData("[model]\nfile = \"model.toml\"\nsizes = [8]\n[engine]\ntime = \"long\"", 5, "found the string \"long\" for 'time'; expected a number")]
     [InlineData("[model]\nfile = \"model.toml\"\nsizes = [8]\n[engine]\ntime = -1.0", 5, "expected a finite number")]
-    [InlineData("[model]\nfile = \"model.toml\"\nsizes = [8]\n[engine]\nladder = 4", 5, "expected an integer in 1..3")]
+    [InlineData("[model]\nfile = \"model.toml\"\nsizes = [8]\n[engine]\nbudgets = 4", 5, "expected an integer in 1..3")]
     [InlineData("[model]\nfile = \"model.toml\"\nsizes = [8]\n[engine]\nmax_strings = 1.5", 5, "expected an integer")]
     [InlineData("[model]\nfile = \"model.toml\"\nsizes = [8]\n[engine]\nmethod = \"euler\"", 5, "expected one of \"trotter2\", \"trotter4\", \"rk4\"")]
     [InlineData("[model]\nfile = \"model.toml\"\nsizes = [8]\n[engine]\ndt = 2.0\ntime = 1.0", 4, "found dt = 2 larger than time = 1")]

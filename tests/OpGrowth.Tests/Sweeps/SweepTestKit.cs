@@ -129,10 +129,15 @@ internal sealed class SweepTestKit : IDisposable
     /// whatever Process.Kill uses) and waits for it to end. Returns the exit code: 137 = 128 + SIGKILL(9)
     /// is how .NET reports a child ended by that signal.
     /// </summary>
-    public static int SigKill(Process p)
+    public static int SigKill(Process p) => Signal(p, "-KILL");
+
+    /// <summary>Sends SIGTERM (what Slurm sends at a time limit) and waits for the child to end; returns its exit code.</summary>
+    public static int SigTerm(Process p) => Signal(p, "-TERM");
+
+    private static int Signal(Process p, string signal)
     {
         string kill = SlurmArray.FindOnPath("kill") ?? "/bin/kill";
-        using (var k = Process.Start(new ProcessStartInfo(kill) { ArgumentList = { "-KILL", p.Id.ToString(System.Globalization.CultureInfo.InvariantCulture) }, UseShellExecute = false })!)
+        using (var k = Process.Start(new ProcessStartInfo(kill) { ArgumentList = { signal, p.Id.ToString(System.Globalization.CultureInfo.InvariantCulture) }, UseShellExecute = false })!)
         {
             k.WaitForExit();
         }

@@ -1,10 +1,10 @@
 namespace OpGrowth.Analysis;
 
-/// <summary>Compares the derived figures of the ladder's rungs (full budget first).</summary>
-public static class LadderConvergence
+/// <summary>Compares the derived figures of the runs of a budget series (full budget first).</summary>
+public static class BudgetConvergence
 {
     /// <summary>One entry per figure.</summary>
-    public static List<FigureConvergence> Compare(IReadOnlyList<ScramblingFigures> rungs, double tolerance)
+    public static List<FigureConvergence> Compare(IReadOnlyList<ScramblingFigures> runs, double tolerance)
     {
         var pick = new (string Name, Func<ScramblingFigures, double?> Get)[]
         {
@@ -19,7 +19,7 @@ public static class LadderConvergence
         var list = new List<FigureConvergence>();
         foreach (var (name, get) in pick)
         {
-            var vals = rungs.Select(get).ToArray();
+            var vals = runs.Select(get).ToArray();
             if (vals.All(v => v is null)) continue;
             double? mv = vals.Length > 1 && vals[0] is double a && vals[1] is double b ? Math.Abs(a - b) : null;
             double? pm = vals.Length > 2 && vals[1] is double b1 && vals[2] is double c ? Math.Abs(b1 - c) : null;
