@@ -21,6 +21,23 @@ internal static class Program
             QuickEvolution.Run(long.Parse(args[1], System.Globalization.CultureInfo.InvariantCulture), int.Parse(args[2], System.Globalization.CultureInfo.InvariantCulture), int.Parse(args[3], System.Globalization.CultureInfo.InvariantCulture), args.Length > 4 ? int.Parse(args[4], System.Globalization.CultureInfo.InvariantCulture) : 0);
             return;
         }
+        if (args.Length > 3 && args[0] == "quick-apply")
+        {
+            QuickExact.Apply(args[1], int.Parse(args[2], System.Globalization.CultureInfo.InvariantCulture), int.Parse(args[3], System.Globalization.CultureInfo.InvariantCulture), args.Length > 4 ? int.Parse(args[4], System.Globalization.CultureInfo.InvariantCulture) : 5);
+            return;
+        }
+        if (args.Length > 3 && args[0] == "quick-tstar")
+        {
+            var ci = System.Globalization.CultureInfo.InvariantCulture;
+            QuickScramblingTime.Run(args[1], int.Parse(args[2], ci), int.Parse(args[3], ci), args.Length > 4 ? int.Parse(args[4], ci) : 1, args.Length > 5 ? int.Parse(args[5], ci) : 1);
+            return;
+        }
+        if (args.Length > 5 && args[0] == "quick-sizecheck")
+        {
+            var ci = System.Globalization.CultureInfo.InvariantCulture;
+            QuickSizeCheck.Run(args[1], int.Parse(args[2], ci), double.Parse(args[3], ci), int.Parse(args[4], ci), int.Parse(args[5], ci));
+            return;
+        }
         BenchmarkSwitcher.FromAssembly(typeof(Program).Assembly).Run(args);
     }
 }
