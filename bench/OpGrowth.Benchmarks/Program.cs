@@ -38,6 +38,17 @@ internal static class Program
             QuickSizeCheck.Run(args[1], int.Parse(args[2], ci), double.Parse(args[3], ci), int.Parse(args[4], ci), int.Parse(args[5], ci));
             return;
         }
+        if (args.Length > 1 && args[0] == "quick-svd")
+        {
+            QuickSvd.Run(int.Parse(args[1], System.Globalization.CultureInfo.InvariantCulture));
+            return;
+        }
+        if (args.Length > 6 && args[0] == "quick-front")
+        {
+            var ci = System.Globalization.CultureInfo.InvariantCulture;
+            QuickFront.Run(args[1], int.Parse(args[2], ci), args[3], double.Parse(args[4], ci), double.Parse(args[5], ci), args[6].Split(',').Select(x => int.Parse(x, ci)).ToArray());
+            return;
+        }
         BenchmarkSwitcher.FromAssembly(typeof(Program).Assembly).Run(args);
     }
 }

@@ -43,7 +43,7 @@ internal static class QuickScramblingTime
             Threads = threads,
             Samples = samples,
             Seed = seed,
-            ProbeGroups = int.Parse(Environment.GetEnvironmentVariable("OPGROWTH_PROBE_GROUPS") ?? "1", CultureInfo.InvariantCulture),
+            ProbeGroups = int.Parse(Environment.GetEnvironmentVariable("OPGROWTH_PROBE_GROUPS") ?? "0", CultureInfo.InvariantCulture) is int pg && pg > 0 ? pg : ScramblingTimeSearch.DefaultProbeGroups(n, m.Lattice.Diameter),
         });
         foreach (var e in r.Evaluations) Console.WriteLine($"  n({e.Time:0.#####}) = {e.MeanSize:0.####} +- {e.Error:0.####}");
         Console.WriteLine($"{model} N = {n}: t* = {r.TStar:0.#####} (location {r.LocationError:G2}, sampling {r.SamplingError:G2}; {r.SamplingErrorKind}), {r.Evaluations.Count - 1} evaluations, {r.MatrixVectorProducts} H applications, {sw.Elapsed.TotalSeconds:0.0} s wall, vectors {r.VectorBytes / 1048576.0:0} MiB");
@@ -62,5 +62,48 @@ internal static class QuickSizeCheck
         double mean = e.MeanSize;
         double sd = Math.Sqrt(e.PerSample.Sum(v => (v - mean) * (v - mean)) / (e.PerSample.Count - 1));
         Console.WriteLine($"{model} N = {n}, t = {t}: dense {dense.MeanSize!.Values[0]:0.####}; probe mean {mean:0.####} +- {e.Error:0.####}, per-state sd {sd:0.####} (a priori {0.75 * 3 * n / Math.Sqrt(1 << n) / 3:0.####}), groups {r.ProbeGroups}");
+    }
+}
+
+/// <summary>Managed dense factorisation timings (`-- quick-svd N`): MathNet SVD and symmetric EVD of the Gram matrix.</summary>
+internal static class QuickSvd
+{
+    public static void Run(int n)
+    {
+        var rng = new Random(1);
+        var m = MathNet.Numerics.LinearAlgebra.Matrix<double>.Build.Dense(n, n, (i, j) => rng.NextDouble() - 0.5);
+        var sw = Stopwatch.StartNew();
+        int reps = 0;
+        while (sw.Elapsed.TotalSeconds < 2) { _ = m.Svd(true); reps++; }
+        Console.WriteLine($"MathNet SVD {n}x{n}: {sw.Elapsed.TotalMilliseconds / reps:0.0} ms");
+        sw.Restart(); reps = 0;
+        while (sw.Elapsed.TotalSeconds < 2) { var g = m.TransposeThisAndMultiply(m); _ = g.Evd(MathNet.Numerics.LinearAlgebra.Symmetricity.Symmetric); reps++; }
+        Console.WriteLine($"MathNet Gram + EVD {n}x{n}: {sw.Elapsed.TotalMilliseconds / reps:0.0} ms");
+    }
+}
+
+/// <summary>Front engine check and timing (`-- quick-front MODEL N PROBE TIME DT CHI1,CHI2,...`).</summary>
+internal static class QuickFront
+{
+    public static void Run(string model, int n, string probe, double time, double dt, int[] chis)
+    {
+        var m = ModelLoader.Load(ShippedModels.Resolve(model), new Dictionary<string, string> { ["N"] = n.ToString(CultureInfo.InvariantCulture) });
+        var p = OpGrowth.Pauli.PauliString.Parse(probe, n);
+        var sw = Stopwatch.StartNew();
+        var r = OpGrowth.Evolution.FrontEvolution.Run(m.Hamiltonian, p, new OpGrowth.Evolution.FrontEvolutionOptions { Time = time, Dt = dt, BondDimensions = chis, Cutoff = double.Parse(Environment.GetEnvironmentVariable("OPGROWTH_FRONT_CUTOFF") ?? "1e-16", CultureInfo.InvariantCulture), RecordEvery = Math.Max(1, (int)Math.Round(0.1 / dt)) });
+        foreach (var run in r.Runs)
+        {
+            var b = run.Figures.Butterfly?.Primary;
+            Console.WriteLine($"chi {run.BondDimension}: {run.WallSeconds:0.0} s, max bond {run.MaxBond.Max()}, final norm {run.NormSquared[^1]:0.######}, v_B {b?.Velocity:0.###} +- {b?.VelocityError:0.###}, mean size at end {run.MeanSize[^1]:0.###}, t* {run.Figures.ScramblingTime.Value:0.###}");
+            Console.WriteLine("   arrival: " + string.Join(" ", (b?.ArrivalTimes ?? []).Select(x => x.ToString("0.##", CultureInfo.InvariantCulture))));
+        }
+        Console.WriteLine($"converged to distance {r.ConvergedDistance} of {r.MaxDistance}; part at {r.PartDistance} (t = {r.PartTime}); {sw.Elapsed.TotalSeconds:0.0} s");
+        if (n <= 10)
+        {
+            var dense = ExactOtoc.Run(m.Hamiltonian, new ExactOtocOptions { Operator = p, Times = [r.Runs[^1].Times[^1]], Method = OtocMethod.Dense });
+            double maxd = 0;
+            foreach (var s in dense.Sites) maxd = Math.Max(maxd, Math.Abs(s.Weight.Values[0] - r.Runs[^1].SiteWeights[^1][s.Site]));
+            Console.WriteLine($"max |rho_j(front) - rho_j(dense)| at t = {r.Runs[^1].Times[^1]}: {maxd:E2}");
+        }
     }
 }

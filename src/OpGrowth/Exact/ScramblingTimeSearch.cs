@@ -356,6 +356,15 @@ public static class ScramblingTimeSearch
     }
 
     /// <summary>
+    /// Probe groups to use by default: one group per site when the lattice's diameter is at most 2 (all-to-all
+    /// couplings), one group otherwise. Measured on the random Heisenberg cluster at N = 10, t = 0.7 (16 states): the
+    /// spread of one state's mean size is 0.49 with one group (cross terms between sites dominate) and 0.039 with one
+    /// group per site; on the tilted-field chain (N = 10, t = 2.5) 0.39 and 0.29 (state noise dominates, which
+    /// shrinks like 2^(-N/2)), so short-range models keep one group (N + 1 times cheaper).
+    /// </summary>
+    public static int DefaultProbeGroups(int n, int diameter) => diameter <= 2 ? n : 1;
+
+    /// <summary>
     /// First time evaluated without a guess: the inverse of the local energy scale of W,
     /// sqrt(sum of h_t^2 over the terms that anticommute with W) (the rate at which W starts to change).
     /// </summary>

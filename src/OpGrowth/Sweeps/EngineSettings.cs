@@ -40,6 +40,16 @@ public sealed record EngineSettings
     /// <summary>Random states per point for the exact engine's typicality traces.</summary>
     public int Samples { get; init; } = 4;
 
+    /// <summary>
+    /// How the exact engine measures a point: "tstar" locates t* with the random-sign mean-size probe at times
+    /// refined around 3N/8 (t* only; fast), "sites" resolves every site's OTOC on a uniform grid (t*, growth rate
+    /// and v_B; cost grows with N).
+    /// </summary>
+    public string ExactMode { get; init; } = "tstar";
+
+    /// <summary>Probe groups of the "tstar" mode (0: one per site on all-to-all lattices, one otherwise).</summary>
+    public int ProbeGroups { get; init; }
+
     /// <summary>Seed of the exact engine's random states.</summary>
     public long SampleSeed { get; init; } = 1;
 
@@ -75,6 +85,8 @@ public sealed record EngineSettings
             case EngineChoice.Exact:
                 d["samples"] = Samples.ToString(CultureInfo.InvariantCulture);
                 d["sample_seed"] = SampleSeed.ToString(CultureInfo.InvariantCulture);
+                d["exact_mode"] = ExactMode;
+                if (ExactMode == "tstar") d["probe_groups"] = ProbeGroups.ToString(CultureInfo.InvariantCulture);
                 break;
             case EngineChoice.Synthetic:
                 foreach (var kv in Synthetic.Canonical()) d["synthetic." + kv.Key] = kv.Value;
