@@ -43,10 +43,11 @@ internal static class QuickScramblingTime
             Threads = threads,
             Samples = samples,
             Seed = seed,
+            SiteBlocks = Environment.GetEnvironmentVariable("OPGROWTH_SITE_BLOCKS") is string sb ? sb == "1" : ScramblingTimeSearch.DefaultSiteBlocks(m.Lattice.Diameter, m.SizeMeasure == SizeMeasure.Majoranas),
             ProbeGroups = int.Parse(Environment.GetEnvironmentVariable("OPGROWTH_PROBE_GROUPS") ?? "0", CultureInfo.InvariantCulture) is int pg && pg > 0 ? pg : ScramblingTimeSearch.DefaultProbeGroups(n, m.Lattice.Diameter),
         });
         foreach (var e in r.Evaluations) Console.WriteLine($"  n({e.Time:0.#####}) = {e.MeanSize:0.####} +- {e.Error:0.####}");
-        Console.WriteLine($"{model} N = {n}: t* = {r.TStar:0.#####} (location {r.LocationError:G2}, sampling {r.SamplingError:G2}; {r.SamplingErrorKind}), {r.Evaluations.Count - 1} evaluations, {r.MatrixVectorProducts} H applications, {sw.Elapsed.TotalSeconds:0.0} s wall, vectors {r.VectorBytes / 1048576.0:0} MiB");
+        Console.WriteLine($"{model} N = {n}: t* = {r.TStar:0.#####} (location {r.LocationError:G2}, sampling {r.SamplingError:G2}; {r.SamplingErrorKind}), {r.Evaluations.Count - 1} evaluations, {r.Estimator}, {r.MatrixVectorProducts} H applications, {sw.Elapsed.TotalSeconds:0.0} s wall, vectors {r.VectorBytes / 1048576.0:0} MiB");
     }
 }
 

@@ -15,7 +15,7 @@ namespace OpGrowth.Exact;
 public sealed record ScramblingTimeEstimate(double Seconds, long Bytes, long Applications, double HalfWidth, double TStar, double SecondsPerApplication, string Basis);
 
 /// <summary>
-/// Cost model of the t* search: (probe groups + 1) x (random states) vectors, each propagated forward and backward
+/// Cost model of the t* search: (vectors per state: 2N site blocks or G + 1 probe groups) x (random states) vectors, each propagated forward and backward
 /// over the evaluation times, each propagation about K(rho t) applications of H, where K is the length of the
 /// Chebyshev series (Tal-Ezer and Kosloff 1984) for half width rho at the search's tolerance.
 /// </summary>
@@ -36,7 +36,7 @@ public static class ScramblingTimeCost
     /// Estimates a search on <paramref name="h"/> (at the target N) from a smaller member <paramref name="small"/> of the
     /// same family (used for timing and the spectral width; null: time <paramref name="h"/> itself).
     /// </summary>
-    public static ScramblingTimeEstimate Estimate(Hamiltonian h, Hamiltonian? small, double tStar, int samples, int groups, int threads, double tolerance = 1e-8)
+    public static ScramblingTimeEstimate Estimate(Hamiltonian h, Hamiltonian? small, double tStar, int samples, int vectorsPerState, int threads, double tolerance = 1e-8)
     {
         ArgumentNullException.ThrowIfNull(h);
         if (!(tStar > 0)) throw new ArgumentOutOfRangeException(nameof(tStar), tStar, "t* must be positive.");
@@ -57,12 +57,12 @@ public static class ScramblingTimeCost
         double perApp = perUnit * Units(h.N, groupsN);
         double x = rho * tStar;
         double perVector = BackwardTimes.Sum(f => Terms(f * x, tolerance)) + ForwardTimes.Sum(f => Terms(f * x, tolerance));
-        long vectors = (long)(groups + 1) * samples;
+        long vectors = (long)vectorsPerState * samples;
         long apps = (long)Math.Ceiling(vectors * perVector) + 60;
         int parallel = threads >= 2 ? 2 : 1;
         double seconds = vectors * perVector * perApp / parallel + 60 * perApp / Math.Max(1, threads * 0.8);
         long dim = 1L << h.N;
-        long bytes = (2L * (groups + 1) * samples + 13) * dim * 16 + 3 * dim * 8 + (96L << 20);
+        long bytes = (2L * vectors + 13) * dim * 16 + 3 * dim * 8 + (96L << 20);
         string basis = small is null
             ? $"timed at N = {h.N}"
             : $"H timed and its spectral width estimated at N = {small.N}, scaled to N = {h.N}";

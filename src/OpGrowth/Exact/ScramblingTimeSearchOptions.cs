@@ -27,6 +27,13 @@ public sealed record ScramblingTimeSearchOptions
     /// </summary>
     public int ProbeGroups { get; init; } = 1;
 
+    /// <summary>
+    /// Estimate the qubit mean size from site blocks (for every site j two states |r' e&gt;_j, e = 0, 1, with the trace
+    /// over site j exact: X_j, Y_j and Z_j resolved without sign noise; 2N propagations per evaluation) instead of the
+    /// random-sign probe. <see cref="ProbeGroups"/> is then ignored.
+    /// </summary>
+    public bool SiteBlocks { get; init; }
+
     /// <summary>Seed of the random states and signs.</summary>
     public int Seed { get; init; } = 1;
 
@@ -44,6 +51,13 @@ public sealed record ScramblingTimeSearchOptions
 
     /// <summary>Worker threads (0 = all cores).</summary>
     public int Threads { get; init; }
+
+    /// <summary>
+    /// Memory the search may use for state vectors (null: 60% of the available memory). When the forward checkpoints
+    /// do not fit, every vector is regenerated from its seed and propagated from t = 0 at each evaluation (more work,
+    /// same result).
+    /// </summary>
+    public long? MemoryBytes { get; init; }
 
     /// <summary>Spectral interval to use (null: a short Lanczos estimate).</summary>
     public SpectralBounds? Bounds { get; init; }

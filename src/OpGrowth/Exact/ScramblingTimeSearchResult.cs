@@ -47,8 +47,11 @@ public sealed record ScramblingTimeSearchResult
 
     public int Samples { get; init; }
 
-    /// <summary>Probe groups per random state (each with its own signs).</summary>
+    /// <summary>Probe groups per random state (each with its own signs); 0 with site blocks.</summary>
     public int ProbeGroups { get; init; }
+
+    /// <summary>How the mean size was estimated, in words.</summary>
+    public string Estimator { get; init; } = "";
 
     /// <summary>Applications of H over all propagations.</summary>
     public long MatrixVectorProducts { get; init; }

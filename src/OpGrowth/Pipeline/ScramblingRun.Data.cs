@@ -63,6 +63,37 @@ public static partial class ScramblingRun
         return list;
     }
 
+    /// <summary>The t* statement as JSON, its members as CSV and the front's arrival times per bond dimension (paths relative to the report folder).</summary>
+    private static List<string> WriteScramblingTimeData(string dataDir, OpGrowth.Sweeps.ScramblingTimeStatement s, FrontStage? front)
+    {
+        var list = new List<string>();
+        if (s.Members.Count > 0)
+        {
+            CsvTable.Write(Path.Combine(dataDir, "tstar_members.csv"), ["n", "tstar", "error", "seed_spread", "seeds", "half_distance", "front_arrival"],
+                [s.Members.Select(m => (double)m.N).ToArray(), s.Members.Select(m => m.TStar).ToArray(), s.Members.Select(m => m.Error).ToArray(),
+                 s.Members.Select(m => m.Spread ?? double.NaN).ToArray(), s.Members.Select(m => (double)m.Seeds).ToArray(),
+                 s.Members.Select(m => m.HalfDistance ?? double.NaN).ToArray(), s.Members.Select(m => m.FrontArrival ?? double.NaN).ToArray()]);
+            list.Add("data/tstar_members.csv");
+        }
+        if (front is not null)
+        {
+            var fr = front.Result;
+            var heads = new List<string> { "distance" };
+            var cols = new List<double[]> { Enumerable.Range(0, fr.MaxDistance + 1).Select(d => (double)d).ToArray() };
+            foreach (var run in fr.Runs)
+            {
+                heads.Add("arrival_bond_" + run.BondDimension.ToString(Inv));
+                var a = run.Figures.Butterfly?.Primary.ArrivalTimes ?? [];
+                cols.Add(Enumerable.Range(0, fr.MaxDistance + 1).Select(d => d < a.Length ? a[d] : double.NaN).ToArray());
+            }
+            heads.Add("uncertainty");
+            cols.Add(Enumerable.Range(0, fr.MaxDistance + 1).Select(d => d < fr.ArrivalUncertainty.Length ? fr.ArrivalUncertainty[d] : double.NaN).ToArray());
+            CsvTable.Write(Path.Combine(dataDir, "front_arrival.csv"), heads, cols);
+            list.Add("data/front_arrival.csv");
+        }
+        return list;
+    }
+
     private static string WriteCrossCheckData(string dataDir, CrossCheck x)
     {
         CsvTable.Write(Path.Combine(dataDir, "cross_check.csv"), ["time", "autocorrelation_pauli", "autocorrelation_exact", "difference"],

@@ -115,6 +115,26 @@ public static partial class ScramblingRun
         }
         else if (options.RunDiagnosis) diagnosisSkip = "not reached (run stopped)";
 
+        // ---- stage 5b: the scrambling-time statement at the model's own N (measured, predicted or bound)
+        OpGrowth.Sweeps.ScramblingTimeStatement? tstar = null;
+        FrontStage? front = null;
+        if (!ct.IsCancellationRequested && stop is null)
+        {
+            Report(options, "t* statement", 0, $"t* at N = {model.N}");
+            try
+            {
+                tstar = ScramblingTimeStage.Run(path, model, options, preset, evo, log, ct, out front);
+                files.AddRange(WriteScramblingTimeData(dataDir, tstar, front));
+                log?.LogInformation("{Statement}", tstar.Text());
+            }
+            catch (OperationCanceledException)
+            {
+                stop = "t* statement: interrupted";
+            }
+            timings["tstar"] = Lap(clock);
+            Report(options, "t* statement", 1, tstar?.Route ?? "interrupted");
+        }
+
         // ---- stage 6: optional t*(N) sweep (sweep library; results inside the report folder, so a rerun resumes)
         SweepStage? sweep = null;
         if (options.SweepSizes.Count > 0 && !ct.IsCancellationRequested && stop is null)
@@ -168,6 +188,8 @@ public static partial class ScramblingRun
             Diagnosis = diagnosis,
             DiagnosisSkipReason = diagnosis is null ? diagnosisSkip : null,
             Sweep = sweep,
+            ScramblingTime = tstar,
+            Front = front,
             Completed = stop is null,
             StopReason = stop,
             Cancelled = cancelled,

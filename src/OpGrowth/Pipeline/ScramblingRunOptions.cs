@@ -50,6 +50,11 @@ public sealed record ScramblingRunOptions
     public OpGrowth.Diagnosis.DiagnosisOptions? Diagnosis { get; init; }
     /// <summary>Final time of every t*(N) point (null: chosen from the main run's t*, at least the effort's time).</summary>
     public double? SweepTime { get; init; }
+    /// <summary>
+    /// Measure t* at the model's own N with the exact engine even when its estimated cost exceeds the effort's budget
+    /// (the estimate is logged before it starts; the thorough effort always does).
+    /// </summary>
+    public bool ExactScramblingTime { get; init; }
     /// <summary>System sizes for a t*(N) sweep (empty: no sweep).</summary>
     public IReadOnlyList<int> SweepSizes { get; init; } = [];
     /// <summary>Final evolution time (null: the effort's).</summary>

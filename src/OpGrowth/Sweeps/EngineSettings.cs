@@ -47,7 +47,15 @@ public sealed record EngineSettings
     /// </summary>
     public string ExactMode { get; init; } = "tstar";
 
-    /// <summary>Probe groups of the "tstar" mode (0: one per site on all-to-all lattices, one otherwise).</summary>
+    /// <summary>
+    /// Mean-size estimator of the "tstar" mode: "site-blocks" (exact trace over each site, 2N propagations per
+    /// evaluation), "random-signs" (<see cref="ProbeGroups"/> groups of single-site probes with random signs, G + 1
+    /// propagations), or "auto": site blocks on lattices with a distance, one random-sign group per site on all-to-all
+    /// lattices and for Majorana sizes (<see cref="OpGrowth.Exact.ScramblingTimeSearch.DefaultEstimator"/>).
+    /// </summary>
+    public string SizeEstimator { get; init; } = "auto";
+
+    /// <summary>Probe groups of the "random-signs" estimator (0: one per site).</summary>
     public int ProbeGroups { get; init; }
 
     /// <summary>Seed of the exact engine's random states.</summary>
@@ -86,7 +94,11 @@ public sealed record EngineSettings
                 d["samples"] = Samples.ToString(CultureInfo.InvariantCulture);
                 d["sample_seed"] = SampleSeed.ToString(CultureInfo.InvariantCulture);
                 d["exact_mode"] = ExactMode;
-                if (ExactMode == "tstar") d["probe_groups"] = ProbeGroups.ToString(CultureInfo.InvariantCulture);
+                if (ExactMode == "tstar")
+                {
+                    d["size_estimator"] = SizeEstimator;
+                    d["probe_groups"] = ProbeGroups.ToString(CultureInfo.InvariantCulture);
+                }
                 break;
             case EngineChoice.Synthetic:
                 foreach (var kv in Synthetic.Canonical()) d["synthetic." + kv.Key] = kv.Value;

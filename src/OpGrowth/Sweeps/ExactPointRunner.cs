@@ -37,8 +37,8 @@ public sealed class ExactPointRunner : IPointRunner
         long dim = 1L << point.N;
         if (point.Engine.ExactMode == "tstar")
         {
-            int g = point.Engine.ProbeGroups > 0 ? point.Engine.ProbeGroups : GroupsOf(point);
-            return (128L << 20) + (2L * (g + 1) * point.Engine.Samples + 13) * dim * 16 + 3 * dim * 8;
+            int perState = VectorsOf(point);
+            return (128L << 20) + (2L * perState * point.Engine.Samples + 13) * dim * 16 + 3 * dim * 8;
         }
         long vectors = point.N <= 8 ? 8 * dim * dim * 16 : 24L * _threads * dim * 16;
         return (128L << 20) + vectors;
@@ -83,8 +83,8 @@ public sealed class ExactPointRunner : IPointRunner
         });
         double ts = pr.TStar is double t0 ? Math.Min(e.Time, t0 * point.N / np) : e.Time;
         var small = ns == point.N ? null : PointModel.Load(Resized(point, ns)).Model.Hamiltonian;
-        int g = e.ProbeGroups > 0 ? e.ProbeGroups : ScramblingTimeSearch.DefaultProbeGroups(point.N, pm.Model.Lattice.Diameter);
-        return ScramblingTimeCost.Estimate(pm.Model.Hamiltonian, small, ts, e.Samples, g, _threads);
+        var (blocks, groups) = Estimator(e, pm.Model);
+        return ScramblingTimeCost.Estimate(pm.Model.Hamiltonian, small, ts, e.Samples, ScramblingTimeSearch.VectorsPerState(point.N, blocks, groups), _threads);
     }
 
     private static SweepPoint Resized(SweepPoint point, int n)
@@ -94,17 +94,34 @@ public sealed class ExactPointRunner : IPointRunner
         return point with { N = n, Probe = probe };
     }
 
-    private static int GroupsOf(SweepPoint point)
+    // Vectors per random state of a "tstar" point (2N when the model cannot be loaded here).
+    private static int VectorsOf(SweepPoint point)
     {
         try
         {
-            var pm = PointModel.Load(point);
-            return ScramblingTimeSearch.DefaultProbeGroups(point.N, pm.Model.Lattice.Diameter);
+            var (blocks, groups) = Estimator(point.Engine, PointModel.Load(point).Model);
+            return ScramblingTimeSearch.VectorsPerState(point.N, blocks, groups);
         }
         catch (InputException)
         {
-            return point.N;
+            return 2 * point.N;
         }
+    }
+
+    /// <summary>The mean-size estimator a "tstar" point uses: (site blocks, probe groups).</summary>
+    public static (bool SiteBlocks, int ProbeGroups) Estimator(EngineSettings e, Model model)
+    {
+        ArgumentNullException.ThrowIfNull(e);
+        ArgumentNullException.ThrowIfNull(model);
+        bool majorana = model.SizeMeasure == SizeMeasure.Majoranas;
+        return e.SizeEstimator switch
+        {
+            "site-blocks" when !majorana => (true, 0),
+            "random-signs" or "site-blocks" => (false, e.ProbeGroups > 0 ? e.ProbeGroups : model.N),
+            _ => e.ProbeGroups > 0 && !ScramblingTimeSearch.DefaultSiteBlocks(model.Lattice.Diameter, majorana)
+                ? (false, e.ProbeGroups)
+                : ScramblingTimeSearch.DefaultEstimator(model.N, model.Lattice.Diameter, majorana),
+        };
     }
 
     public PointResult Run(SweepPoint point, CancellationToken cancellationToken)
@@ -194,7 +211,7 @@ public sealed class ExactPointRunner : IPointRunner
     {
         var e = point.Engine;
         var model = pm.Model;
-        int groups = e.ProbeGroups > 0 ? e.ProbeGroups : ScramblingTimeSearch.DefaultProbeGroups(model.N, model.Lattice.Diameter);
+        var (blocks, groups) = Estimator(e, model);
         var r = ScramblingTimeSearch.Run(model.Hamiltonian, new ScramblingTimeSearchOptions
         {
             Operator = pm.Probe,
@@ -202,6 +219,7 @@ public sealed class ExactPointRunner : IPointRunner
             MaxTime = e.Time,
             Samples = e.Samples,
             Seed = unchecked((int)e.SampleSeed),
+            SiteBlocks = blocks,
             ProbeGroups = groups,
             Threads = _threads,
             Logger = _logger,
@@ -209,7 +227,7 @@ public sealed class ExactPointRunner : IPointRunner
         var last = r.Evaluations[^1];
         var notes = new List<string>
         {
-            $"exact engine, t* search: {r.Evaluations.Count - 1} evaluations of the random-sign mean size ({r.SizeMeasure}), {r.Samples} random state(s), {r.ProbeGroups} probe group(s), {r.MatrixVectorProducts} applications of H",
+            $"exact engine, t* search: {r.Evaluations.Count - 1} evaluations of the mean size ({r.SizeMeasure}; {r.Estimator}), {r.Samples} random state(s), {r.MatrixVectorProducts} applications of H",
         };
         if (r.TStar is null) notes.Add($"t* not reached by t = {r.LowerBound:0.###}: mean size {last.MeanSize:0.###} < {r.Target:0.###}");
         if (e.Samples == 1) notes.Add("one random state: its sampling noise is not estimated here and enters the seed-to-seed spread");
