@@ -23,11 +23,20 @@ internal static class LowRankFactor
     internal readonly record struct Factors(double[] U, double[] S, double[] Vt, int Rank, double Dropped);
 
     /// <summary>
-    /// Factorises <paramref name="m"/> (rows x cols, row-major) keeping at most <paramref name="maxRank"/> values and
+    /// Factorises <paramref name="input"/> (rows x cols, row-major) keeping at most <paramref name="maxRank"/> values and
     /// none whose square is below <paramref name="cutoff"/> times the total weight.
     /// </summary>
-    public static Factors Truncate(ReadOnlySpan<double> m, int rows, int cols, int maxRank, double cutoff, Random rng)
+    public static Factors Truncate(ReadOnlySpan<double> input, int rows, int cols, int maxRank, double cutoff, Random rng)
     {
+        // Entries below 1e-100 of the largest cannot matter at any cutoff, and denormal numbers stall the eigen
+        // iteration (MathNet's QL ran out of its index range on such a matrix): flush them to zero.
+        var copy = input.ToArray();
+        double big = Math.Abs(TensorPrimitives.MaxMagnitude(copy));
+        for (int i = 0; i < copy.Length; i++)
+        {
+            if (Math.Abs(copy[i]) < 1e-100 * big) copy[i] = 0;
+        }
+        ReadOnlySpan<double> m = copy;
         double total = TensorPrimitives.Dot(m, m);
         if (total == 0) return new Factors(new double[rows], [0.0], new double[cols], 1, 0);
         int small = Math.Min(rows, cols);
@@ -86,22 +95,20 @@ internal static class LowRankFactor
                 for (int j = 0; j <= i; j++) g[i * d + j] = g[j * d + i] = TensorPrimitives.Dot(ri, mt.AsSpan(j * rows, rows));
             }
         }
-        var evd = Matrix<double>.Build.Dense(d, d, g).Evd(Symmetricity.Symmetric);
-        var vals = evd.EigenValues;
-        var vecs = evd.EigenVectors;
+        var (vals, vecs) = SymmetricEvd(g, d);
         // Descending order of the eigenvalues (MathNet returns them ascending).
-        var order = Enumerable.Range(0, d).OrderByDescending(i => vals[i].Real).ToArray();
-        double sum = order.Sum(i => Math.Max(0, vals[i].Real));
+        var order = Enumerable.Range(0, d).OrderByDescending(i => vals[i]).ToArray();
+        double sum = order.Sum(i => Math.Max(0, vals[i]));
         int rank = 0;
         foreach (int i in order)
         {
-            double w = vals[i].Real;
+            double w = vals[i];
             if (rank >= maxRank || w <= 0 || w < cutoff * sum) break;
             rank++;
         }
         rank = Math.Max(1, rank);
         var s = new double[rank];
-        for (int k = 0; k < rank; k++) s[k] = Math.Sqrt(Math.Max(0, vals[order[k]].Real));
+        for (int k = 0; k < rank; k++) s[k] = Math.Sqrt(Math.Max(0, vals[order[k]]));
         double[] u, vt;
         if (wide)
         {
@@ -140,6 +147,21 @@ internal static class LowRankFactor
         }
         double kept = TensorPrimitives.Dot(s, s);
         return new Factors(u, s, vt, rank, Math.Max(0, total - kept));
+    }
+
+    // Eigenvalues and eigenvectors (columns) of a symmetric d x d matrix; MathNet for d >= 2.
+    private static (double[] Values, Matrix<double> Vectors) SymmetricEvd(double[] g, int d)
+    {
+        if (d == 1) return ([g[0]], Matrix<double>.Build.DenseIdentity(1));
+        // Products of flushed entries can still be denormal: flush the Gram matrix as well.
+        double gb = 0;
+        foreach (var x in g) gb = Math.Max(gb, Math.Abs(x));
+        for (int i = 0; i < g.Length; i++)
+        {
+            if (Math.Abs(g[i]) < 1e-200 * gb) g[i] = 0;
+        }
+        var evd = Matrix<double>.Build.Dense(d, d, g).Evd(Symmetricity.Symmetric);
+        return (evd.EigenValues.Select(v => v.Real).ToArray(), evd.EigenVectors);
     }
 
     /// <summary>c = a b with a (m x k) and b (k x n), row-major; c is overwritten.</summary>

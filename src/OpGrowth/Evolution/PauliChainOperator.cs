@@ -231,6 +231,20 @@ public sealed class PauliChainOperator
     /// </summary>
     public (double[] Weights, double NormSquared) SiteWeights()
     {
+        var (letters, norm) = LetterWeights(identityOnly: true);
+        var w = new double[N];
+        for (int j = 0; j < N; j++) w[j] = Math.Clamp(1 - letters[j][0], 0, 1);
+        return (w, norm);
+    }
+
+    /// <summary>
+    /// Weight of each letter (I, X, Y, Z) at every site, normalised by ||O||^2 (rows sum to 1), and the norm. The OTOC
+    /// against a single-site V follows: F = 1 - 2 (weight of the two letters that anticommute with V).
+    /// </summary>
+    public (double[][] Letters, double NormSquared) LetterWeights() => LetterWeights(identityOnly: false);
+
+    private (double[][] Letters, double NormSquared) LetterWeights(bool identityOnly)
+    {
         var left = new double[N + 1][];
         left[0] = [1];
         for (int j = 0; j < N; j++) left[j + 1] = LeftStep(left[j], j, all: true);
@@ -238,18 +252,23 @@ public sealed class PauliChainOperator
         right[N] = [1];
         for (int j = N - 1; j >= 0; j--) right[j] = RightStep(right[j + 1], j);
         double norm = left[N][0];
-        var w = new double[N];
+        var w = new double[N][];
         for (int j = 0; j < N; j++)
         {
             int l = Left(j), r = Right(j);
-            var a = _a[j].AsSpan(0, l * r);   // identity letter
+            w[j] = new double[4];
             var tmp = new double[l * r];
-            LowRankFactor.Gemm(a, l, r, right[j + 1], r, tmp);             // A_I F (l x r)
-            var at = LowRankFactor.Transpose(a, l, r);
             var y = new double[l * l];
-            LowRankFactor.Gemm(tmp, l, r, at, l, y);                        // A_I F A_I^T
-            double wi = TensorPrimitives.Dot(left[j], y);                   // Tr(E^T Y) = sum E_xy Y_xy
-            w[j] = norm > 0 ? Math.Clamp((norm - wi) / norm, 0, 1) : 0;
+            for (int s = 0; s < (identityOnly ? 1 : 4); s++)
+            {
+                var a = _a[j].AsSpan(s * l * r, l * r);
+                if (TensorPrimitives.MaxMagnitude(a) == 0) continue;
+                LowRankFactor.Gemm(a, l, r, right[j + 1], r, tmp);             // A_s F (l x r)
+                var at = LowRankFactor.Transpose(a, l, r);
+                LowRankFactor.Gemm(tmp, l, r, at, l, y);                        // A_s F A_s^T
+                double ws = TensorPrimitives.Dot(left[j], y);                   // Tr(E^T Y) = sum E_xy Y_xy
+                w[j][s] = norm > 0 ? ws / norm : 0;
+            }
         }
         return (w, norm);
     }
