@@ -11,6 +11,7 @@ internal static class CommandRegistry
         yield return CheckCommand.Create();
         yield return LanczosCommand.Create();
         yield return EvolveCommand.Create();
+        yield return FrontCommand.Create();
         yield return ExactCommand.Create();
         yield return SweepCommand.Create();
         yield return CollectCommand.Create();

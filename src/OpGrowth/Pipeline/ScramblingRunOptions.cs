@@ -55,6 +55,11 @@ public sealed record ScramblingRunOptions
     /// (the estimate is logged before it starts; the thorough effort always does).
     /// </summary>
     public bool ExactScramblingTime { get; init; }
+    /// <summary>
+    /// Estimated exact-engine seconds the t* statement may spend unasked (null: the effort's, see
+    /// <see cref="ScramblingTimeStage.ExactBudgetSeconds"/>; 0: only when forced). Lets tests fix the route.
+    /// </summary>
+    public double? ExactScramblingTimeBudget { get; init; }
     /// <summary>System sizes for a t*(N) sweep (empty: no sweep).</summary>
     public IReadOnlyList<int> SweepSizes { get; init; } = [];
     /// <summary>Final evolution time (null: the effort's).</summary>

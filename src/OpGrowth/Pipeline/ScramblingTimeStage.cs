@@ -113,7 +113,7 @@ public static class ScramblingTimeStage
             double guess = pauli?.Value ?? GuessTStar(evo, majorana) ?? preset.Time;
             est = ScramblingTimeCost.Estimate(model.Hamiltonian, small?.N < n ? small.Hamiltonian : null, guess, samples, vectors, options.Threads);
         }
-        bool cheap = est is not null && est.Seconds <= ExactBudgetSeconds(options.Effort);
+        bool cheap = est is not null && est.Seconds <= (options.ExactScramblingTimeBudget ?? ExactBudgetSeconds(options.Effort));
 
         // Predicted from smaller members (also the t* the exact engine's estimate and search start from).
         ScramblingTimeStatement? predicted = null;
@@ -218,46 +218,7 @@ public static class ScramblingTimeStage
         var family = FamilyMembers.FromFile(path, options.Overrides, model);
         var sizes = MemberSizes(options.Effort, n, allToAll);
         int seeds = model.IsDisordered ? MemberSeeds(options.Effort) : 1;
-        var members = new List<ScramblingTimeMember>();
-        var geometryOf = new Dictionary<int, double>();
-        foreach (int size in sizes)
-        {
-            ct.ThrowIfCancellationRequested();
-            var values = new List<double>();
-            var errors = new List<double>();
-            double? half = null;
-            for (int r = 0; r < seeds; r++)
-            {
-                var m = family(size, r);
-                if (m is null || m.N != size || m.Drive is not null) break;
-                var p = m.Probes[0];
-                int samples = seeds > 1 ? 1 : MemberSamples(size);
-                var (mb, mg) = ScramblingTimeSearch.DefaultEstimator(size, m.Lattice.Diameter, majorana);
-                var res = ScramblingTimeSearch.Run(m.Hamiltonian, new ScramblingTimeSearchOptions
-                {
-                    Operator = p,
-                    MajoranaSize = majorana,
-                    MaxTime = maxTime,
-                    Samples = samples,
-                    Seed = 1 + r,
-                    SiteBlocks = mb,
-                    ProbeGroups = mg,
-                    Threads = options.Threads,
-                }, ct);
-                if (res.TStar is not double ts) break;
-                values.Add(ts);
-                double se = double.IsFinite(res.SamplingError) && samples > 1 ? res.SamplingError : 0;
-                errors.Add(Math.Sqrt(se * se + res.LocationError * res.LocationError));
-                half ??= allToAll ? null : ScramblingTimePrediction.HalfDistance(ScramblingAnalysis.DistancesFromProbe(ScramblingRun.GeometryOf(m), p.Support()));
-            }
-            if (values.Count == 0 || values.Count < seeds) continue;
-            double mean = values.Average();
-            double inner = Math.Sqrt(errors.Average(e => e * e) / values.Count);
-            double? spread = values.Count > 1 ? Math.Sqrt(values.Sum(v => (v - mean) * (v - mean)) / (values.Count - 1)) : null;
-            double err = values.Count > 1 ? Math.Sqrt(Math.Pow(Bootstrap.StandardError(values) ?? 0, 2) + inner * inner) : inner;
-            members.Add(new ScramblingTimeMember(size, mean, Math.Max(err, 1e-6 * mean), spread, values.Count, half));
-            log?.LogInformation("t* member N = {N}: {T:0.####} +- {E:0.####} ({S} seed(s))", size, mean, err, values.Count);
-        }
+        var members = MeasureMembers(family, sizes, seeds, majorana, allToAll, maxTime, options.Threads, log, ct);
         if (members.Count < (allToAll ? 3 : 2)) return null;
         if (allToAll) return ScramblingTimePrediction.FromScaling(n, members);
 
@@ -319,6 +280,58 @@ public static class ScramblingTimeStage
             ? m with { FrontArrival = ScramblingTimePrediction.ArrivalAt(hd, arrival, unc, converged, vB, vBErr).Time }
             : m).ToList();
         return ScramblingTimePrediction.FromFront(n, target, at, withFront, vB, source);
+    }
+
+    /// <summary>
+    /// Exact t* at smaller members of a family (<paramref name="family"/>(n, realisation)), averaged over
+    /// <paramref name="seeds"/> realisations each; sizes whose members fail to load or do not reach t* are left out.
+    /// Errors: bootstrap over seeds plus the members' own location and sampling errors.
+    /// </summary>
+    public static List<ScramblingTimeMember> MeasureMembers(SmallerMember family, IReadOnlyList<int> sizes, int seeds, bool majorana, bool allToAll, double maxTime,
+        int threads, ILogger? log, CancellationToken ct)
+    {
+        ArgumentNullException.ThrowIfNull(family);
+        ArgumentNullException.ThrowIfNull(sizes);
+        var members = new List<ScramblingTimeMember>();
+        foreach (int size in sizes)
+        {
+            ct.ThrowIfCancellationRequested();
+            var values = new List<double>();
+            var errors = new List<double>();
+            double? half = null;
+            for (int r = 0; r < seeds; r++)
+            {
+                var m = family(size, r);
+                if (m is null || m.N != size || m.Drive is not null) break;
+                var p = m.Probes[0];
+                int samples = seeds > 1 ? 1 : MemberSamples(size);
+                var (mb, mg) = ScramblingTimeSearch.DefaultEstimator(size, m.Lattice.Diameter, majorana);
+                var res = ScramblingTimeSearch.Run(m.Hamiltonian, new ScramblingTimeSearchOptions
+                {
+                    Operator = p,
+                    MajoranaSize = majorana,
+                    MaxTime = maxTime,
+                    Samples = samples,
+                    Seed = 1 + r,
+                    SiteBlocks = mb,
+                    ProbeGroups = mg,
+                    Threads = threads,
+                }, ct);
+                if (res.TStar is not double ts) break;
+                values.Add(ts);
+                double se = double.IsFinite(res.SamplingError) ? res.SamplingError : 0;
+                errors.Add(Math.Sqrt(se * se + res.LocationError * res.LocationError));
+                half ??= allToAll ? null : ScramblingTimePrediction.HalfDistance(ScramblingAnalysis.DistancesFromProbe(ScramblingRun.GeometryOf(m), p.Support()));
+            }
+            if (values.Count == 0 || values.Count < seeds) continue;
+            double mean = values.Average();
+            double inner = Math.Sqrt(errors.Average(e => e * e) / values.Count);
+            double? spread = values.Count > 1 ? Math.Sqrt(values.Sum(v => (v - mean) * (v - mean)) / (values.Count - 1)) : null;
+            double err = values.Count > 1 ? Math.Sqrt(Math.Pow(Bootstrap.StandardError(values) ?? 0, 2) + inner * inner) : inner;
+            members.Add(new ScramblingTimeMember(size, mean, Math.Max(err, 1e-6 * mean), spread, values.Count, half));
+            log?.LogInformation("t* member N = {N}: {T:0.####} +- {E:0.####} ({S} seed(s))", size, mean, err, values.Count);
+        }
+        return members;
     }
 
     /// <summary>

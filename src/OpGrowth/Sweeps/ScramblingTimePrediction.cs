@@ -124,27 +124,17 @@ public static class ScramblingTimePrediction
     /// </summary>
     public static ScramblingTimeStatement FromScaling(int n, IReadOnlyList<ScramblingTimeMember> members)
     {
-        ArgumentNullException.ThrowIfNull(members);
-        if (members.Count < 3) throw new ArgumentException("The scaling route needs at least three member sizes.", nameof(members));
-        var ns = members.Select(m => (double)m.N).ToArray();
-        var ys = members.Select(m => m.TStar).ToArray();
-        var es = members.Select(m => m.Error).ToArray();
-        var cmp = FitComparison.Compare(ns, ys, es);
-        var laws = new[]
-        {
-            new ScramblingTimeLawPrediction("log", cmp.Log.Evaluate(n), cmp.Log.PredictionError(n), cmp.LogWeight, cmp.Log),
-            new ScramblingTimeLawPrediction("linear", cmp.Linear.Evaluate(n), cmp.Linear.PredictionError(n), cmp.LinearWeight, cmp.Linear),
-        };
-        double mu = laws.Sum(l => l.Weight * l.Value);
-        double var = laws.Sum(l => l.Weight * (l.Error * l.Error + (l.Value - mu) * (l.Value - mu)));
+        var sc = Scaling(n, members);
+        var laws = sc.Laws;
+        var cmp = sc.Comparison;
+        double mu = sc.Mean;
+        double sigma = Math.Sqrt(sc.FitError * sc.FitError + sc.SeedSpread * sc.SeedSpread);
         var largest = members.OrderBy(m => m.N).Last();
-        double spread = largest.Spread ?? 0;
-        double sigma = Math.Sqrt(var + spread * spread);
         string range = $"N = {members.Min(m => m.N)}..{members.Max(m => m.N)}" + (largest.Seeds > 1 ? $", {largest.Seeds} seeds each" : "");
         string lawText(ScramblingTimeLawPrediction l) => FormattableString.Invariant(
             $"{(l.Law == "log" ? "a + b ln N" : "a + N/v")}: {l.Value:0.###} +- {l.Error:0.###} (weight {l.Weight:0.00})");
-        string basis = $"{cmp.Verdict}; {lawText(laws[0])}; {lawText(laws[1])}; model-averaged"
-            + (spread > 0 ? FormattableString.Invariant($", plus the seed-to-seed spread {spread:0.###} at N = {largest.N} for this realisation") : "");
+        string basis = $"{cmp.Verdict}; {lawText(laws[0])}; {lawText(laws[1])}; model-averaged {mu.ToString("0.###", Inv)} +- {sc.FitError.ToString("0.###", Inv)}"
+            + (sc.SeedSpread > 0 ? FormattableString.Invariant($", plus the seed-to-seed spread {sc.SeedSpread:0.###} at N = {largest.N} for this realisation") : "");
         return new ScramblingTimeStatement
         {
             Route = "predicted",
@@ -160,5 +150,33 @@ public static class ScramblingTimePrediction
             Laws = laws,
             Members = members,
         };
+    }
+
+    /// <summary>The scaling route's numbers: both laws, the model-averaged mean and its error, and the seed spread at the largest member.</summary>
+    /// <param name="Mean">Model-averaged prediction (the disorder average at N for a disordered model).</param>
+    /// <param name="FitError">sqrt(sum_k w_k (sigma_k^2 + (mu_k - mu)^2)).</param>
+    /// <param name="SeedSpread">Seed-to-seed standard deviation at the largest member (0 for a clean model).</param>
+    /// <param name="Laws">Both laws' predictions.</param>
+    /// <param name="Comparison">The fits and their comparison.</param>
+    public sealed record ScalingPrediction(double Mean, double FitError, double SeedSpread, IReadOnlyList<ScramblingTimeLawPrediction> Laws, FitComparison Comparison);
+
+    /// <summary>Fits both laws to the members and predicts at N (see <see cref="FromScaling"/>).</summary>
+    public static ScalingPrediction Scaling(int n, IReadOnlyList<ScramblingTimeMember> members)
+    {
+        ArgumentNullException.ThrowIfNull(members);
+        if (members.Count < 3) throw new ArgumentException("The scaling route needs at least three member sizes.", nameof(members));
+        var ns = members.Select(m => (double)m.N).ToArray();
+        var ys = members.Select(m => m.TStar).ToArray();
+        var es = members.Select(m => m.Error).ToArray();
+        var cmp = FitComparison.Compare(ns, ys, es);
+        var laws = new[]
+        {
+            new ScramblingTimeLawPrediction("log", cmp.Log.Evaluate(n), cmp.Log.PredictionError(n), cmp.LogWeight, cmp.Log),
+            new ScramblingTimeLawPrediction("linear", cmp.Linear.Evaluate(n), cmp.Linear.PredictionError(n), cmp.LinearWeight, cmp.Linear),
+        };
+        double mu = laws.Sum(l => l.Weight * l.Value);
+        double var = laws.Sum(l => l.Weight * (l.Error * l.Error + (l.Value - mu) * (l.Value - mu)));
+        double spread = members.OrderBy(m => m.N).Last().Spread ?? 0;
+        return new ScalingPrediction(mu, Math.Sqrt(var), spread, laws, cmp);
     }
 }
