@@ -30,6 +30,7 @@ public static class RunFigures
                 ScramblingTime = tsHeadline?.Value,
                 ScramblingLevel = ts.Target,
                 Ladder = ladder,
+                PartTime = ScramblingTimeStage.LadderPartTime(evo),
                 Budget = evo.Main.Budget.MaxStrings,
             }, size));
 

@@ -344,23 +344,12 @@ public static class ScramblingTimeStage
         var main = evo.Main.Records;
         double target = majorana && main[0].MeanMajoranaSize is not null ? evo.N / 2.0 : 3.0 * evo.N / 8;
         double Size(EvolutionRecord r) => majorana && r.MeanMajoranaSize is double m ? m : r.MeanSize;
-        var other = evo.Rungs.Count > 1 ? evo.Rungs[1].Records : null;
+        int agree = LadderPartIndex(evo, Size);
         int last = -1;
-        for (int i = 0; i < main.Count; i++)
-        {
-            double s = Size(main[i]);
-            if (s >= target) break;
-            if (other is not null)
-            {
-                if (i >= other.Count) break;
-                double o = Size(other[i]);
-                if (Math.Abs(s - o) > 0.05 * Math.Abs(s)) break;
-            }
-            last = i;
-        }
+        for (int i = 0; i < agree && Size(main[i]) < target; i++) last = i;
         if (last <= 0) return null;
         double t = main[last].Time;
-        string why = other is null
+        string why = evo.Rungs.Count < 2
             ? FormattableString.Invariant($"the mean size is {Size(main[last]):0.##} < {target:0.##} at t = {t:0.##} (no budget series: not checked for convergence)")
             : FormattableString.Invariant($"the converged mean size (string budgets agreeing within 5%) is still {Size(main[last]):0.##} < {target:0.##} at t = {t:0.##}");
         return new ScramblingTimeStatement
@@ -371,6 +360,33 @@ public static class ScramblingTimeStage
             Method = why,
             Basis = why,
         };
+    }
+
+    // Index of the first record where the two largest budgets' sizes differ by more than 5% (the record count when
+    // they agree throughout or there is one budget).
+    private static int LadderPartIndex(EvolutionResult evo, Func<EvolutionRecord, double> size)
+    {
+        var a = evo.Rungs[0].Records;
+        if (evo.Rungs.Count < 2) return a.Count;
+        var b = evo.Rungs[1].Records;
+        int n = Math.Min(a.Count, b.Count);
+        for (int i = 0; i < n; i++)
+        {
+            if (Math.Abs(size(a[i]) - size(b[i])) > 0.05 * Math.Abs(size(a[i]))) return i;
+        }
+        return n;
+    }
+
+    /// <summary>
+    /// First recorded time at which the mean sizes of the two largest budgets differ by more than 5% (the ladder's
+    /// convergence tolerance); null when they agree throughout or there is no second budget.
+    /// </summary>
+    public static double? LadderPartTime(EvolutionResult evo)
+    {
+        ArgumentNullException.ThrowIfNull(evo);
+        if (evo.Rungs.Count < 2) return null;
+        int i = LadderPartIndex(evo, r => r.MeanSize);
+        return i < Math.Min(evo.Rungs[0].Records.Count, evo.Rungs[1].Records.Count) ? evo.Rungs[0].Records[i].Time : null;
     }
 
     private static double? GuessTStar(EvolutionResult? evo, bool majorana)
