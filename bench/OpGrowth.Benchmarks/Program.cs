@@ -49,6 +49,12 @@ internal static class Program
             QuickFront.Run(args[1], int.Parse(args[2], ci), args[3], double.Parse(args[4], ci), double.Parse(args[5], ci), args[6].Split(',').Select(x => int.Parse(x, ci)).ToArray());
             return;
         }
+        if (args.Length > 3 && args[0] == "quick-crosscheck")
+        {
+            var ci = System.Globalization.CultureInfo.InvariantCulture;
+            QuickCrossCheck.Run(args[1], int.Parse(args[2], ci), double.Parse(args[3], ci));
+            return;
+        }
         BenchmarkSwitcher.FromAssembly(typeof(Program).Assembly).Run(args);
     }
 }

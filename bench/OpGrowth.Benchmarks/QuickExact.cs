@@ -108,3 +108,20 @@ internal static class QuickFront
         }
     }
 }
+
+/// <summary>Timing of the run's cross-check parts at small N (`-- quick-crosscheck MODEL N T`).</summary>
+internal static class QuickCrossCheck
+{
+    public static void Run(string model, int n, double time)
+    {
+        var m = ModelLoader.Load(ShippedModels.Resolve(model), new Dictionary<string, string> { ["N"] = n.ToString(CultureInfo.InvariantCulture) });
+        var times = Enumerable.Range(0, 31).Select(i => i * time / 30).ToArray();
+        var sw = Stopwatch.StartNew();
+        var dense = ExactOtoc.Run(m.Hamiltonian, new ExactOtocOptions { Operator = m.Probes[0], Times = times, Method = OtocMethod.Dense, Tolerance = 1e-12, Threads = 2 });
+        Console.WriteLine($"dense exact OTOC, {times.Length} times: {sw.Elapsed.TotalSeconds:0.00} s");
+        sw.Restart();
+        var evo = OpGrowth.Evolution.OperatorEvolution.Run(new OpGrowth.Evolution.EvolutionProblem { N = n, Name = model, Hamiltonian = m.Hamiltonian, Initial = OpGrowth.Evolution.EvolutionProblem.Probe(m.Probes[0]) },
+            new OpGrowth.Evolution.EvolutionOptions { Method = OpGrowth.Evolution.IntegrationMethod.Taylor, Dt = double.Parse(Environment.GetEnvironmentVariable("CC_DT") ?? "0.1", CultureInfo.InvariantCulture), Time = time, RecordEvery = 1, Threads = 2, LadderRungs = 1, Truncation = OpGrowth.Evolution.TruncationPolicy.None });
+        Console.WriteLine($"Pauli engine, Taylor, no truncation: {sw.Elapsed.TotalSeconds:0.00} s ({evo.Main.Records.Count} records, {evo.Main.Records[^1].Strings} strings)");
+    }
+}

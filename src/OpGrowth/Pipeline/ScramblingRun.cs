@@ -279,7 +279,10 @@ public static partial class ScramblingRun
         if (small.N > PauliMask.MaxQubits || small.N > DenseSpectrum.DefaultMaxQubits)
             return new CrossCheck { SkipReason = $"N = {small.N} is too large for the dense exact engine", Tolerance = options.CrossCheckTolerance };
         var probe = small.Probes[0];
-        double dt = small.Drive?.Period ?? 0.1;
+        // Taylor steps cost about the same per unit time at any dt, plus a fixed tail per step (terms until 1e-17):
+        // dt = 0.25 with a record every step (13 times up to t = 3) takes half the time of dt = 0.1 (measured on the
+        // 8-site demo chain: 19 s against 38 s on a loaded machine) and compares the engines at every record.
+        double dt = small.Drive?.Period ?? 0.25;
         long steps = Math.Max(1, (long)Math.Ceiling(time / dt - 1e-9));
         var problem = ProblemOf(small, probe);
         // Taylor: exact to rounding at any dt; no truncation: the Pauli engine is then exact as well.
