@@ -86,17 +86,8 @@ public static class ScramblingTimeStage
             if (ts.Value is double tv && conv is { Converged: true })
             {
                 double u = Math.Sqrt(Math.Pow(ts.GridUncertainty ?? 0, 2) + Math.Pow(conv.Movement ?? 0, 2));
-                pauli = new ScramblingTimeStatement
-                {
-                    Route = "measured",
-                    N = n,
-                    Value = tv,
-                    Uncertainty = u,
-                    Low = tv - 2 * u,
-                    High = tv + 2 * u,
-                    Method = "Pauli engine, converged budget series",
-                    Basis = FormattableString.Invariant($"{ts.Definition}; moved {conv.Movement:0.####} ({conv.RelativeMovement:P1}) between the two largest string budgets (tolerance 5%)"),
-                };
+                pauli = ScramblingTimeStatement.Banded("measured", n, tv, u, "Pauli engine, converged budget series",
+                    FormattableString.Invariant($"{ts.Definition}; moved {conv.Movement:0.####} ({conv.RelativeMovement:P1}) between the two largest string budgets (tolerance 5%)"));
             }
         }
 
@@ -162,20 +153,9 @@ public static class ScramblingTimeStage
                 {
                     double sampling = double.IsFinite(r.SamplingError) ? r.SamplingError : 0;
                     double u = Math.Sqrt(sampling * sampling + r.LocationError * r.LocationError);
-                    return new ScramblingTimeStatement
-                    {
-                        Route = "measured",
-                        N = n,
-                        Value = ts,
-                        Uncertainty = u,
-                        Low = ts - 2 * u,
-                        High = ts + 2 * u,
-                        Method = $"exact engine, mean size from {r.Estimator}, {r.Samples} random state(s)",
-                        Basis = FormattableString.Invariant($"n(t) = {r.Target:0.###} located from {r.Evaluations.Count - 1} evaluations (interpolation error {r.LocationError:0.####}, sampling error {sampling:0.####}: {r.SamplingErrorKind})"),
-                        Members = predicted?.Members ?? [],
-                        Also = also,
-                        Cost = spent,
-                    };
+                    return ScramblingTimeStatement.Banded("measured", n, ts, u, $"exact engine, mean size from {r.Estimator}, {r.Samples} random state(s)",
+                        FormattableString.Invariant($"n(t) = {r.Target:0.###} located from {r.Evaluations.Count - 1} evaluations (interpolation error {r.LocationError:0.####}, sampling error {sampling:0.####}: {r.SamplingErrorKind})"))
+                        with { Members = predicted?.Members ?? [], Also = also, Cost = spent };
                 }
                 string why = FormattableString.Invariant($"exact engine: the mean size stays below {r.Target:0.###} up to t = {r.LowerBound:0.##}");
                 return new ScramblingTimeStatement

@@ -100,19 +100,8 @@ public static class ScramblingTimePrediction
         string range = $"N = {ms.Min(m => m.N)}..{ms.Max(m => m.N)}";
         string basis = FormattableString.Invariant(
             $"front ({frontSource}) reaches the half-volume distance d = {halfDistance:0.##} at t = {target.Time:0.###} +- {target.Error:0.###}{(target.Extrapolated ? $" (extrapolated with v_B = {vB:0.###})" : "")}; offset t* - arrival = {mean:0.###} (scatter {sd:0.###}, trend over {range} {trend:0.###}) from exact t* at {range}");
-        return new ScramblingTimeStatement
-        {
-            Route = "predicted",
-            N = n,
-            Value = value,
-            Uncertainty = sigma,
-            Low = value - 2 * sigma,
-            High = value + 2 * sigma,
-            Method = $"front at d = {halfDistance.ToString("0.#", Inv)} + offset from exact t* at {range}",
-            Basis = basis,
-            Members = members,
-            Also = also,
-        };
+        return ScramblingTimeStatement.Banded("predicted", n, value, sigma, $"front at d = {halfDistance.ToString("0.#", Inv)} + offset from exact t* at {range}", basis)
+            with { Members = members, Also = also };
     }
 
     /// <summary>
@@ -135,21 +124,10 @@ public static class ScramblingTimePrediction
             $"{(l.Law == "log" ? "a + b ln N" : "a + N/v")}: {l.Value:0.###} +- {l.Error:0.###} (weight {l.Weight:0.00})");
         string basis = $"{cmp.Verdict}; {lawText(laws[0])}; {lawText(laws[1])}; model-averaged {mu.ToString("0.###", Inv)} +- {sc.FitError.ToString("0.###", Inv)}"
             + (sc.SeedSpread > 0 ? FormattableString.Invariant($", plus the seed-to-seed spread {sc.SeedSpread:0.###} at N = {largest.N} for this realisation") : "");
-        return new ScramblingTimeStatement
-        {
-            Route = "predicted",
-            N = n,
-            Value = mu,
-            Uncertainty = sigma,
-            Low = mu - 2 * sigma,
-            High = mu + 2 * sigma,
-            Method = cmp.Preferred == "neither"
-                ? $"t* = a + b ln N and t* = a + N/v fitted at {range} (the data cannot choose: both shown)"
-                : $"{(cmp.Preferred == "log" ? "t* = a + b ln N" : "t* = a + N/v")} preferred ({cmp.Strength}) over {range}",
-            Basis = basis,
-            Laws = laws,
-            Members = members,
-        };
+        string method = cmp.Preferred == "neither"
+            ? $"t* = a + b ln N and t* = a + N/v fitted at {range} (the data cannot choose: both shown)"
+            : $"{(cmp.Preferred == "log" ? "t* = a + b ln N" : "t* = a + N/v")} preferred ({cmp.Strength}) over {range}";
+        return ScramblingTimeStatement.Banded("predicted", n, mu, sigma, method, basis) with { Laws = laws, Members = members };
     }
 
     /// <summary>The scaling route's numbers: both laws, the model-averaged mean and its error, and the seed spread at the largest member.</summary>

@@ -63,6 +63,19 @@ public sealed record ScramblingTimeStatement
     /// <summary>Estimated or measured cost of the route's exact-engine work, in words.</summary>
     public string? Cost { get; init; }
 
+    /// <summary>A measured or predicted statement with value, one-sigma uncertainty and the 2-sigma band.</summary>
+    public static ScramblingTimeStatement Banded(string route, int n, double value, double sigma, string method, string basis) => new()
+    {
+        Route = route,
+        N = n,
+        Value = value,
+        Uncertainty = sigma,
+        Low = value - 2 * sigma,
+        High = value + 2 * sigma,
+        Method = method,
+        Basis = basis,
+    };
+
     /// <summary>One line for the console: "t* at N = 24: 7.4 +- 0.2 (predicted: ...)".</summary>
     public string Text()
     {

@@ -69,22 +69,26 @@ public class StateVectorTests
     {
         // Reference: the plain one-string-at-a-time path; N = 16 spans many chunks and 2 threads,
         // with X masks in both the chunk-local and the far bits. Tolerance: rounding of ~150 terms.
-        const int n = 16;
-        var h = TestModels.RandomLocal(n, 9);
+        AssertMatchesTermByTerm(TestModels.RandomLocal(16, 9), 4, 1e-13);
+    }
+
+    // Fast path on two threads against the term-by-term reference, and bit-identical to one thread.
+    private static PauliHamiltonianApplier AssertMatchesTermByTerm(Hamiltonian h, int seed, double tolerance)
+    {
         var app = new PauliHamiltonianApplier(h, threads: 2);
-        var psi = StateVector.Create(n);
-        StateVector.FillHaarRandom(psi, new Random(4));
+        var psi = StateVector.Create(h.N);
+        StateVector.FillHaarRandom(psi, new Random(seed));
         var fast = new Complex[psi.Length];
         var slow = new Complex[psi.Length];
         app.Apply(psi, fast);
         app.ApplyTermByTerm(psi, slow);
         double maxDiff = 0;
         for (int i = 0; i < fast.Length; i++) maxDiff = Math.Max(maxDiff, (fast[i] - slow[i]).Magnitude);
-        Assert.True(maxDiff < 1e-13, $"max difference {maxDiff}");
-        var one = new PauliHamiltonianApplier(h, threads: 1);
+        Assert.True(maxDiff < tolerance, $"max difference {maxDiff}");
         var single = new Complex[psi.Length];
-        one.Apply(psi, single);
+        new PauliHamiltonianApplier(h, threads: 1).Apply(psi, single);
         Assert.Equal(single, fast); // bit-identical at any thread count
+        return app;
     }
 
     [Fact]
@@ -124,21 +128,8 @@ public class StateVectorTests
                 t.Add(new(TestModels.P($"Z_{i} Z_{j}", n), jij));
             }
         }
-        var h = new Hamiltonian(n, t);
-        var app = new PauliHamiltonianApplier(h, threads: 2);
+        var app = AssertMatchesTermByTerm(new Hamiltonian(n, t), 2, 1e-12);
         Assert.Equal(n * (n - 1) / 2, app.ExchangePairs);
-        var psi = StateVector.Create(n);
-        StateVector.FillHaarRandom(psi, new Random(2));
-        var fast = new Complex[psi.Length];
-        var slow = new Complex[psi.Length];
-        app.Apply(psi, fast);
-        app.ApplyTermByTerm(psi, slow);
-        double maxDiff = 0;
-        for (int i = 0; i < fast.Length; i++) maxDiff = Math.Max(maxDiff, (fast[i] - slow[i]).Magnitude);
-        Assert.True(maxDiff < 1e-12, $"max difference {maxDiff}");
-        var single = new Complex[psi.Length];
-        new PauliHamiltonianApplier(h, threads: 1).Apply(psi, single);
-        Assert.Equal(single, fast); // bit-identical at any thread count
     }
 
     [Fact]
