@@ -55,6 +55,12 @@ internal static class Program
             QuickCrossCheck.Run(args[1], int.Parse(args[2], ci), double.Parse(args[3], ci));
             return;
         }
+        if (args.Length > 4 && args[0] == "quick-validate")
+        {
+            var ci = System.Globalization.CultureInfo.InvariantCulture;
+            QuickValidate.Run(args[1], args[2], int.Parse(args[3], ci), args[4].Split(',').Select(x => int.Parse(x, ci)).ToArray());
+            return;
+        }
         BenchmarkSwitcher.FromAssembly(typeof(Program).Assembly).Run(args);
     }
 }

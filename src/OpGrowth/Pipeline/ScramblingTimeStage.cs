@@ -37,16 +37,21 @@ public static class ScramblingTimeStage
         _ => double.PositiveInfinity,
     };
 
-    /// <summary>Member sizes for the predicted route: even N from 8 up to the effort's largest, below the model's N.</summary>
+    /// <summary>
+    /// Member sizes for the predicted route: even N below the model's N, from 8 (all-to-all) or 10 (short-range: the
+    /// front route extrapolates the offset from the largest three, and on the tilted-field chain the offset behind the
+    /// half-volume front changes regime between N = 14 and 16, so 16 is the smallest useful top) up to the effort's largest.
+    /// </summary>
     public static int[] MemberSizes(RunEffort e, int n, bool allToAll)
     {
         int top = e switch
         {
             RunEffort.Quick => 12,
-            RunEffort.Thorough => allToAll ? 18 : 18,
-            _ => 14,
+            RunEffort.Thorough => 18,
+            _ => allToAll ? 14 : 16,
         };
-        return Enumerable.Range(4, 20).Select(k => 2 * k).Where(k => k <= top && k < n).ToArray();
+        int bottom = allToAll ? 8 : 10;
+        return Enumerable.Range(bottom / 2, 20).Select(k => 2 * k).Where(k => k <= top && k < n).ToArray();
     }
 
     /// <summary>Disorder seeds averaged per member size (disordered models).</summary>

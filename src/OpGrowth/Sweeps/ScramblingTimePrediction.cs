@@ -67,9 +67,10 @@ public static class ScramblingTimePrediction
     }
 
     /// <summary>
-    /// Front route: t*(N) = arrival(d_half(N)) + delta, with delta the mean of t*_i - arrival(d_half(N_i)) over the
-    /// members. Uncertainty: the members' scatter about a constant delta, the change a linear trend of delta in N would
-    /// make at N, and the arrival's own uncertainty, in quadrature.
+    /// Front route: t*(N) = arrival(d_half(N)) + delta(N), with delta_i = t*_i - arrival(d_half(N_i)) at the members,
+    /// carried to N by a straight line in N over the largest three members (error: its covariance and its difference to
+    /// the line over all members), with three or more members; a constant with its scatter below that.
+    /// Uncertainty: the fit's covariance error at N and the arrival's own, in quadrature.
     /// </summary>
     public static ScramblingTimeStatement FromFront(int n, double halfDistance, Arrival target, IReadOnlyList<ScramblingTimeMember> members, double vB, string frontSource)
     {
@@ -79,27 +80,44 @@ public static class ScramblingTimePrediction
         var delta = ms.Select(m => m.TStar - m.FrontArrival!.Value).ToArray();
         double mean = delta.Average();
         double sd = delta.Length > 1 ? Math.Sqrt(delta.Sum(x => (x - mean) * (x - mean)) / (delta.Length - 1)) : ms[0].Error;
-        double memberErr = Math.Sqrt(ms.Average(m => m.Error * m.Error));
-        double trend = 0;
-        if (ms.Length >= 3)
-        {
-            double nb = ms.Average(m => (double)m.N);
-            double sxx = ms.Sum(m => (m.N - nb) * (m.N - nb));
-            double slope = ms.Select((m, i) => (m.N - nb) * (delta[i] - mean)).Sum() / sxx;
-            trend = Math.Abs(slope * (n - nb));
-        }
-        double sigma = Math.Sqrt(sd * sd + memberErr * memberErr + trend * trend + target.Error * target.Error);
-        double value = target.Time + mean;
+        double offset, offsetError;
+        string offsetText;
         var also = new List<string>();
         if (ms.Length >= 3)
         {
+            // The offset drifts with N (the region behind the front saturates more slowly than the front moves: weight
+            // lingers on slow, conserved densities), so it is carried to N by a straight line in N: fitted over the
+            // largest three members (the local trend, where the behaviour is most asymptotic) and over all members; the
+            // value is the local one, its error the local fit's covariance error (scaled by sqrt(chi^2/dof) when the
+            // members scatter more than their errors) and the difference between the two lines, in quadrature.
+            ScalingFit Line(IEnumerable<(ScramblingTimeMember m, double d)> pts)
+            {
+                var p = pts.ToArray();
+                return ScalingFit.Fit("linear", p.Select(x => (double)x.m.N).ToArray(), p.Select(x => x.d).ToArray(), p.Select(x => Math.Max(x.m.Error, 1e-9)).ToArray());
+            }
+            var pairs = ms.Select((m, i) => (m, d: delta[i])).OrderBy(x => x.m.N).ToArray();
+            var local = Line(pairs.Skip(pairs.Length - 3));
+            var all = Line(pairs);
+            offset = local.Evaluate(n);
+            double model = Math.Abs(all.Evaluate(n) - offset);
+            offsetError = Math.Sqrt(Math.Pow(local.PredictionError(n), 2) + model * model);
+            offsetText = FormattableString.Invariant($"offset t* - arrival = {local.A:0.###} + {local.Slope:0.####} N over N = {pairs[^3].m.N}..{pairs[^1].m.N}: {offset:0.###} +- {local.PredictionError(n):0.###} at N = {n}, {all.Evaluate(n):0.###} from the line over all members (difference {model:0.###} counted as model uncertainty)");
+            also.Add(FormattableString.Invariant($"with a constant offset (mean {mean:0.###}, scatter {sd:0.###}) instead: {target.Time + mean:0.###}"));
             var lin = ScalingFit.Fit("linear", ms.Select(m => (double)m.N).ToArray(), ms.Select(m => m.TStar).ToArray(), ms.Select(m => m.Error).ToArray());
             if (lin.V is double v)
                 also.Add(FormattableString.Invariant($"straight-line fit of the members alone: t* = {lin.A:0.###} + N/{v:0.###} gives {lin.Evaluate(n):0.###} +- {lin.PredictionError(n):0.###} at N = {n} (v = {v:0.###} against 2 v_B = {2 * vB:0.###})"));
         }
+        else
+        {
+            offset = mean;
+            offsetError = Math.Sqrt(sd * sd + ms.Average(m => m.Error * m.Error));
+            offsetText = FormattableString.Invariant($"offset t* - arrival = {mean:0.###} (scatter {sd:0.###})");
+        }
+        double sigma = Math.Sqrt(offsetError * offsetError + target.Error * target.Error);
+        double value = target.Time + offset;
         string range = $"N = {ms.Min(m => m.N)}..{ms.Max(m => m.N)}";
         string basis = FormattableString.Invariant(
-            $"front ({frontSource}) reaches the half-volume distance d = {halfDistance:0.##} at t = {target.Time:0.###} +- {target.Error:0.###}{(target.Extrapolated ? $" (extrapolated with v_B = {vB:0.###})" : "")}; offset t* - arrival = {mean:0.###} (scatter {sd:0.###}, trend over {range} {trend:0.###}) from exact t* at {range}");
+            $"front ({frontSource}) reaches the half-volume distance d = {halfDistance:0.##} at t = {target.Time:0.###} +- {target.Error:0.###}{(target.Extrapolated ? $" (extrapolated with v_B = {vB:0.###})" : "")}; {offsetText}; exact t* at {range}");
         return ScramblingTimeStatement.Banded("predicted", n, value, sigma, $"front at d = {halfDistance.ToString("0.#", Inv)} + offset from exact t* at {range}", basis)
             with { Members = members, Also = also };
     }
