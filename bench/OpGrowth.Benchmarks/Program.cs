@@ -61,6 +61,12 @@ internal static class Program
             QuickValidate.Run(args[1], args[2], int.Parse(args[3], ci), args[4].Split(',').Select(x => int.Parse(x, ci)).ToArray());
             return;
         }
+        if (args.Length > 3 && args[0] == "quick-contours")
+        {
+            var ci = System.Globalization.CultureInfo.InvariantCulture;
+            QuickContours.Run(int.Parse(args[1], ci), double.Parse(args[2], ci), args[3].Split(',').Select(x => int.Parse(x, ci)).ToArray());
+            return;
+        }
         BenchmarkSwitcher.FromAssembly(typeof(Program).Assembly).Run(args);
     }
 }

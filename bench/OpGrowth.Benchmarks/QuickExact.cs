@@ -125,3 +125,24 @@ internal static class QuickCrossCheck
         Console.WriteLine($"Pauli engine, Taylor, no truncation: {sw.Elapsed.TotalSeconds:0.00} s ({evo.Main.Records.Count} records, {evo.Main.Records[^1].Strings} strings)");
     }
 }
+
+/// <summary>Front contours at several thresholds per bond dimension (`-- quick-contours N T CHI1,CHI2`).</summary>
+internal static class QuickContours
+{
+    public static void Run(int n, double time, int[] chis)
+    {
+        var m = ModelLoader.Load(ShippedModels.Resolve("mixed-field-ising"), new Dictionary<string, string> { ["N"] = n.ToString(CultureInfo.InvariantCulture) });
+        var r = OpGrowth.Evolution.FrontEvolution.Run(m.Hamiltonian, OpGrowth.Pauli.PauliString.Single(n, 0, 'Z'), new OpGrowth.Evolution.FrontEvolutionOptions { Time = time, BondDimensions = chis, RecordEvery = 10 });
+        double[] thr = [1e-4, 1e-3, 0.01, 0.1, 0.375];
+        foreach (var run in r.Runs)
+        {
+            Console.WriteLine($"chi {run.BondDimension}:");
+            for (int i = 0; i < run.Times.Length; i += 2)
+            {
+                var w = run.SiteWeights[i];
+                string c = string.Join(" ", thr.Select(th => { int last = -1; for (int j = 0; j < n; j++) if (w[j] >= th) last = j; return last.ToString(CultureInfo.InvariantCulture); }));
+                Console.WriteLine($"  t={run.Times[i]:0.#} norm={run.NormSquared[i]:0.####} contours(1e-4,1e-3,0.01,0.1,0.375)= {c}");
+            }
+        }
+    }
+}
