@@ -75,6 +75,8 @@ public sealed class SweepExecutor
                 }
                 used += mem;
                 pending.RemoveAt(i);
+                if (_runner.EstimateSeconds(p) is double est)
+                    _logger?.LogInformation("point {Index} {Point}: estimated {Time} and {Memory} before it starts", p.Index, p, FormatDuration(est), FormatBytes(mem));
                 var token = linked.Token;
                 var task = Task.Factory.StartNew(() => _runner.Run(p, token), token, TaskCreationOptions.LongRunning, TaskScheduler.Default);
                 running.Add((task, p, mem));
