@@ -12,6 +12,7 @@ internal static class CommandRegistry
         yield return CheckCommand.Create();
         yield return EvolveCommand.Create();
         yield return LanczosCommand.Create();
+        yield return FrontCommand.Create();
         yield return ExactCommand.Create();
         yield return CompareCommand.Create();
         yield return DiagnoseCommand.Create();

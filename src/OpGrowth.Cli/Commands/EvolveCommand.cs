@@ -74,7 +74,7 @@ internal static class EvolveCommand
         var resume = new Option<bool>("--resume") { Description = "Continue from the checkpoints in the output folder (same model and options); an error when there are none." };
         var ckEvery = new Option<double>("--checkpoint-minutes") { Description = "Minutes between checkpoints (taken at record times; an interruption always writes one); 0 = at every record.", DefaultValueFactory = _ => 5 };
         var noCk = new Option<bool>("--no-checkpoints") { Description = "Do not write checkpoints." };
-        var keepCk = new Option<bool>("--keep-checkpoints") { Description = "Keep the checkpoints after a completed run (default: removed)." };
+        var keepCk = new Option<bool>("--keep-checkpoints") { Description = "Keep the checkpoints after a completed run [default: removed]." };
 
         var cmd = new Command("evolve",
             "Evolve an operator in the Heisenberg picture, O(t) = e^{iHt} O e^{-iHt}, in the Pauli-string basis (up to 1024 qubits) with accounted truncation, " +

@@ -23,8 +23,8 @@ internal static class ExactCommand
     public static Command Create()
     {
         var model = CommonOptions.Model();
-        var mode = new Option<string>("--mode") { Description = "otoc (infinite temperature), thermal (finite temperature at --beta), or levels (level statistics).", DefaultValueFactory = _ => "otoc" };
-        mode.AcceptOnlyFromAmong("otoc", "thermal", "levels");
+        var mode = new Option<string>("--mode") { Description = "otoc (infinite temperature), thermal (finite temperature at --beta), levels (level statistics), or tstar (locate t*, the first time the mean size reaches half its saturation, with the time grid refined around the crossing; the last time of --times is the latest evaluated).", DefaultValueFactory = _ => "otoc" };
+        mode.AcceptOnlyFromAmong("otoc", "thermal", "levels", "tstar");
         var set = CommonOptions.Set();
         var op = CommonOptions.Probe();
         var sites = new Option<string>("--sites") { Description = "Sites j for OTOCs against X_j, Y_j, Z_j: \"all\", \"none\" or a list such as \"0,5,9\".", DefaultValueFactory = _ => "all" };
@@ -45,7 +45,11 @@ internal static class ExactCommand
         var cmd = new Command("exact",
             "Exact state-vector engine at small N: OTOCs F(t) = Tr(W(t) V W(t) V)/2^N of the probe W against X, Y, Z on every site " +
             "(dense traces or quantum typicality), the regularised finite-temperature OTOC with fitted growth rate and " +
-            "chaos-bound ratio, or level statistics (mean gap ratio in symmetry sectors).")
+            "chaos-bound ratio, or level statistics (mean gap ratio in symmetry sectors).\n\n" +
+            "Examples:\n  opgrowth exact mixed-field-ising --set N=12 --probe Z_0 --times 0:6:31\n" +
+            "  opgrowth exact mixed-field-ising --set N=10 --mode thermal --beta 0.2,0.5 --sites 5\n" +
+            "  opgrowth exact mixed-field-ising --set N=12 --mode levels\n" +
+            "  opgrowth exact heisenberg-all-to-all --set N=18 --mode tstar --samples 1")
         {
             model, mode, set, op, sites, probe, times, beta, method, samples, seed, tol, threads, fit, resolve, realizations, fraction, meanSize, outDir,
         };
@@ -75,8 +79,50 @@ internal static class ExactCommand
             "otoc" => RunOtoc(model, s, outDir, threads, log, thermal: false, ct),
             "thermal" => RunOtoc(model, s, outDir, threads, log, thermal: true, ct),
             "levels" => RunLevels(model, path, overrides, s, outDir, threads, log),
-            _ => throw new InputException($"--mode: found '{s.Mode}'; expected otoc, thermal or levels"),
+            "tstar" => RunScramblingTime(model, path, overrides, s, outDir, threads, log, ct),
+            _ => throw new InputException($"--mode: found '{s.Mode}'; expected otoc, thermal, levels or tstar"),
         };
+    }
+
+    // t* by the search: the estimator follows the lattice (site blocks with distances, one random-sign group per site
+    // on all-to-all lattices and for Majorana sizes); the cost estimate is logged before it starts.
+    private static int RunScramblingTime(Model model, string path, IReadOnlyDictionary<string, string> overrides, Settings s, string outDir, int threads, ILogger log, CancellationToken ct)
+    {
+        int n = model.N;
+        if (model.IsDriven) throw new InputException(path, 0, "found a driven (Floquet) model with --mode tstar; expected a Hamiltonian model");
+        if (n > PauliMask.MaxQubits) throw new InputException($"model has N = {n}; expected N <= {PauliMask.MaxQubits} for state vectors (2^N amplitudes)");
+        var w = s.Operator is null ? model.Probes[0] : ParsePauli(s.Operator, n, "--operator");
+        var times = ParseTimes(s.Times);
+        bool majorana = model.SizeMeasure == SizeMeasure.Majoranas;
+        var (blocks, groups) = ScramblingTimeSearch.DefaultEstimator(n, model.Lattice.Diameter, majorana);
+        int samples = ParseInt(s.Samples, "--samples", 1, 10_000);
+        int th = threads > 0 ? threads : Environment.ProcessorCount;
+        Model? small = n > 12 && model.Parameters.ContainsKey("N") ? ModelLoader.Load(path, new Dictionary<string, string>(overrides) { ["N"] = "12" }, lenient: true) : null;
+        var est = ScramblingTimeCost.Estimate(model.Hamiltonian, small?.Hamiltonian, Math.Min(times[^1], ScramblingTimeSearch.FirstTime(model.Hamiltonian, w) * 4), samples, ScramblingTimeSearch.VectorsPerState(n, blocks, groups), th);
+        log.LogInformation("estimated cost: {Seconds:0} s and {Gib:0.##} GiB on {Threads} thread(s) ({Basis}; t* assumed {T:0.##}, a rough first guess)", est.Seconds, est.Bytes / 1073741824.0, th, est.Basis, est.TStar);
+        var r = ScramblingTimeSearch.Run(model.Hamiltonian, new ScramblingTimeSearchOptions
+        {
+            Operator = w,
+            MajoranaSize = majorana,
+            MaxTime = times[^1] > 0 ? times[^1] : 50,
+            Samples = samples,
+            Seed = ParseInt(s.Seed, "--seed", int.MinValue, int.MaxValue),
+            PropagationTolerance = ParseDouble(s.Tolerance, "--tolerance", 1e-15, 0.1),
+            SiteBlocks = blocks,
+            ProbeGroups = groups,
+            Threads = threads,
+            Logger = log,
+        }, ct);
+        Directory.CreateDirectory(outDir);
+        AtomicFile.WriteJson(Path.Combine(outDir, "exact-tstar.json"), r);
+        var o = CliHost.Out;
+        o.WriteLine($"{model.Name} N={n} W={w} size in {r.SizeMeasure}, {r.Estimator}, {r.Samples} state(s) ({r.WallSeconds:0.0} s, {r.MatrixVectorProducts} applications of H)");
+        foreach (var e in r.Evaluations) o.WriteLine(FormattableString.Invariant($"  n({e.Time:0.#####}) = {e.MeanSize:0.####} +- {e.Error:0.####}"));
+        o.WriteLine(r.TStar is double ts
+            ? FormattableString.Invariant($"  t* = {ts:0.#####} (level {r.Target:0.###}; interpolation error {r.LocationError:G2}, sampling error {r.SamplingError:G2}: {r.SamplingErrorKind})")
+            : FormattableString.Invariant($"  t* > {r.LowerBound:0.###}: the mean size stays below {r.Target:0.###}"));
+        o.WriteLine($"wrote {Path.Combine(outDir, "exact-tstar.json")}");
+        return ExitCodes.Ok;
     }
 
     private static int RunOtoc(Model model, Settings s, string outDir, int threads, ILogger log, bool thermal, CancellationToken ct)

@@ -33,6 +33,7 @@ internal static class RunCommand
         var noLanczos = new Option<bool>("--no-lanczos") { Description = "Skip the Lanczos coefficients." };
         var noDiagnosis = new Option<bool>("--no-diagnosis") { Description = "Skip the diagnosis battery." };
         var sweep = new Option<string?>("--sweep") { Description = "Also run t*(N) at these sizes, e.g. 8,10,12, and fit t* = a + b ln N against t* = a + N/v (results kept in <out>/sweep; a rerun reuses finished sizes)." };
+        var exactTStar = new Option<bool>("--exact-tstar") { Description = "Measure t* at the model's own N with the exact engine even when it exceeds the effort's budget (the cost estimate is logged before it starts; --effort thorough always does)." };
         var ensemble = new Option<string>("--ensemble") { Description = "static (the model as written), brownian (its white-noise counterpart, as opgrowth ensemble), or both side by side at the same N (counterpart report in <out>/brownian). A circuit file always runs its random-circuit ensemble.", DefaultValueFactory = _ => "static" };
         ensemble.AcceptOnlyFromAmong("static", "brownian", "both");
         var cmd = new Command("run",
@@ -41,7 +42,7 @@ internal static class RunCommand
             "checked against the exact engine at a small N of the same family, a bounded diagnosis battery (does it scramble, and if not, why), and optionally t*(N). " +
             "Writes report.html, report.md, figures, results.json, data/*.csv and manifest.json.")
         {
-            model, set, probe, outDir, effort, memory, threads, time, noExact, noLanczos, noDiagnosis, sweep, ensemble,
+            model, set, probe, outDir, effort, memory, threads, time, noExact, noLanczos, noDiagnosis, sweep, ensemble, exactTStar,
         };
         cmd.SetAction(pr => CliHost.Run(ct => CommonOptions.Capped(pr.GetValue(memory), () => Execute(new ScramblingRunOptions
         {
@@ -55,6 +56,7 @@ internal static class RunCommand
             RunExact = !pr.GetValue(noExact),
             RunLanczos = !pr.GetValue(noLanczos),
             RunDiagnosis = !pr.GetValue(noDiagnosis),
+            ExactScramblingTime = pr.GetValue(exactTStar),
         }, pr.GetValue(set) ?? [], pr.GetValue(sweep), pr.GetValue(ensemble)!, ct))));
         return cmd;
     }
@@ -125,12 +127,13 @@ internal static class RunCommand
         double seconds = r.TimingsSeconds.Values.Sum();
         o.WriteLine($"{r.Model.Name} (N = {r.Model.N}), probe {r.Problem.Initial[0].String}, effort {r.Options.Effort.ToString().ToLowerInvariant()}: {(r.Completed ? "completed" : "stopped early (" + r.StopReason + ")")} in {NumberFormat.Duration(TimeSpan.FromSeconds(seconds))}");
         if (r.Verdict is { } verdict) o.WriteLine($"  {RunReport.VerdictText(verdict).Replace("Verdict: ", "verdict: ", StringComparison.Ordinal)}");
-        foreach (var h in r.Headlines) o.WriteLine("  " + EvolutionHeadlines.Line(h));
+        foreach (var h in r.Headlines.Where(h => r.ScramblingTime is null || h.Name != RunReport.ScramblingTimeName)) o.WriteLine("  " + EvolutionHeadlines.Line(h));
+        if (r.ScramblingTime is { } st) o.WriteLine($"  {EvolutionHeadlines.ScramblingTime}: {st.Text()}");
         if (r.Evolution is { } evo && evo.Figures.Count > 0 && evo.Main.Records.Count > 0)
         {
             var ts = evo.Figures[0].ScramblingTime;
             var last = evo.Main.Records[^1];
-            if (ts.Value is null)
+            if (ts.Value is null && r.ScramblingTime is null)
                 o.WriteLine($"  {EvolutionHeadlines.ScramblingTime}: not reached by t = {NumberFormat.Number(last.Time, 3)} (mean size {NumberFormat.Number(last.MeanSize, 3)} of 3N/8 = {NumberFormat.Number(ts.Target, 3)})");
             o.WriteLine($"  {EvolutionHeadlines.DiscardedWeight}: {EvolutionHeadlines.DiscardedText(evo)}");
         }

@@ -205,21 +205,28 @@ internal static class SweepCommand
         var store = new PointStore(dir);
         int th = Math.Max(1, CommonOptions.ThreadsOrDefault(threads) / Math.Max(1, jobs ?? Environment.ProcessorCount));
         var runner = PointRunners.Create(th, log);
-        CliHost.Out.WriteLine("index  id                state     memory     point");
+        CliHost.Out.WriteLine("index  id                state     memory     time       point");
+        double total = 0;
         foreach (var p in points)
         {
             string state = File.Exists(store.PathOf(p.Id)) ? (store.TryRead(store.PathOf(p.Id), out _) is not null ? "done" : "corrupt") : "todo";
-            string mem;
+            string mem, time = "-";
             try
             {
                 mem = SweepExecutor.FormatBytes(runner.EstimateMemoryBytes(p));
+                if (state != "done" && runner.EstimateSeconds(p) is double sec)
+                {
+                    time = SweepExecutor.FormatDuration(sec);
+                    total += sec;
+                }
             }
             catch (InputException ex)
             {
                 mem = "n/a: " + ex.Problem;
             }
-            CliHost.Out.WriteLine($"{p.Index,5}  {p.Id}  {state,-8}  {mem,-9}  {p}");
+            CliHost.Out.WriteLine($"{p.Index,5}  {p.Id}  {state,-8}  {mem,-9}  {time,-9}  {p}");
         }
+        if (total > 0) CliHost.Out.WriteLine($"estimated time of the points to run: {SweepExecutor.FormatDuration(total)} on {th} thread(s) per point (exact-engine t* points; others are not estimated)");
         return ExitCodes.Ok;
     }
 
@@ -231,6 +238,18 @@ internal static class SweepCommand
         var runner = PointRunners.Create(so.CpusPerTask, log);
         long mem = points.Max(p => runner.EstimateMemoryBytes(p));
         so = so with { MemoryPerTaskBytes = mem + (256L << 20) };
+        double longest = points.Select(p => runner.EstimateSeconds(p) ?? 0).DefaultIfEmpty(0).Max();
+        if (longest > 0)
+        {
+            log.LogInformation("longest point estimated at {Time} on {Cpus} CPU(s) per task", SweepExecutor.FormatDuration(longest), so.CpusPerTask);
+            if (so.TimeLimit is null)
+            {
+                // Twice the estimate plus 10 minutes, rounded up to whole minutes (the estimate is not a guarantee).
+                int minutes = (int)Math.Ceiling(2 * longest / 60) + 10;
+                so = so with { TimeLimit = $"{minutes / 60:00}:{minutes % 60:00}:00" };
+                log.LogInformation("--slurm-time not given: per-task limit set to {Limit} (twice the longest estimate plus 10 minutes)", so.TimeLimit);
+            }
+        }
         string script = Path.GetFullPath(scriptPath);
         string text = SlurmArray.Script(store.PlanPath, store.Root, points.Count, SelfCommand(), so);
         SlurmArray.WriteScript(script, text, store.Root);

@@ -237,25 +237,8 @@ public static class ExactOtoc
                     ct.ThrowIfCancellationRequested();
                     Advance(times[k], tPrev);
                     tPrev = times[k];
-                    var gram = SiteGram(g[0], g[1], n, j, threads);
-                    for (int a = 0; a < 3; a++)
-                    {
-                        Complex num = 0;
-                        for (int e = 0; e < 2; e++)
-                        {
-                            for (int ep = 0; ep < 2; ep++)
-                            {
-                                // <g_e'|sigma|g_e> = sum_{f,f'} sigma[f,f'] G[e',e,f,f']
-                                Complex m = 0;
-                                for (int f = 0; f < 2; f++)
-                                {
-                                    for (int fp = 0; fp < 2; fp++) m += Sigma[a][f, fp] * gram[(((ep * 2) + e) * 2 + f) * 2 + fp];
-                                }
-                                num += Complex.Conjugate(Sigma[a][ep, e]) * m;
-                            }
-                        }
-                        acc.Site[si][a][s].Add(num.Real / zc);
-                    }
+                    var letters = SiteLetters(g[0], g[1], n, j, threads);
+                    for (int a = 0; a < 3; a++) acc.Site[si][a][s].Add(letters[a] / zc);
                     Complex ac = StateVector.Inner(g[0], wq[0], threads) + StateVector.Inner(g[1], wq[1], threads);
                     acc.Auto[k].Add(ac.Real / zc);
                 }
@@ -395,6 +378,35 @@ public static class ExactOtoc
             if (cheb is not null) cheb.Evolve(psi, t);
             else floquet!.Evolve(psi, t);
         }
+    }
+
+    /// <summary>
+    /// Re Tr over site j of the site block: for a = X, Y, Z, sum_{e,e'} conj(sigma_a[e',e]) &lt;g_e'|sigma_a|g_e&gt; with
+    /// g_e = q W(t) q |r' e&gt;_j (divide by the normalisation to get F against sigma_a on site j).
+    /// </summary>
+    internal static double[] SiteLetters(Complex[] g0, Complex[] g1, int n, int site, int threads)
+    {
+        var gram = SiteGram(g0, g1, n, site, threads);
+        var r = new double[3];
+        for (int a = 0; a < 3; a++)
+        {
+            Complex num = 0;
+            for (int e = 0; e < 2; e++)
+            {
+                for (int ep = 0; ep < 2; ep++)
+                {
+                    // <g_e'|sigma|g_e> = sum_{f,f'} sigma[f,f'] G[e',e,f,f']
+                    Complex m = 0;
+                    for (int f = 0; f < 2; f++)
+                    {
+                        for (int fp = 0; fp < 2; fp++) m += Sigma[a][f, fp] * gram[(((ep * 2) + e) * 2 + f) * 2 + fp];
+                    }
+                    num += Complex.Conjugate(Sigma[a][ep, e]) * m;
+                }
+            }
+            r[a] = num.Real;
+        }
+        return r;
     }
 
     /// <summary>G[e',e,f,f'] = sum over the other sites of conj(g_e'[.., f]) g_e[.., f'] (f = value of site j's bit).</summary>

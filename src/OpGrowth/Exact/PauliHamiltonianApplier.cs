@@ -23,6 +23,7 @@ public sealed class PauliHamiltonianApplier
 {
     private readonly double[]? _diagonal;
     private readonly Group[] _groups;      // groups not handled by the fused pass
+    private readonly PairGroup[] _pairs;   // two-bit flips with bit-local real coefficients (exchange pairs)
     private readonly ulong[] _fusedX;      // pure X-type groups (one real term, no Z bits), fused into one pass
     private readonly double[] _fusedC;
     private readonly int _threads;
@@ -34,8 +35,27 @@ public sealed class PauliHamiltonianApplier
         public double[] RealC = [];
         public ulong[] ImagZ = [];
         public double[] ImagC = [];
+        // Compressed coefficient: c(k) = (-1)^{popcount(k & Base)} (TableRe + i TableIm)[pext(k, Vary)]
+        // (null when the terms' Z masks differ in too many bits for a table).
+        public ulong Base;
+        public ulong Vary;
+        public double[]? TableRe;
+        public double[]? TableIm;
         public bool PureX => ImagZ.Length == 0 && RealZ.Length == 1 && RealZ[0] == 0;
     }
+
+    // A group whose X mask flips exactly two bits and whose coefficient depends only on those two bits
+    // (e.g. the exchange XX + YY of a pair): out[k] += C[b_hi(k), b_lo(k)] psi[k ^ (bit lo | bit hi)], with C
+    // indexed by the bits of the output index k (c at the source index k ^ X, read with both bits flipped).
+    private readonly record struct PairGroup(int Lo, int Hi, double C00, double C01, double C10, double C11)
+    {
+        public ulong X => (1UL << Lo) | (1UL << Hi);
+
+        [MethodImpl(MethodImplOptions.AggressiveInlining)]
+        public double At(int bHi, int bLo) => bHi == 0 ? (bLo == 0 ? C00 : C01) : (bLo == 0 ? C10 : C11);
+    }
+
+    private const int MaxTableBits = 12;
 
     /// <summary>Number of qubits.</summary>
     public int N { get; }
@@ -121,7 +141,22 @@ public sealed class PauliHamiltonianApplier
         }).ToArray();
         _groupCount = all.Length;
         bool fuse = Vector256.IsHardwareAccelerated && Dimension >= 2;
-        _groups = all.Where(g => !(fuse && g.PureX)).ToArray();
+        var pairs = new List<PairGroup>();
+        var rest = new List<Group>();
+        foreach (var g in all)
+        {
+            if (fuse && g.PureX) continue;
+            if (AsPair(g) is { } pg) pairs.Add(pg);
+            else
+            {
+                Compress(g);
+                rest.Add(g);
+            }
+        }
+        _groups = [.. rest];
+        // Pairs sharing the bits above the chunk read the same partner chunk: keep them together.
+        int chunkMask = (1 << StateVector.ChunkBits) - 1;
+        _pairs = [.. pairs.OrderBy(p => p.X & ~(ulong)chunkMask).ThenBy(p => p.Hi).ThenBy(p => p.Lo)];
         _fusedX = all.Where(g => fuse && g.PureX).Select(g => g.X).ToArray();
         _fusedC = all.Where(g => fuse && g.PureX).Select(g => g.RealC[0]).ToArray();
         if (diagTerms.Count > 0)
@@ -136,6 +171,86 @@ public sealed class PauliHamiltonianApplier
                 for (int i = s; i < s + l; i++) diag[i] = SignedSum((ulong)i, zs, cs);
             });
         }
+    }
+
+    /// <summary>Number of two-bit exchange groups applied by the pair kernel (e.g. XX + YY on a pair of sites).</summary>
+    public int ExchangePairs => _pairs.Length;
+
+    /// <summary>Number of groups whose coefficient comes from a table look-up (several strings with one X mask).</summary>
+    public int TableGroups => _groups.Count(g => g.TableRe is not null);
+
+    // A real group that flips two bits and whose Z masks lie inside those bits: its coefficient is a
+    // function of the two bits only (four values), so no per-amplitude sign sums are needed.
+    private static PairGroup? AsPair(Group g)
+    {
+        if (BitOperations.PopCount(g.X) != 2 || g.ImagZ.Length > 0) return null;
+        foreach (var z in g.RealZ)
+        {
+            if ((z & ~g.X) != 0) return null;
+        }
+        int lo = BitOperations.TrailingZeroCount(g.X);
+        int hi = 63 - BitOperations.LeadingZeroCount(g.X);
+        // C[bHi, bLo] at output index k is the source coefficient at k ^ X (both bits flipped).
+        double C(int bHi, int bLo)
+        {
+            ulong src = ((ulong)(1 - bHi) << hi) | ((ulong)(1 - bLo) << lo);
+            return SignedSum(src, g.RealZ, g.RealC);
+        }
+        return new PairGroup(lo, hi, C(0, 0), C(0, 1), C(1, 0), C(1, 1));
+    }
+
+    // c(k) = sum_t c_t (-1)^{popcount(k & Z_t)} = (-1)^{popcount(k & B)} T[pext(k, D)] with B the first
+    // term's mask and D the bits where the masks differ: one table look-up per amplitude instead of a sum
+    // over terms (a 4-Majorana SYK group of 16 terms differs in 4 bits: a table of 16).
+    private static void Compress(Group g)
+    {
+        var zs = g.RealZ.Concat(g.ImagZ).ToArray();
+        if (zs.Length <= 1) return;
+        ulong b = zs[0], d = 0;
+        foreach (var z in zs) d |= z ^ b;
+        int bits = BitOperations.PopCount(d);
+        if (bits > MaxTableBits) return;
+        int size = 1 << bits;
+        var re = new double[size];
+        var im = g.ImagZ.Length > 0 ? new double[size] : null;
+        for (int m = 0; m < size; m++)
+        {
+            ulong k = Deposit((ulong)m, d);
+            re[m] = SignedSum(k, g.RealZ.Select(z => z ^ b).ToArray(), g.RealC);
+            if (im is not null) im[m] = SignedSum(k, g.ImagZ.Select(z => z ^ b).ToArray(), g.ImagC);
+        }
+        g.Base = b;
+        g.Vary = d;
+        g.TableRe = re;
+        g.TableIm = im;
+    }
+
+    // Scatters the low bits of m to the positions of the set bits of mask (software pdep).
+    private static ulong Deposit(ulong m, ulong mask)
+    {
+        ulong r = 0;
+        for (ulong bit = 1; mask != 0; bit <<= 1)
+        {
+            ulong low = mask & (~mask + 1);
+            if ((m & bit) != 0) r |= low;
+            mask &= mask - 1;
+        }
+        return r;
+    }
+
+    // Gathers the bits of k at the set bits of mask into the low bits (pext).
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    private static ulong Extract(ulong k, ulong mask)
+    {
+        if (System.Runtime.Intrinsics.X86.Bmi2.X64.IsSupported) return System.Runtime.Intrinsics.X86.Bmi2.X64.ParallelBitExtract(k, mask);
+        ulong r = 0;
+        for (ulong bit = 1; mask != 0; bit <<= 1)
+        {
+            ulong low = mask & (~mask + 1);
+            if ((k & low) != 0) r |= bit;
+            mask &= mask - 1;
+        }
+        return r;
     }
 
     /// <summary>The diagonal of H in the computational basis (a copy), or zeros when there is none.</summary>
@@ -265,9 +380,183 @@ public sealed class PauliHamiltonianApplier
             {
                 PureXKernel(g.RealC[0], src, xl, outC);
             }
+            else if (g.TableRe is not null)
+            {
+                TableKernel(g, src, srcStart, xl, outC);
+            }
             else
             {
                 GeneralKernel(g, src, srcStart, xl, outC);
+            }
+        }
+        if (_pairs.Length > 0) PairKernel(start, len, psi, outC);
+    }
+
+    // Every exchange pair for one output chunk. Per pair the output splits into runs of 2^lo amplitudes
+    // with one coefficient each (the two flipped bits are constant on a run): zero runs are skipped (half of
+    // them for XX + YY), the others are one real axpy from a contiguous source run. A pair whose bits both lie
+    // above the chunk has one coefficient for the whole chunk; a pair flipping bit 0 mixes neighbours and
+    // uses the lane-swapped vector path.
+    private void PairKernel(int start, int len, ReadOnlySpan<Complex> psi, Span<Complex> outC)
+    {
+        int lowBits = BitOperations.TrailingZeroCount(len);
+        var o = MemoryMarshal.Cast<Complex, double>(outC);
+        foreach (var p in _pairs)
+        {
+            int highX = (int)(p.X & ~(ulong)(len - 1));
+            int xl = (int)(p.X & (ulong)(len - 1));
+            var src = MemoryMarshal.Cast<Complex, double>(psi.Slice(start ^ highX, len));
+            if (p.Lo >= lowBits)
+            {
+                double c = p.At((start >> p.Hi) & 1, (start >> p.Lo) & 1);
+                if (c != 0) System.Numerics.Tensors.TensorPrimitives.MultiplyAdd(src, c, o, o);
+                continue;
+            }
+            bool hiInside = p.Hi < lowBits;
+            int bHiConst = hiInside ? 0 : (start >> p.Hi) & 1;
+            if (p.Lo < BlockBits && len >= 1 << BlockBits)
+            {
+                BlockPairKernel(p, src, o, xl, hiInside, bHiConst);
+                continue;
+            }
+            if (p.Lo == 0)
+            {
+                PairLaneKernel(p, src, o, xl, hiInside, bHiConst);
+                continue;
+            }
+            int run = 1 << p.Lo;           // amplitudes per run
+            int runD = 2 * run;            // doubles per run
+            for (int k = 0; k < len; k += run)
+            {
+                int bLo = (k >> p.Lo) & 1;
+                int bHi = hiInside ? (k >> p.Hi) & 1 : bHiConst;
+                double c = p.At(bHi, bLo);
+                if (c == 0) continue;
+                RunAxpy(c, src.Slice(2 * (k ^ xl), runD), o.Slice(2 * k, runD));
+            }
+        }
+    }
+
+    private const int BlockBits = 3;                   // blocks of 8 amplitudes = four 256-bit vectors
+    private const int BlockAmps = 1 << BlockBits;
+    private const int BlockVecs = BlockAmps / 2;
+
+    // Pair flipping one of the four lowest bits: the output is walked in blocks of 16 amplitudes (eight vectors).
+    // Inside a block the flip of the low bit is a fixed permutation of vectors (and of the two lanes for bit 0),
+    // and the coefficient of each lane is fixed by the lane's bits, so a block costs eight loads, eight
+    // multiply-adds and no branch (zero lanes are multiplied, not skipped: cheaper than a branch per two amplitudes).
+    private static unsafe void BlockPairKernel(PairGroup p, ReadOnlySpan<double> src, Span<double> o, int xl, bool hiInside, int bHiConst)
+    {
+        var swap = Vector256.Create(2L, 3L, 0L, 1L);
+        int inBlock = xl & (BlockAmps - 1);                // the flipped bits inside a block
+        int outside = xl & ~(BlockAmps - 1);               // the flipped bit outside (hi above the block, inside the chunk)
+        bool laneSwap = (inBlock & 1) != 0;
+        int vflip = inBlock >> 1;                          // vector index flip within the block
+        bool hiInBlock = hiInside && p.Hi < BlockBits;
+        // Lane coefficients per vector v (amplitudes 2v, 2v + 1 of the block) for b_hi = 0 and 1.
+        var cv = stackalloc Vector256<double>[2 * BlockVecs];
+        for (int bh = 0; bh < 2; bh++)
+        {
+            for (int v = 0; v < BlockVecs; v++)
+            {
+                int a0 = 2 * v, a1 = 2 * v + 1;
+                double x0 = p.At(hiInBlock ? (a0 >> p.Hi) & 1 : bh, (a0 >> p.Lo) & 1);
+                double x1 = p.At(hiInBlock ? (a1 >> p.Hi) & 1 : bh, (a1 >> p.Lo) & 1);
+                cv[bh * BlockVecs + v] = Vector256.Create(x0, x0, x1, x1);
+            }
+        }
+        int amps = o.Length / 2;
+        fixed (double* sp = src)
+        fixed (double* op = o)
+        {
+            for (int k = 0; k < amps; k += BlockAmps)
+            {
+                int bHi = hiInBlock ? 0 : hiInside ? (k >> p.Hi) & 1 : bHiConst;
+                var c = cv + bHi * BlockVecs;
+                double* sb = sp + 2 * (k ^ outside);
+                double* ob = op + 2 * k;
+                if (laneSwap)
+                {
+                    for (int v = 0; v < BlockVecs; v++)
+                    {
+                        var x = Vector256.Shuffle(Vector256.Load(sb + 4 * (v ^ vflip)), swap);
+                        (Vector256.Load(ob + 4 * v) + c[v] * x).Store(ob + 4 * v);
+                    }
+                }
+                else
+                {
+                    for (int v = 0; v < BlockVecs; v++)
+                    {
+                        (Vector256.Load(ob + 4 * v) + c[v] * Vector256.Load(sb + 4 * (v ^ vflip))).Store(ob + 4 * v);
+                    }
+                }
+            }
+        }
+    }
+
+    // Pair flipping bit 0: within each 256-bit vector (amplitudes k, k + 1) the source pair is swapped and the
+    // two lanes take the coefficients for bit 0 = 0 and 1.
+    private static void PairLaneKernel(PairGroup p, ReadOnlySpan<double> src, Span<double> o, int xl, bool hiInside, int bHiConst)
+    {
+        var swap = Vector256.Create(2L, 3L, 0L, 1L);
+        int rest = xl & ~1;
+        int amps = o.Length / 2;
+        for (int k = 0; k < amps; k += 2)
+        {
+            int bHi = hiInside ? (k >> p.Hi) & 1 : bHiConst;
+            double c0 = p.At(bHi, 0), c1 = p.At(bHi, 1);
+            if (c0 == 0 && c1 == 0) continue;
+            var vc = Vector256.Create(c0, c0, c1, c1);
+            var vs = Vector256.Shuffle(Vector256.Create(src.Slice(2 * (k ^ rest), 4)), swap);
+            var vo = Vector256.Create(o.Slice(2 * k, 4));
+            (vo + vc * vs).CopyTo(o.Slice(2 * k, 4));
+        }
+    }
+
+    // y += c x on a run of doubles whose length is a multiple of 4 (runs of at least two amplitudes).
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    private static unsafe void RunAxpy(double c, ReadOnlySpan<double> x, Span<double> y)
+    {
+        if (x.Length >= 256)
+        {
+            System.Numerics.Tensors.TensorPrimitives.MultiplyAdd(x, c, y, y);
+            return;
+        }
+        var vc = Vector256.Create(c);
+        fixed (double* xp = x)
+        fixed (double* yp = y)
+        {
+            int i = 0;
+            for (; i + 8 <= x.Length; i += 8)
+            {
+                (Vector256.Load(yp + i) + vc * Vector256.Load(xp + i)).Store(yp + i);
+                (Vector256.Load(yp + i + 4) + vc * Vector256.Load(xp + i + 4)).Store(yp + i + 4);
+            }
+            for (; i < x.Length; i += 4) (Vector256.Load(yp + i) + vc * Vector256.Load(xp + i)).Store(yp + i);
+        }
+    }
+
+    private static void TableKernel(Group g, ReadOnlySpan<Complex> src, int srcStart, int xl, Span<Complex> outC)
+    {
+        var re = g.TableRe!;
+        var im = g.TableIm;
+        ulong b = g.Base, d = g.Vary;
+        for (int i = 0; i < outC.Length; i++)
+        {
+            int li = i ^ xl;
+            ulong k = (ulong)(srcStart + li);
+            int m = (int)Extract(k, d);
+            double s = (BitOperations.PopCount(k & b) & 1) == 0 ? 1.0 : -1.0;
+            double a = s * re[m];
+            var v = src[li];
+            if (im is null)
+            {
+                outC[i] += new Complex(a * v.Real, a * v.Imaginary);
+            }
+            else
+            {
+                double c = s * im[m];
+                outC[i] += new Complex(a * v.Real - c * v.Imaginary, a * v.Imaginary + c * v.Real);
             }
         }
     }

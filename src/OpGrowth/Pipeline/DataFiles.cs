@@ -32,6 +32,8 @@ public static class DataFiles
         ["krylov.csv"] = "autocorrelation C(t) and Krylov complexity K(t) from the b_n, and the weight carried by the fitted continuation",
         ["spectrum.csv"] = "spectral function from the continued fraction of the b_n",
         ["compare.csv"] = "Pauli engine against the exact engine at small N: autocorrelation and OTOCs F_j(t) per site from both, and their differences",
+        ["tstar_members.csv"] = "t* at the smaller members behind the t* statement: N, t*, its error, the spread over seeds, the half-volume distance and the front's arrival there",
+        ["front_arrival.csv"] = "arrival time of the operator front at each distance for every bond dimension of the front engine's budget series, and its uncertainty",
         ["diagnosis.json"] = "the diagnosis battery's full report: verdict per test, figures, thresholds, sources, data, settings",
         ["diagnosis.txt"] = "the diagnosis battery's verdict table as text",
     };
@@ -200,6 +202,42 @@ public static class DataFiles
         }
         AtomicFile.WriteAllText(Path.Combine(dir, "compare.csv"), sb.ToString());
         return "compare.csv";
+    }
+
+    /// <summary>Writes tstar_members.csv (the t* statement's members) and front_arrival.csv (the front engine's arrival times) into <paramref name="dir"/>; returns their names.</summary>
+    public static List<string> WriteScramblingTime(string dir, OpGrowth.Sweeps.ScramblingTimeStatement s, FrontStage? front)
+    {
+        ArgumentNullException.ThrowIfNull(s);
+        var list = new List<string>();
+        if (s.Members.Count > 0)
+        {
+            var sb = new StringBuilder("n,tstar,error,seed_spread,seeds,half_distance,front_arrival\n");
+            foreach (var m in s.Members)
+                sb.Append(m.N.ToString(Inv)).Append(',').Append(Cell(m.TStar)).Append(',').Append(Cell(m.Error)).Append(',').Append(Cell(m.Spread)).Append(',')
+                  .Append(m.Seeds.ToString(Inv)).Append(',').Append(Cell(m.HalfDistance)).Append(',').Append(Cell(m.FrontArrival)).Append('\n');
+            AtomicFile.WriteAllText(Path.Combine(dir, "tstar_members.csv"), sb.ToString());
+            list.Add("tstar_members.csv");
+        }
+        if (front is not null)
+        {
+            var fr = front.Result;
+            var sb = new StringBuilder("distance");
+            foreach (var run in fr.Runs) sb.Append(",arrival_bond_").Append(run.BondDimension.ToString(Inv));
+            sb.Append(",uncertainty\n");
+            for (int d = 0; d <= fr.MaxDistance; d++)
+            {
+                sb.Append(d.ToString(Inv));
+                foreach (var run in fr.Runs)
+                {
+                    var a = run.Figures.Butterfly?.Primary.ArrivalTimes ?? [];
+                    sb.Append(',').Append(d < a.Length ? Cell(a[d]) : "");
+                }
+                sb.Append(',').Append(d < fr.ArrivalUncertainty.Length ? Cell(fr.ArrivalUncertainty[d]) : "").Append('\n');
+            }
+            AtomicFile.WriteAllText(Path.Combine(dir, "front_arrival.csv"), sb.ToString());
+            list.Add("front_arrival.csv");
+        }
+        return list;
     }
 
     private static void Row(StringBuilder sb, double t, int site, string quantity, double pauli, double exact)

@@ -36,6 +36,7 @@ public static class RunFigures
                 ScramblingTime = tsHeadline?.Value,
                 ScramblingLevel = ts.Target,
                 Budgets = smaller,
+                PartTime = ScramblingTimeStage.BudgetPartTime(evo),
                 Budget = evo.Main.Budget.MaxStrings,
             }, size));
 
@@ -77,6 +78,8 @@ public static class RunFigures
             }
         }
         if (r.CrossCheck is { Ran: true } x && x.Times.Length > 1) list.Add(PauliVersusExact(x, size));
+        if (r.Front is { } frontStage) list.Add(FrontFigure(frontStage.Result, r.ScramblingTime, size));
+        if (r.ScramblingTime is { Members.Count: > 0 } st) list.Add(StatementFigure(st, size));
         if (r.Sweep?.Series is { } series && TStarSeries(series) is { } tsSeries)
         {
             string caption = series.Comparison?.Verdict is { } v
@@ -138,6 +141,45 @@ public static class RunFigures
             Difference = worst,
             DifferenceLabel = "largest |Pauli - exact| over C and every F_j (X, Y, Z)",
         }, size ?? FigureSize.Report);
+    }
+
+    /// <summary>
+    /// Arrival time of the front against distance for every bond dimension of the budget series, with a vertical line
+    /// where the two largest budgets part and one at the half-volume distance the t* statement uses.
+    /// </summary>
+    public static FigureImage FrontFigure(OpGrowth.Evolution.FrontEvolutionResult fr, OpGrowth.Sweeps.ScramblingTimeStatement? st, FigureSize size)
+    {
+        var series = fr.Runs.Select((run, i) =>
+        {
+            var a = run.Figures.Butterfly?.Primary.ArrivalTimes ?? [];
+            var d = Enumerable.Range(0, a.Length).Select(x => (double)x).ToArray();
+            return new LineSeries($"bond dimension {run.BondDimension}", d, a) { Look = SeriesLook.LineAndPoints };
+        }).ToList();
+        var refs = new List<ReferenceLine>();
+        if (fr.PartDistance is int pd) refs.Add(new ReferenceLine($"budgets part (d = {pd})", pd, Vertical: true));
+        string caption = FormattableString.Invariant($"Front (site weight >= {fr.Threshold:0.###}) of {fr.Probe} on {fr.N} sites from the matrix-product front engine; the bond dimensions agree up to distance {fr.ConvergedDistance} of {fr.MaxDistance}")
+            + (fr.PartDistance is int p2 ? FormattableString.Invariant($" and part at distance {p2} (t = {fr.PartTime:0.##}).") : " and never part.");
+        return Charts.Lines(new LineChartSpec("front-budget-series", $"Operator front: {fr.Probe}, {fr.N} sites", caption, "distance from the probe", "arrival time", series)
+        {
+            ReferenceLines = refs,
+        }, size);
+    }
+
+    /// <summary>t* at the smaller members (error bars) and the statement at N (band as error bar), with the two laws when fitted.</summary>
+    public static FigureImage StatementFigure(OpGrowth.Sweeps.ScramblingTimeStatement st, FigureSize size)
+    {
+        var ms = st.Members;
+        var series = new List<LineSeries>
+        {
+            new("t* at smaller members (exact)", ms.Select(m => (double)m.N).ToArray(), ms.Select(m => m.TStar).ToArray()) { YError = ms.Select(m => m.Error).ToArray(), Look = SeriesLook.Points },
+        };
+        if (st.Value is double v)
+            series.Add(new LineSeries($"t* at N = {st.N} ({st.Route}, 2 sigma)", [st.N], [v]) { YError = [2 * (st.Uncertainty ?? 0)], Look = SeriesLook.Points });
+        double lo = ms.Min(m => m.N), hi = st.N;
+        var xs = Enumerable.Range(0, 41).Select(i => lo + (hi - lo) * i / 40.0).ToArray();
+        foreach (var l in st.Laws) series.Add(new LineSeries(l.Law == "log" ? FormattableString.Invariant($"a + b ln N (weight {l.Weight:0.00})") : FormattableString.Invariant($"a + N/v (weight {l.Weight:0.00})"), xs, xs.Select(l.Fit.Evaluate).ToArray()));
+        string caption = $"{st.Text()}. {st.Basis}.";
+        return Charts.Lines(new LineChartSpec("tstar-statement", $"Scrambling time at N = {st.N}: {st.Route}", caption, "N", "t*", series), size);
     }
 
     /// <summary>The t*(N) points of a sweep series with both fitted laws (null with fewer than two sizes that reached t*).</summary>

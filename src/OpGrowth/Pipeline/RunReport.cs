@@ -20,7 +20,7 @@ public static class RunReport
     public static readonly IReadOnlyList<string> ResultKeys =
     [
         "format", "toolVersion", "created", "model", "options", "effort", "seeds", "threads", "completed", "stopReason",
-        "verdict", "headline", "evolution", "lanczos", "crossCheck", "diagnosis", "sweep", "verdicts", "checks", "cautions", "notes",
+        "verdict", "headline", "scramblingTime", "evolution", "lanczos", "crossCheck", "diagnosis", "sweep", "verdicts", "checks", "cautions", "notes",
         "timingsSeconds", "files",
     ];
 
@@ -36,7 +36,14 @@ public static class RunReport
     public static List<HeadlineFigure> Headlines(ScramblingRunResult r)
     {
         var list = new List<HeadlineFigure>();
-        if (r.Evolution is { } evo) list.AddRange(EvolutionHeadlines.Of(evo));
+        if (r.Evolution is { } evo)
+        {
+            // One voice: with a t* statement at the model's N, the evolution's own t* is not a second headline.
+            var evoHeadlines = EvolutionHeadlines.Of(evo);
+            if (r.ScramblingTime is not null) evoHeadlines.RemoveAll(x => x.Name == EvolutionHeadlines.ScramblingTime);
+            list.AddRange(evoHeadlines);
+        }
+        if (r.ScramblingTime is { Value: not null } st) list.Add(ScramblingTimeHeadline(st));
         if (r.Krylov?.Growth is { } lg && r.Lanczos is { } lz)
         {
             bool conv = LanczosConverged(lz, lg.WindowStart, lg.WindowEnd);
@@ -54,6 +61,25 @@ public static class RunReport
         }
         return list;
     }
+
+    /// <summary>Name of the headline that carries the t* statement.</summary>
+    public const string ScramblingTimeName = "scrambling time t*";
+
+    /// <summary>The t* statement as a headline: value and uncertainty (a bound shows as its value with NaN uncertainty), route in the note.</summary>
+    public static HeadlineFigure ScramblingTimeHeadline(OpGrowth.Sweeps.ScramblingTimeStatement st)
+    {
+        string def = $"t* at N = {st.N}, {st.Route}: {st.Method}";
+        if (st.Value is double v)
+        {
+            var m = new Measured(v, st.Uncertainty is double u && double.IsFinite(u) ? u : double.NaN, def, null, "time");
+            return new HeadlineFigure(ScramblingTimeName, m, true) { Note = $"{st.Route}; band {Band(st)}; {st.Basis}" };
+        }
+        var b = new Measured(st.Low ?? double.NaN, double.NaN, def + (st.Low is double lb ? FormattableString.Invariant($" (lower bound: t* > {lb:0.##})") : " (not quoted)"), null, "time");
+        return new HeadlineFigure(ScramblingTimeName, b, false) { Note = $"{st.Route}: {st.Basis}" };
+    }
+
+    private static string Band(OpGrowth.Sweeps.ScramblingTimeStatement st)
+        => st.Low is double lo && st.High is double hi ? FormattableString.Invariant($"{lo:0.###}..{hi:0.###} (2 sigma)") : "none";
 
     /// <summary>True when every b_n in the window agrees across budgets within 5% (common practice).</summary>
     public static bool LanczosConverged(LanczosEstimate lz, int from, int to)
@@ -137,6 +163,8 @@ public static class RunReport
         "series.csv" => "t*(N) sweep: both scaling fits with errors and information criteria",
         "timings.csv" => "t*(N) sweep: wall time and memory per point",
         "fits.json" => "t*(N) sweep: both scaling fits, residuals and the preferred law",
+        "tstar_members.csv" => "t* statement: exact t* at the smaller members of the family (mean over seeds, error, seed spread, half-volume distance, front arrival there)",
+        "front_arrival.csv" => "front engine: arrival time of the front at every distance, per bond dimension of the budget series, and its uncertainty",
         _ => "data",
     };
 
@@ -157,9 +185,20 @@ public static class RunReport
         {
             var g = evo.Figures[0].Growth;
             var ts = evo.Figures[0].ScramblingTime;
-            string first = ts.Value is double tv
-                ? FormattableString.Invariant($"The operator's mean size reaches 3N/8 at t* = {NumberFormat.Number(tv, 3)} and ")
-                : FormattableString.Invariant($"The operator's mean size does not reach 3N/8 = {NumberFormat.Number(ts.Target, 3)} by t = {NumberFormat.Number(evo.Main.Records[^1].Time, 3)}, and ");
+            string first;
+            if (r.ScramblingTime is { } st)
+            {
+                parts.Add(st.Text() + ".");
+                first = ts.Value is double tv0
+                    ? FormattableString.Invariant($"In the truncated Pauli evolution (method: budget series) the mean size reaches 3N/8 at t = {NumberFormat.Number(tv0, 3)} and ")
+                    : FormattableString.Invariant($"In the truncated Pauli evolution the mean size does not reach 3N/8 = {NumberFormat.Number(ts.Target, 3)} by t = {NumberFormat.Number(evo.Main.Records[^1].Time, 3)}, and ");
+            }
+            else
+            {
+                first = ts.Value is double tv
+                    ? FormattableString.Invariant($"The operator's mean size reaches 3N/8 at t* = {NumberFormat.Number(tv, 3)} and ")
+                    : FormattableString.Invariant($"The operator's mean size does not reach 3N/8 = {NumberFormat.Number(ts.Target, 3)} by t = {NumberFormat.Number(evo.Main.Records[^1].Time, 3)}, and ");
+            }
             parts.Add(first + (g.SaturationRatio is double sr ? FormattableString.Invariant($"saturates at {NumberFormat.Number(sr, 2)} of the random-operator value 3N/4.") : "has not saturated by the end of the run."));
             parts.Add($"Discarded weight: {EvolutionHeadlines.DiscardedText(evo)}.");
         }
@@ -392,6 +431,31 @@ public static class RunReport
                 EmphasisColumn = 2,
             });
         }
+        if (r.ScramblingTime is { } st)
+        {
+            var rows = new List<IReadOnlyList<string>>
+            {
+                new[] { "route", st.Route },
+                new[] { "t*", st.Value is double v ? NumberFormat.ValueWithUncertainty(v, st.Uncertainty ?? double.NaN) : st.Low is double lb ? "> " + lb.ToString("0.##", Inv) : "not quoted" },
+                new[] { "band", Band(st) },
+                new[] { "method", st.Method },
+                new[] { "basis", st.Basis },
+            };
+            foreach (var l in st.Laws) rows.Add(new[] { l.Law == "log" ? "law a + b ln N" : "law a + N/v", FormattableString.Invariant($"{NumberFormat.ValueWithUncertainty(l.Value, l.Error)} at N = {st.N} (Akaike weight {l.Weight:0.00}; a = {l.Fit.A:0.###}, slope = {l.Fit.Slope:0.####})") });
+            foreach (var m in st.Members)
+                rows.Add(new[] { $"member N = {m.N}", FormattableString.Invariant($"t* = {NumberFormat.ValueWithUncertainty(m.TStar, m.Error)}") + (m.Seeds > 1 ? FormattableString.Invariant($" ({m.Seeds} seeds, spread {m.Spread:0.###})") : "") + (m.HalfDistance is double hd ? FormattableString.Invariant($"; half-volume distance {hd:0.##}, front arrival {m.FrontArrival:0.###}") : "") });
+            if (st.Cost is { } cost) rows.Add(new[] { "cost", cost });
+            foreach (var a in st.Also) rows.Add(new[] { "also", a });
+            if (r.Front is { } fs)
+            {
+                var fr = fs.Result;
+                rows.Add(new[] { "front budget series", FormattableString.Invariant($"bond dimensions {string.Join("/", fr.Runs.Select(x => x.BondDimension))}, agree to distance {fr.ConvergedDistance} of {fr.MaxDistance}") + (fr.PartDistance is int pd ? FormattableString.Invariant($"; part at distance {pd} (t = {fr.PartTime:0.##})") : "; never part") + FormattableString.Invariant($" ({fr.WallSeconds:0.0} s)") });
+            }
+            list.Add(new ReportTable("tstar-statement", $"Scrambling time at N = {st.N}", ["", "value"], rows)
+            {
+                Intro = "Every run states t* at the model's own size by the best route available: measured (exact engine, or a converged Pauli budget series), predicted (from exact t* at smaller members: through the operator front for short-range models, through t* = a + b ln N and t* = a + N/v for all-to-all ones), or a bound (what the converged data exclude). The band is the value plus or minus two standard uncertainties.",
+            });
+        }
         if (r.Sweep?.Series is { } series)
         {
             var rows = series.Data.Select(a => (IReadOnlyList<string>)[a.N.ToString(Inv), a.Engine,
@@ -473,6 +537,42 @@ public static class RunReport
         };
     }
 
+    private static object? ScramblingTimeJson(ScramblingRunResult r)
+    {
+        if (r.ScramblingTime is not { } st) return null;
+        object Fit(OpGrowth.Sweeps.ScalingFit f) => new { law = f.Law, formula = f.Formula, a = f.A, aError = f.AError, slope = f.Slope, slopeError = f.SlopeError, correlation = f.Correlation, reducedChiSquared = f.ReducedChiSquared, aic = f.Aic };
+        return new
+        {
+            n = st.N,
+            route = st.Route,
+            value = st.Value,
+            uncertainty = st.Uncertainty,
+            bandLow = st.Low,
+            bandHigh = st.High,
+            lowerBound = st.Route == "bound" ? st.Low : null,
+            method = st.Method,
+            basis = st.Basis,
+            laws = st.Laws.Select(l => new { law = l.Law, value = l.Value, error = l.Error, weight = l.Weight, fit = Fit(l.Fit) }),
+            members = st.Members.Select(m => new { n = m.N, tStar = m.TStar, error = m.Error, seedSpread = m.Spread, seeds = m.Seeds, halfDistance = m.HalfDistance, frontArrival = m.FrontArrival }),
+            also = st.Also,
+            cost = st.Cost,
+            front = r.Front is { } fs ? new
+            {
+                bondDimensions = fs.Result.Runs.Select(x => x.BondDimension),
+                threshold = fs.Result.Threshold,
+                arrival = fs.Result.Arrival,
+                arrivalUncertainty = fs.Result.ArrivalUncertainty,
+                convergedDistance = fs.Result.ConvergedDistance,
+                partDistance = fs.Result.PartDistance,
+                partTime = fs.Result.PartTime,
+                maxDistance = fs.Result.MaxDistance,
+                velocity = fs.Result.Runs.Select(x => x.Figures.Butterfly?.Primary.Velocity),
+                seconds = fs.Result.WallSeconds,
+                file = "data/front_arrival.csv",
+            } : null,
+        };
+    }
+
     private static object M(Measured m) => new { value = m.Value, uncertainty = m.Uncertainty, definition = m.Definition, unit = m.Unit, window = m.Window is { } w ? new { variable = w.Variable, start = w.Start, end = w.End } : null };
 
     private static Dictionary<string, object?> ResultsJson(ScramblingRunResult r, List<string> cautions)
@@ -492,6 +592,7 @@ public static class RunReport
             ["completed"] = r.Completed,
             ["stopReason"] = r.StopReason,
             ["headline"] = r.Headlines.Select(h => new { name = h.Name, converged = h.Converged, note = h.Note, measured = M(h.Value) }).ToList(),
+            ["scramblingTime"] = ScramblingTimeJson(r),
             ["evolution"] = evo is null ? null : new
             {
                 completed = evo.Completed,

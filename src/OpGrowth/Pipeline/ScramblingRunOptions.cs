@@ -52,6 +52,16 @@ public sealed record ScramblingRunOptions
     public OpGrowth.Diagnosis.DiagnosisOptions? Diagnosis { get; init; }
     /// <summary>Final time of every t*(N) point (null: chosen from the main run's t*, at least the effort's time).</summary>
     public double? SweepTime { get; init; }
+    /// <summary>
+    /// Measure t* at the model's own N with the exact engine even when its estimated cost exceeds the effort's budget
+    /// (the estimate is logged before it starts; the thorough effort always does).
+    /// </summary>
+    public bool ExactScramblingTime { get; init; }
+    /// <summary>
+    /// Estimated exact-engine seconds the t* statement may spend unasked (null: the effort's, see
+    /// <see cref="ScramblingTimeStage.ExactBudgetSeconds"/>; 0: only when forced). Lets tests fix the route.
+    /// </summary>
+    public double? ExactScramblingTimeBudget { get; init; }
     /// <summary>System sizes for a t*(N) sweep (empty: no sweep).</summary>
     public IReadOnlyList<int> SweepSizes { get; init; } = [];
     /// <summary>Final evolution time (null: the effort's); for a periodic drive, the number of periods.</summary>

@@ -53,6 +53,10 @@ public sealed record ScramblingRunResult
     public OpGrowth.Diagnosis.DiagnosisReport? Diagnosis { get; init; }
     /// <summary>Why the diagnosis did not run (null when it ran).</summary>
     public string? DiagnosisSkipReason { get; init; }
+    /// <summary>The scrambling-time statement at the model's own N (null when the stage did not run).</summary>
+    public OpGrowth.Sweeps.ScramblingTimeStatement? ScramblingTime { get; init; }
+    /// <summary>The front engine's budget series, when the t* statement used it (chains).</summary>
+    public FrontStage? Front { get; init; }
     /// <summary>The t*(N) stage (null when no sweep was requested or it did not start).</summary>
     public SweepStage? Sweep { get; init; }
     /// <summary>The overall answer, consistent with the diagnosis battery when it ran.</summary>

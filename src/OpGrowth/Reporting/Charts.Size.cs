@@ -73,6 +73,7 @@ public static partial class Charts
             Scatter s = PlotKit.Line(plot, c.Times, c.Values, "budget " + NumberFormat.Count(c.Budget), 3 + r, width: 1.4f);
             s.LinePattern = r % 2 == 0 ? LinePattern.Dashed : LinePattern.Dotted;
         }
+        if (data.PartTime is double pt && double.IsFinite(pt)) PlotKit.VLine(plot, pt, "budgets part (t = " + NumberFormat.Number(pt, 3) + ")", ChartStyle.Reference, LinePattern.DenselyDashed);
         string mainLabel = data.Budget is { } b ? "n(t), budget " + NumberFormat.Count(b) : "n(t)";
         PlotKit.Line(plot, data.Times, data.MeanSize, mainLabel, 0, width: 2.4f).LinePattern = LinePattern.Solid;
         PlotKit.HLine(plot, data.Saturation, data.SaturationLabel + " = " + NumberFormat.Number(data.Saturation));

@@ -18,6 +18,8 @@ public sealed record MeanSizeSeries(double[] Times, double[] MeanSize, double Sa
     /// <summary>Curves at smaller budgets of the budget series.</summary>
     public IReadOnlyList<BudgetCurve> Budgets { get; init; } = [];
 
+    /// <summary>Time after which the budget-series (ladder) curves part (null: they agree throughout or there is no series).</summary>
+    public double? PartTime { get; init; }
     /// <summary>Budget of the main run, for the legend (e.g. 1e6 strings).</summary>
     public long? Budget { get; init; }
 

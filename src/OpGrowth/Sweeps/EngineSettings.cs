@@ -40,6 +40,24 @@ public sealed record EngineSettings
     /// <summary>Random states per point for the exact engine's typicality traces.</summary>
     public int Samples { get; init; } = 4;
 
+    /// <summary>
+    /// How the exact engine measures a point: "tstar" locates t* with the random-sign mean-size probe at times
+    /// refined around 3N/8 (t* only; fast), "sites" resolves every site's OTOC on a uniform grid (t*, growth rate
+    /// and v_B; cost grows with N).
+    /// </summary>
+    public string ExactMode { get; init; } = "tstar";
+
+    /// <summary>
+    /// Mean-size estimator of the "tstar" mode: "site-blocks" (exact trace over each site, 2N propagations per
+    /// evaluation), "random-signs" (<see cref="ProbeGroups"/> groups of single-site probes with random signs, G + 1
+    /// propagations), or "auto": site blocks on lattices with a distance, one random-sign group per site on all-to-all
+    /// lattices and for Majorana sizes (<see cref="OpGrowth.Exact.ScramblingTimeSearch.DefaultEstimator"/>).
+    /// </summary>
+    public string SizeEstimator { get; init; } = "auto";
+
+    /// <summary>Probe groups of the "random-signs" estimator (0: one per site).</summary>
+    public int ProbeGroups { get; init; }
+
     /// <summary>Seed of the exact engine's random states.</summary>
     public long SampleSeed { get; init; } = 1;
 
@@ -75,6 +93,12 @@ public sealed record EngineSettings
             case EngineChoice.Exact:
                 d["samples"] = Samples.ToString(CultureInfo.InvariantCulture);
                 d["sample_seed"] = SampleSeed.ToString(CultureInfo.InvariantCulture);
+                d["exact_mode"] = ExactMode;
+                if (ExactMode == "tstar")
+                {
+                    d["size_estimator"] = SizeEstimator;
+                    d["probe_groups"] = ProbeGroups.ToString(CultureInfo.InvariantCulture);
+                }
                 break;
             case EngineChoice.Synthetic:
                 foreach (var kv in Synthetic.Canonical()) d["synthetic." + kv.Key] = kv.Value;

@@ -9,11 +9,12 @@ using OpGrowth.Models;
 namespace OpGrowth.Sweeps;
 
 /// <summary>
-/// Runs a point on the exact state-vector engine (<see cref="ExactOtoc"/>): site-resolved OTOCs of the
-/// probe against X_j, Y_j, Z_j on every site give the site weights rho_j(t) = (3/4)(1 - Fbar_j(t)) and the
-/// mean size n(t) = sum_j rho_j(t); t*, the growth rate and v_B then come from the same analysis as the
-/// Pauli engine's (<see cref="ScramblingAnalysis"/>). Nothing is truncated (truncation error 0); with
-/// random-state traces (N above 8) the mean size carries a statistical error, propagated to t* as
+/// Runs a point on the exact state-vector engine. Mode "tstar" (default): <see cref="ScramblingTimeSearch"/> locates
+/// t* with the random-sign mean-size probe at times refined around 3N/8 (or half the Majorana count), t* only.
+/// Mode "sites" (<see cref="ExactOtoc"/>): site-resolved OTOCs of the probe against X_j, Y_j, Z_j on every site give
+/// the site weights rho_j(t) = (3/4)(1 - Fbar_j(t)) and the mean size n(t) = sum_j rho_j(t); t*, the growth rate
+/// and v_B then come from the same analysis as the Pauli engine's (<see cref="ScramblingAnalysis"/>). Nothing is
+/// truncated (truncation error 0); random-state traces carry a statistical error, propagated to t* as
 /// sigma_n(t*) / |dn/dt|.
 /// </summary>
 public sealed class ExactPointRunner : IPointRunner
@@ -27,12 +28,100 @@ public sealed class ExactPointRunner : IPointRunner
         _logger = logger;
     }
 
-    /// <summary>Dense matrices up to N = 8 (a few 2^N x 2^N complex matrices), else about 24 state vectors per thread.</summary>
+    /// <summary>
+    /// Mode "tstar": the search's vectors ((probe groups + 1) x samples forward pairs and work vectors). Mode "sites":
+    /// dense matrices up to N = 8 (a few 2^N x 2^N complex matrices), else about 24 state vectors per thread.
+    /// </summary>
     public long EstimateMemoryBytes(SweepPoint point)
     {
         long dim = 1L << point.N;
+        if (point.Engine.ExactMode == "tstar")
+        {
+            int perState = VectorsOf(point);
+            return (128L << 20) + (2L * perState * point.Engine.Samples + 13) * dim * 16 + 3 * dim * 8;
+        }
         long vectors = point.N <= 8 ? 8 * dim * dim * 16 : 24L * _threads * dim * 16;
         return (128L << 20) + vectors;
+    }
+
+    /// <summary>
+    /// Mode "tstar": <see cref="ScramblingTimeCost"/> from the same model at min(N, 12) (timing, spectral width) and a
+    /// t* taken from a search at min(N, 10) scaled linearly in N (an upper estimate for sub-ballistic growth), capped by
+    /// the point's final time. Null for the "sites" mode (not modelled).
+    /// </summary>
+    public double? EstimateSeconds(SweepPoint point)
+    {
+        if (point.Engine.ExactMode != "tstar") return null;
+        return Estimate(point).Seconds;
+    }
+
+    private readonly System.Collections.Concurrent.ConcurrentDictionary<string, ScramblingTimeEstimate> _estimates = new();
+
+    /// <summary>The full estimate of a "tstar" point (see <see cref="EstimateSeconds"/>); points that differ only in the seed share one.</summary>
+    public ScramblingTimeEstimate Estimate(SweepPoint point)
+    {
+        ArgumentNullException.ThrowIfNull(point);
+        string key = point.ModelSha256 + "|" + point.GroupKey + "|" + point.N.ToString(System.Globalization.CultureInfo.InvariantCulture);
+        return _estimates.GetOrAdd(key, _ => EstimateCore(point));
+    }
+
+    private ScramblingTimeEstimate EstimateCore(SweepPoint point)
+    {
+        var e = point.Engine;
+        var pm = PointModel.Load(point);
+        int np = Math.Min(point.N, 10), ns = Math.Min(point.N, 12);
+        var pilot = np == point.N ? pm : PointModel.Load(Resized(point, np));
+        var pr = ScramblingTimeSearch.Run(pilot.Model.Hamiltonian, new ScramblingTimeSearchOptions
+        {
+            Operator = pilot.Probe,
+            MajoranaSize = pilot.Model.SizeMeasure == SizeMeasure.Majoranas,
+            MaxTime = e.Time,
+            Samples = 1,
+            ProbeGroups = 1,
+            Threads = _threads,
+            RelativeTolerance = 0.02,
+        });
+        double ts = pr.TStar is double t0 ? Math.Min(e.Time, t0 * point.N / np) : e.Time;
+        var small = ns == point.N ? null : PointModel.Load(Resized(point, ns)).Model.Hamiltonian;
+        var (blocks, groups) = Estimator(e, pm.Model);
+        return ScramblingTimeCost.Estimate(pm.Model.Hamiltonian, small, ts, e.Samples, ScramblingTimeSearch.VectorsPerState(point.N, blocks, groups), _threads);
+    }
+
+    private static SweepPoint Resized(SweepPoint point, int n)
+    {
+        string probe = point.Probe;
+        if (!ProbeTemplate.IsModelProbe(point.ProbeTemplate, out _) && ProbeTemplate.TryResolve(point.ProbeTemplate, n, out var resolved, out _)) probe = resolved;
+        return point with { N = n, Probe = probe };
+    }
+
+    // Vectors per random state of a "tstar" point (2N when the model cannot be loaded here).
+    private static int VectorsOf(SweepPoint point)
+    {
+        try
+        {
+            var (blocks, groups) = Estimator(point.Engine, PointModel.Load(point).Model);
+            return ScramblingTimeSearch.VectorsPerState(point.N, blocks, groups);
+        }
+        catch (InputException)
+        {
+            return 2 * point.N;
+        }
+    }
+
+    /// <summary>The mean-size estimator a "tstar" point uses: (site blocks, probe groups).</summary>
+    public static (bool SiteBlocks, int ProbeGroups) Estimator(EngineSettings e, Model model)
+    {
+        ArgumentNullException.ThrowIfNull(e);
+        ArgumentNullException.ThrowIfNull(model);
+        bool majorana = model.SizeMeasure == SizeMeasure.Majoranas;
+        return e.SizeEstimator switch
+        {
+            "site-blocks" when !majorana => (true, 0),
+            "random-signs" or "site-blocks" => (false, e.ProbeGroups > 0 ? e.ProbeGroups : model.N),
+            _ => e.ProbeGroups > 0 && !ScramblingTimeSearch.DefaultSiteBlocks(model.Lattice.Diameter, majorana)
+                ? (false, e.ProbeGroups)
+                : ScramblingTimeSearch.DefaultEstimator(model.N, model.Lattice.Diameter, majorana),
+        };
     }
 
     public PointResult Run(SweepPoint point, CancellationToken cancellationToken)
@@ -41,6 +130,7 @@ public sealed class ExactPointRunner : IPointRunner
         var pm = PointModel.Load(point);
         var model = pm.Model;
         var e = point.Engine;
+        if (e.ExactMode == "tstar") return RunSearch(point, pm, sw, cancellationToken);
         double step = e.Dt * e.RecordEvery;
         // a drive is followed period by period (the exact engine applies the one-period unitary)
         if (model.Drive is { } drive) step = drive.Period * Math.Max(1, Math.Round(step / drive.Period));
@@ -114,6 +204,48 @@ public sealed class ExactPointRunner : IPointRunner
             Converged = true,
             WallSeconds = sw.Elapsed.TotalSeconds,
             MemoryBytes = r.Cost.PeakWorkingSetBytes,
+            Note = string.Join("; ", notes),
+        };
+    }
+
+    private PointResult RunSearch(SweepPoint point, PointModel pm, Stopwatch sw, CancellationToken ct)
+    {
+        var e = point.Engine;
+        var model = pm.Model;
+        var (blocks, groups) = Estimator(e, model);
+        var r = ScramblingTimeSearch.Run(model.Hamiltonian, new ScramblingTimeSearchOptions
+        {
+            Operator = pm.Probe,
+            MajoranaSize = model.SizeMeasure == SizeMeasure.Majoranas,
+            MaxTime = e.Time,
+            Samples = e.Samples,
+            Seed = unchecked((int)e.SampleSeed),
+            SiteBlocks = blocks,
+            ProbeGroups = groups,
+            Threads = _threads,
+            Logger = _logger,
+        }, ct);
+        var last = r.Evaluations[^1];
+        var notes = new List<string>
+        {
+            $"exact engine, t* search: {r.Evaluations.Count - 1} evaluations of the mean size ({r.SizeMeasure}; {r.Estimator}), {r.Samples} random state(s), {r.MatrixVectorProducts} applications of H",
+        };
+        if (r.TStar is null) notes.Add($"t* not reached by t = {r.LowerBound:0.###}: mean size {last.MeanSize:0.###} < {r.Target:0.###}");
+        if (e.Samples == 1) notes.Add("one random state: its sampling noise is not estimated here and enters the seed-to-seed spread");
+        return new PointResult
+        {
+            TStar = r.TStar,
+            TStarGridError = r.TStar is null ? 0 : r.LocationError,
+            TStarTruncationError = r.TStar is null ? null : 0,
+            TStarSamplingError = r.TStar is not null && e.Samples > 1 ? r.SamplingError : null,
+            DiscardedWeight = 0,
+            FinalSizeFraction = last.MeanSize / r.Saturation,
+            FinalTime = last.Time,
+            Engine = "exact",
+            ProbeResolved = pm.Probe.ToString(),
+            Converged = true,
+            WallSeconds = sw.Elapsed.TotalSeconds,
+            MemoryBytes = Math.Max(r.PeakWorkingSetBytes, r.VectorBytes),
             Note = string.Join("; ", notes),
         };
     }

@@ -38,6 +38,8 @@ public sealed partial class PointRunners : IPointRunner
 
     public long EstimateMemoryBytes(SweepPoint point) => For(point).EstimateMemoryBytes(point);
 
+    public double? EstimateSeconds(SweepPoint point) => For(point).EstimateSeconds(point);
+
     public PointResult Run(SweepPoint point, CancellationToken cancellationToken) => For(point).Run(point, cancellationToken);
 
     private IPointRunner For(SweepPoint point) => point.ResolvedEngine switch

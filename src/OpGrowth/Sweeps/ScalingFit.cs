@@ -81,6 +81,14 @@ public sealed record ScalingFit
     /// <summary>The fitted law at N.</summary>
     public double Evaluate(double n) => A + Slope * Regressor(Law, n);
 
+    /// <summary>Standard error of the fitted law at N from the parameter covariance (errors and their correlation).</summary>
+    public double PredictionError(double n)
+    {
+        double f = Regressor(Law, n);
+        double v = AError * AError + f * f * SlopeError * SlopeError + 2 * f * Correlation * AError * SlopeError;
+        return Math.Sqrt(Math.Max(0, v));
+    }
+
     /// <summary>The regressor of a law: ln N or N.</summary>
     public static double Regressor(string law, double n) => law == "log" ? Math.Log(n) : n;
 

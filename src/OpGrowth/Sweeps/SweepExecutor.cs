@@ -75,6 +75,8 @@ public sealed class SweepExecutor
                 }
                 used += mem;
                 pending.RemoveAt(i);
+                if (_runner.EstimateSeconds(p) is double est)
+                    _logger?.LogInformation("point {Index} {Point}: estimated {Time} and {Memory} before it starts", p.Index, p, FormatDuration(est), FormatBytes(mem));
                 var token = linked.Token;
                 var task = Task.Factory.StartNew(() => _runner.Run(p, token), token, TaskCreationOptions.LongRunning, TaskScheduler.Default);
                 running.Add((task, p, mem));
@@ -127,6 +129,7 @@ public sealed class SweepExecutor
         => bytes >= 1L << 60 ? "unlimited" : bytes >= 1L << 30 ? $"{(bytes / (double)(1L << 30)).ToString("0.##", CultureInfo.InvariantCulture)} GiB"
             : $"{(bytes / (double)(1L << 20)).ToString("0.#", CultureInfo.InvariantCulture)} MiB";
 
-    internal static string FormatDuration(double seconds)
+    /// <summary>Seconds as s, min or h.</summary>
+    public static string FormatDuration(double seconds)
         => seconds < 120 ? $"{seconds:0} s" : seconds < 7200 ? $"{seconds / 60:0} min" : $"{seconds / 3600:0.#} h";
 }

@@ -171,6 +171,9 @@ public sealed record SweepPlan
         sb.Append("samples = ").Append(e.Samples.ToString(ci)).Append('\n');
         sb.Append("sample_seed = ").Append(e.SampleSeed.ToString(ci)).Append('\n');
         sb.Append("front_fraction = ").Append(Num(e.FrontFraction)).Append('\n');
+        sb.Append("exact_mode = ").Append(Quote(e.ExactMode)).Append('\n');
+        sb.Append("size_estimator = ").Append(Quote(e.SizeEstimator)).Append('\n');
+        sb.Append("probe_groups = ").Append(e.ProbeGroups.ToString(ci)).Append('\n');
         var s = e.Synthetic;
         sb.Append("\n[synthetic]\n");
         sb.Append("law = ").Append(Quote(s.Law)).Append('\n');

@@ -14,11 +14,13 @@ public static partial class SweepPlanReader
     internal static readonly string[] TopKeys = ["name", "description", "model", "parameters", "engine", "synthetic"];
     internal static readonly string[] ModelKeys = ["file", "files", "sizes", "seeds", "seed_parameter", "probes"];
     internal static readonly string[] EngineKeys =
-        ["engine", "exact_max_n", "time", "dt", "record_every", "method", "max_strings", "threshold", "budgets", "samples", "sample_seed", "front_fraction"];
+        ["engine", "exact_max_n", "time", "dt", "record_every", "method", "max_strings", "threshold", "budgets", "samples", "sample_seed", "front_fraction", "exact_mode", "size_estimator", "probe_groups"];
     internal static readonly string[] SyntheticKeys = ["law", "a", "b", "noise", "truncation_fraction", "delay", "memory"];
     public static readonly IReadOnlyList<string> Engines = ["auto", "pauli", "exact", "synthetic"];
     internal static readonly string[] Methods = ["trotter2", "trotter4", "rk4"];
     internal static readonly string[] Laws = ["linear", "log"];
+    internal static readonly string[] ExactModes = ["tstar", "sites"];
+    internal static readonly string[] SizeEstimators = ["auto", "site-blocks", "random-signs"];
 
     /// <summary>Largest N a sweep accepts (the widest Pauli key).</summary>
     public const int MaxN = 1024;
@@ -163,6 +165,9 @@ public static partial class SweepPlanReader
                     "samples" => engine with { Samples = (int)r.Int(v, key, 1, 10_000) },
                     "sample_seed" => engine with { SampleSeed = r.Int(v, key, long.MinValue, long.MaxValue) },
                     "front_fraction" => engine with { FrontFraction = r.Double(v, key, 1e-6, 0.999999) },
+                    "exact_mode" => engine with { ExactMode = r.Choice(v, key, ExactModes) },
+                    "size_estimator" => engine with { SizeEstimator = r.Choice(v, key, SizeEstimators) },
+                    "probe_groups" => engine with { ProbeGroups = (int)r.Int(v, key, 0, 1024) },
                     _ => engine,
                 };
             }

@@ -69,22 +69,26 @@ public class StateVectorTests
     {
         // Reference: the plain one-string-at-a-time path; N = 16 spans many chunks and 2 threads,
         // with X masks in both the chunk-local and the far bits. Tolerance: rounding of ~150 terms.
-        const int n = 16;
-        var h = TestModels.RandomLocal(n, 9);
+        AssertMatchesTermByTerm(TestModels.RandomLocal(16, 9), 4, 1e-13);
+    }
+
+    // Fast path on two threads against the term-by-term reference, and bit-identical to one thread.
+    private static PauliHamiltonianApplier AssertMatchesTermByTerm(Hamiltonian h, int seed, double tolerance)
+    {
         var app = new PauliHamiltonianApplier(h, threads: 2);
-        var psi = StateVector.Create(n);
-        StateVector.FillHaarRandom(psi, new Random(4));
+        var psi = StateVector.Create(h.N);
+        StateVector.FillHaarRandom(psi, new Random(seed));
         var fast = new Complex[psi.Length];
         var slow = new Complex[psi.Length];
         app.Apply(psi, fast);
         app.ApplyTermByTerm(psi, slow);
         double maxDiff = 0;
         for (int i = 0; i < fast.Length; i++) maxDiff = Math.Max(maxDiff, (fast[i] - slow[i]).Magnitude);
-        Assert.True(maxDiff < 1e-13, $"max difference {maxDiff}");
-        var one = new PauliHamiltonianApplier(h, threads: 1);
+        Assert.True(maxDiff < tolerance, $"max difference {maxDiff}");
         var single = new Complex[psi.Length];
-        one.Apply(psi, single);
+        new PauliHamiltonianApplier(h, threads: 1).Apply(psi, single);
         Assert.Equal(single, fast); // bit-identical at any thread count
+        return app;
     }
 
     [Fact]
@@ -102,6 +106,50 @@ public class StateVectorTests
         app.Apply(psi, fast);
         app.ApplyTermByTerm(psi, slow);
         for (int i = 0; i < fast.Length; i++) Assert.True((fast[i] - slow[i]).Magnitude < 1e-13);
+    }
+
+    [Theory]
+    [InlineData(9)]
+    [InlineData(16)]
+    public void Applier_AllToAllExchangePairs_MatchTermByTerm(int n)
+    {
+        // Random all-to-all XX + YY + ZZ (pair kernel: pairs inside a chunk, straddling it, above it, and on
+        // bit 0) plus an anisotropic pair (XX and YY with different couplings: four distinct coefficients).
+        // Reference: the one-string-at-a-time path. Tolerance: rounding of a few hundred terms.
+        var rng = new Random(n);
+        var t = new List<PauliTerm>();
+        for (int i = 0; i < n; i++)
+        {
+            for (int j = i + 1; j < n; j++)
+            {
+                double jij = rng.NextDouble() - 0.5;
+                t.Add(new(TestModels.P($"X_{i} X_{j}", n), jij));
+                t.Add(new(TestModels.P($"Y_{i} Y_{j}", n), i == 0 && j == n - 1 ? 0.3 : jij));
+                t.Add(new(TestModels.P($"Z_{i} Z_{j}", n), jij));
+            }
+        }
+        var app = AssertMatchesTermByTerm(new Hamiltonian(n, t), 2, 1e-12);
+        Assert.Equal(n * (n - 1) / 2, app.ExchangePairs);
+    }
+
+    [Fact]
+    public void Applier_ManyTermGroupsWithTables_MatchDenseMatrix()
+    {
+        // Groups of several strings with one X mask and different Z masks (incl. odd Y: complex) use the
+        // coefficient table; reference: MathNet Kronecker matrices (Dense.Of). Tolerance: rounding.
+        const int n = 7;
+        var rng = new Random(17);
+        var t = new List<PauliTerm>();
+        string[] pats = ["X_0 Z_2 X_4", "Y_0 Z_2 X_4", "X_0 Z_2 Y_4", "Y_0 Z_2 Y_4", "X_0 Z_1 Z_2 Z_3 X_4 Z_6", "Y_1 Y_5 Z_0", "X_1 X_5", "Y_1 X_5 Z_3", "X_3 Y_6"];
+        foreach (var p in pats) t.Add(new(TestModels.P(p, n), rng.NextDouble() - 0.5));
+        var h = new Hamiltonian(n, t);
+        var app = new PauliHamiltonianApplier(h, threads: 1);
+        var psi = StateVector.Create(n);
+        StateVector.FillHaarRandom(psi, new Random(3));
+        var got = new Complex[psi.Length];
+        app.Apply(psi, got);
+        var want = Dense.Of(n, h.Terms) * MathNet.Numerics.LinearAlgebra.Vector<Complex>.Build.DenseOfArray(psi);
+        for (int i = 0; i < got.Length; i++) Assert.True((got[i] - want[i]).Magnitude < 1e-12, $"amplitude {i}");
     }
 
     [Fact]

@@ -194,8 +194,10 @@ public class ScramblingRunTests(QuickRunFixture fx) : IClassFixture<QuickRunFixt
         var fig = direct.Figures[0];
         Assert.Equal(fig.ScramblingTime.Value, r.Evolution!.Figures[0].ScramblingTime.Value);
         Assert.Equal(fig.Butterfly?.Primary.Velocity, r.Evolution.Figures[0].Butterfly?.Primary.Velocity);
+        // The t* headline carries the run's statement at its own N; at N = 10 the exact engine measures it (cheap).
         var tstar = r.Headlines.Single(h => h.Name == "scrambling time t*");
-        Assert.Equal(fig.ScramblingTime.Value!.Value, tstar.Value.Value);
+        Assert.NotNull(r.ScramblingTime);
+        Assert.Equal(r.ScramblingTime!.Value!.Value, tstar.Value.Value);
         var vb = r.Headlines.Single(h => h.Name == "butterfly velocity v_B");
         Assert.Equal(fig.Butterfly!.Primary.Velocity!.Value, vb.Value.Value);
 
@@ -204,6 +206,31 @@ public class ScramblingRunTests(QuickRunFixture fx) : IClassFixture<QuickRunFixt
         Assert.Equal(lz.B, r.Lanczos!.B);
         var alpha = r.Headlines.Single(h => h.Name == "Lanczos slope alpha");
         Assert.Equal(KrylovAnalyzer.Analyze(lz, new KrylovAnalysisOptions()).Growth!.Alpha, alpha.Value.Value);
+    }
+
+    [Fact]
+    public void Execute_QuickRun_StatesTStarMeasuredByTheExactEngine()
+    {
+        // N = 10 costs the exact t* search well under a second: the statement is a measurement, it agrees with the exact
+        // engine called directly with the same options (site blocks, two random states), and results.json carries it.
+        var r = fx.Result;
+        var st = r.ScramblingTime!;
+        Assert.Equal("measured", st.Route);
+        Assert.Equal(10, st.N);
+        var direct = OpGrowth.Exact.ScramblingTimeSearch.Run(r.Model.Hamiltonian, new OpGrowth.Exact.ScramblingTimeSearchOptions
+        {
+            Operator = r.Model.Probes[0],
+            Samples = ScramblingTimeStage.MemberSamples(10),
+            SiteBlocks = true,
+            MaxTime = Math.Max(4 * r.Preset.Time, 40),
+            Guess = r.Evolution!.Figures[0].ScramblingTime.Value,
+        });
+        Assert.Equal(direct.TStar!.Value, st.Value!.Value, 9);
+        Assert.True(st.Low < st.Value && st.High > st.Value);
+        using var doc = System.Text.Json.JsonDocument.Parse(File.ReadAllText(Path.Combine(r.Folder, RunReport.ResultsFileName)));
+        var js = doc.RootElement.GetProperty("scramblingTime");
+        Assert.Equal("measured", js.GetProperty("route").GetString());
+        Assert.Equal(st.Value!.Value, js.GetProperty("value").GetDouble(), 12);
     }
 
     [Fact]
