@@ -73,7 +73,7 @@ public static class ScramblingTimeStage
     {
         front = null;
         int n = model.N;
-        var probe = model.Probes[0];
+        var probe = ProbeChoice.Resolve(model, options.Probe);
         bool majorana = model.SizeMeasure == SizeMeasure.Majoranas;
         bool hamiltonian = model.Drive is null;
         var also = new List<string>();
@@ -203,7 +203,7 @@ public static class ScramblingTimeStage
         var family = FamilyMembers.FromFile(path, options.Overrides, model);
         var sizes = MemberSizes(options.Effort, n, allToAll);
         int seeds = model.IsDisordered ? MemberSeeds(options.Effort) : 1;
-        var members = MeasureMembers(family, sizes, seeds, majorana, allToAll, maxTime, options.Threads, log, ct);
+        var members = MeasureMembers(family, sizes, seeds, majorana, allToAll, maxTime, options.Threads, log, ct, options.Probe);
         if (members.Count < (allToAll ? 3 : 2)) return null;
         if (allToAll) return ScramblingTimePrediction.FromScaling(n, members);
 
@@ -273,7 +273,7 @@ public static class ScramblingTimeStage
     /// Errors: bootstrap over seeds plus the members' own location and sampling errors.
     /// </summary>
     public static List<ScramblingTimeMember> MeasureMembers(SmallerMember family, IReadOnlyList<int> sizes, int seeds, bool majorana, bool allToAll, double maxTime,
-        int threads, ILogger? log, CancellationToken ct)
+        int threads, ILogger? log, CancellationToken ct, string? probeText = null)
     {
         ArgumentNullException.ThrowIfNull(family);
         ArgumentNullException.ThrowIfNull(sizes);
@@ -288,7 +288,10 @@ public static class ScramblingTimeStage
             {
                 var m = family(size, r);
                 if (m is null || m.N != size || m.Drive is not null) break;
-                var p = m.Probes[0];
+                // the probe the run evolves, placed on the member (its first probe when it does not exist there)
+                PauliString p;
+                try { p = ProbeChoice.Resolve(m, probeText); }
+                catch (OpGrowth.IO.InputException) { p = m.Probes[0]; }
                 int samples = seeds > 1 ? 1 : MemberSamples(size);
                 var (mb, mg) = ScramblingTimeSearch.DefaultEstimator(size, m.Lattice.Diameter, majorana);
                 var res = ScramblingTimeSearch.Run(m.Hamiltonian, new ScramblingTimeSearchOptions

@@ -61,8 +61,14 @@ public sealed record DisorderAverage
     /// <summary>Mean v_B (null when any point lacks one).</summary>
     public double? VB { get; init; }
 
-    /// <summary>Bootstrap error of v_B.</summary>
+    /// <summary>Bootstrap error of the mean v_B over seeds (null for one seed).</summary>
     public double? VBStatError { get; init; }
+
+    /// <summary>
+    /// Total uncertainty of the mean v_B: the bootstrap error over seeds and the points' own errors (front-fit error,
+    /// threshold spread, truncation movement) propagated to the mean, sqrt(sum sigma_i^2) / n, in quadrature.
+    /// </summary>
+    public double? VBError { get; init; }
 
     /// <summary>Largest discarded weight among the points.</summary>
     public double MaxDiscardedWeight { get; init; }

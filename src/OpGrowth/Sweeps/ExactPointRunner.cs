@@ -130,7 +130,8 @@ public sealed class ExactPointRunner : IPointRunner
         var pm = PointModel.Load(point);
         var model = pm.Model;
         var e = point.Engine;
-        if (e.ExactMode == "tstar") return RunSearch(point, pm, sw, cancellationToken);
+        // The t* search evolves under a Hamiltonian; a drive is followed on its period grid below.
+        if (e.ExactMode == "tstar" && model.Drive is null) return RunSearch(point, pm, sw, cancellationToken);
         double step = e.Dt * e.RecordEvery;
         // a drive is followed period by period (the exact engine applies the one-period unitary)
         if (model.Drive is { } drive) step = drive.Period * Math.Max(1, Math.Round(step / drive.Period));

@@ -118,13 +118,13 @@ public sealed record SweepCollection
         var header = new List<string> { "model" };
         header.AddRange(paramNames);
         header.AddRange(["probe", "engine", "N", "seeds", "reached", "t_star", "t_star_stat_err", "t_star_trunc_err", "t_star_grid_err",
-            "t_star_seed_spread", "t_star_sampling_err", "growth_kind", "growth_rate", "growth_rate_stat_err", "v_b", "v_b_stat_err", "max_discarded_weight", "converged"]);
+            "t_star_seed_spread", "t_star_sampling_err", "growth_kind", "growth_rate", "growth_rate_stat_err", "v_b", "v_b_stat_err", "v_b_err", "max_discarded_weight", "converged"]);
         var rows = Averages.Select(a =>
         {
             var c = new List<object?> { a.Model };
             c.AddRange(paramNames.Select(n => a.Parameters.TryGetValue(n, out double v) ? v : (object?)null));
             c.AddRange(new object?[] { a.Probe, a.Engine, a.N, a.Seeds, a.Reached, a.TStar, a.TStarStatError, a.TStarTruncationError, a.TStarGridError,
-                a.TStarSpread, a.TStarSamplingError, a.GrowthKind, a.GrowthRate, a.GrowthRateStatError, a.VB, a.VBStatError, a.MaxDiscardedWeight, a.Converged });
+                a.TStarSpread, a.TStarSamplingError, a.GrowthKind, a.GrowthRate, a.GrowthRateStatError, a.VB, a.VBStatError, a.VBError, a.MaxDiscardedWeight, a.Converged });
             return c.ToArray();
         }).ToList();
         return Csv(header, rows);

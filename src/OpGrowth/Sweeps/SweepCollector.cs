@@ -98,12 +98,21 @@ public static class SweepCollector
                     GrowthRateStatError = rates.All(r => r is not null) ? Bootstrap.StandardError(rates.Select(r => r!.Value).ToArray()) : null,
                     VB = vbs.All(v => v is not null) ? vbs.Average(v => v!.Value) : null,
                     VBStatError = vbs.All(v => v is not null) ? Bootstrap.StandardError(vbs.Select(v => v!.Value).ToArray()) : null,
+                    VBError = vbs.All(v => v is not null) ? VelocityError(list.Select(p => p.Result).ToList()) : null,
                     MaxDiscardedWeight = list.Max(p => p.Result.DiscardedWeight),
                     Converged = list.All(p => p.Result.Converged),
                 });
             }
         }
         return result;
+    }
+
+    // Mean v_B's total error: bootstrap over seeds and each point's own error (fit and truncation) propagated to the mean.
+    private static double VelocityError(List<PointResult> points)
+    {
+        double boot = Bootstrap.StandardError(points.Select(p => p.VB!.Value).ToArray()) ?? 0;
+        double own = Math.Sqrt(points.Sum(p => Math.Pow(p.VBError ?? 0, 2) + Math.Pow(p.VBTruncationError ?? 0, 2))) / points.Count;
+        return Math.Sqrt(boot * boot + own * own);
     }
 
     /// <summary>Scaling fits per series.</summary>

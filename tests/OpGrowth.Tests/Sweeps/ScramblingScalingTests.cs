@@ -16,7 +16,9 @@ public class ScramblingScalingTests(ITestOutputHelper output)
     /// Mixed-field Ising chain (J = 1, g = 1.05, h = 0.5), Z on site 0 of an open chain. The front moves
     /// ballistically at v_B, so the mean size reaches 3N/8 when the scrambled region covers about half the
     /// chain: t* ~ a + N/(2 v_B) (common practice: the half-saturation definition with the operator at one
-    /// end; conventions.md). Asserted: the linear law is preferred over ln N, and its slope 1/v agrees with
+    /// end; conventions.md). Asserted: the linear law fits far better than ln N (Delta AIC below -10, ln N never
+    /// preferred; with grid errors of 1e-4 neither law fits to chi^2, so the comparison may rightly decline to claim
+    /// either, FitComparison), and its slope 1/v agrees with
     /// 1/(2 v_B) within a factor 1.6 (front broadening and the not-yet-saturated region behind the front make
     /// the slope somewhat larger than 1/(2 v_B); truncation at the larger N is reported, not hidden).
     /// </summary>
@@ -45,7 +47,9 @@ public class ScramblingScalingTests(ITestOutputHelper output)
         Report(s);
         Assert.Equal(5, s.Data.Count(a => a.TStar is not null));
         var cmp = s.Comparison!;
-        Assert.Equal("linear", cmp.Preferred);
+        Assert.NotEqual("log", cmp.Preferred);
+        Assert.True(cmp.DeltaAic < -10, $"Delta AIC {cmp.DeltaAic}");
+        Assert.True(cmp.Linear.ChiSquared < cmp.Log.ChiSquared, $"chi2 linear {cmp.Linear.ChiSquared} vs log {cmp.Log.ChiSquared}");
         // v_B from the sizes whose budget series converged and whose front had room to move (N >= 12).
         var vbs = c.Points.Where(p => p.N >= 12 && p.Result.Converged && p.Result.VB is not null).Select(p => p.Result.VB!.Value).ToList();
         Assert.NotEmpty(vbs);

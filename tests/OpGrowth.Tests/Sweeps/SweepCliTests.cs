@@ -78,16 +78,16 @@ public class SweepCliTests(ITestOutputHelper output)
             dt = 1
             record_every = 1
             max_strings = 1000000
-            ladder = 1
+            budgets = 1
             """;
         string auto = kit.WritePlan(Plan("auto"));
-        var dry = SweepTestKit.RunCli(TimeSpan.FromMinutes(2), "sweep", auto, "--results", kit.Path("dry"), "--dry-run");
+        var dry = SweepTestKit.RunCli(TimeSpan.FromMinutes(2), "sweep", auto, "--out", kit.Path("dry"), "--dry-run");
         Assert.True(dry.Code == 0, dry.Stderr);
         Assert.Contains("exact", dry.Stdout, StringComparison.Ordinal);
-        var run = SweepTestKit.RunCli(TimeSpan.FromMinutes(3), "sweep", auto, "--results", kit.Path("auto"));
+        var run = SweepTestKit.RunCli(TimeSpan.FromMinutes(3), "sweep", auto, "--out", kit.Path("auto"));
         Assert.True(run.Code == 0, run.Stderr);
         var pauliPlan = kit.WritePlan(Plan("pauli"));
-        var pauli = SweepTestKit.RunCli(TimeSpan.FromMinutes(3), "sweep", pauliPlan, "--results", kit.Path("pauli"));
+        var pauli = SweepTestKit.RunCli(TimeSpan.FromMinutes(3), "sweep", pauliPlan, "--out", kit.Path("pauli"));
         Assert.True(pauli.Code == 0, pauli.Stderr);
         var a = new PointStore(kit.Path("auto")).LoadAll().Points.Single().Result;
         var b = new PointStore(kit.Path("pauli")).LoadAll().Points.Single().Result;
