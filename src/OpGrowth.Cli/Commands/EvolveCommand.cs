@@ -299,7 +299,7 @@ internal static class EvolveCommand
             },
             completed = r.Completed,
             stopReason = r.StopReason,
-            headline = EvolutionHeadlines.Of(r).Select(h => new { name = h.Name, value = h.Value.Value, uncertainty = h.Value.Uncertainty, unit = h.Value.Unit, definition = h.Value.Definition, converged = h.Converged, note = h.Note }),
+            headline = EvolutionHeadlines.Of(r, TimeUnits.For(model.IsDriven)).Select(h => new { name = h.Name, value = h.Value.Value, uncertainty = h.Value.Uncertainty, unit = h.Value.Unit, definition = h.Value.Definition, converged = h.Converged, note = h.Note }),
             discardedWeight = r.Main.Records.Count > 0 ? r.Main.Records[^1].DiscardedTotal : 0,
             notes = r.Notes,
             figures = r.Figures,
@@ -327,7 +327,7 @@ internal static class EvolveCommand
         sb.Append(Inv, $"  autocorrelation: {NumberFormat.Number(last.Autocorrelation, 3)}; mean size: {NumberFormat.Number(last.MeanSize, 3)} (random operator {NumberFormat.Number(fig.Growth.SaturationExpected, 3)})");
         if (last.MeanMajoranaSize is double mm) sb.Append(Inv, $", in Majoranas {NumberFormat.Number(mm, 3)}");
         sb.Append('\n');
-        var heads = EvolutionHeadlines.Of(r);
+        var heads = EvolutionHeadlines.Of(r, TimeUnits.For(r.Dynamics != "hamiltonian"));
         foreach (var h in heads) sb.Append("  ").Append(EvolutionHeadlines.Line(h)).Append('\n');
         if (fig.Butterfly is null) sb.Append("  butterfly velocity v_B: ").Append(fig.ButterflyNote).Append('\n');
         else if (fig.Butterfly.Primary.Velocity is null) sb.Append("  butterfly velocity v_B: ").Append(fig.Butterfly.Primary.Note).Append('\n');

@@ -125,15 +125,16 @@ internal static class RunCommand
     {
         var o = new StringWriter(Inv);
         double seconds = r.TimingsSeconds.Values.Sum();
-        o.WriteLine($"{r.Model.Name} (N = {r.Model.N}), probe {r.Problem.Initial[0].String}, effort {r.Options.Effort.ToString().ToLowerInvariant()}: {(r.Completed ? "completed" : "stopped early (" + r.StopReason + ")")} in {NumberFormat.Duration(TimeSpan.FromSeconds(seconds))}");
+        o.WriteLine($"{r.Model.Name} (N = {r.Model.N}{(r.Model.SizeMeasure == SizeMeasure.Majoranas ? $" qubits, {2 * r.Model.N} Majoranas" : "")}), probe {r.Problem.Initial[0].String}, effort {r.Options.Effort.ToString().ToLowerInvariant()}: {(r.Completed ? "completed" : "stopped early (" + r.StopReason + ")")} in {NumberFormat.Duration(TimeSpan.FromSeconds(seconds))}");
         if (r.Verdict is { } verdict) o.WriteLine($"  {RunReport.VerdictText(verdict).Replace("Verdict: ", "verdict: ", StringComparison.Ordinal)}");
         foreach (var h in r.Headlines.Where(h => r.ScramblingTime is null || h.Name != RunReport.ScramblingTimeName)) o.WriteLine("  " + EvolutionHeadlines.Line(h));
         if (r.ScramblingTime is { } st) o.WriteLine($"  {EvolutionHeadlines.ScramblingTime}: {st.Text()}");
+        if (r.FreeFermion is { } ff) o.WriteLine($"  {ff.Text()}");
         if (r.Evolution is { } evo && evo.Figures.Count > 0 && evo.Main.Records.Count > 0)
         {
             var ts = evo.Figures[0].ScramblingTime;
             var last = evo.Main.Records[^1];
-            if (ts.Value is null && r.ScramblingTime is null)
+            if (ts.Value is null && r.ScramblingTime is null && r.FreeFermion is null)
                 o.WriteLine($"  {EvolutionHeadlines.ScramblingTime}: not reached by t = {NumberFormat.Number(last.Time, 3)} (mean size {NumberFormat.Number(last.MeanSize, 3)} of 3N/8 = {NumberFormat.Number(ts.Target, 3)})");
             o.WriteLine($"  {EvolutionHeadlines.DiscardedWeight}: {EvolutionHeadlines.DiscardedText(evo)}");
         }

@@ -15,6 +15,9 @@ public static class BudgetConvergence
             ("saturationMeanSize", f => f.Growth.Saturation),
             ("scramblingTime", f => f.ScramblingTime.Value),
             ("majoranaScramblingTime", f => f.MajoranaScramblingTime?.Value),
+            ("majoranaSizeGrowthRateLinear", f => f.MajoranaGrowth?.SizeLinear.Rate),
+            ("majoranaSizeGrowthRateExponential", f => f.MajoranaGrowth?.SizeExponential.Rate),
+            ("majoranaSaturationMeanSize", f => f.MajoranaGrowth?.Saturation),
         };
         var list = new List<FigureConvergence>();
         foreach (var (name, get) in pick)

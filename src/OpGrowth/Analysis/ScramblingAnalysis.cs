@@ -28,6 +28,8 @@ public static class ScramblingAnalysis
             Growth = Growth(input, geometry, options, tstar.Value),
             ScramblingTime = tstar,
             MajoranaScramblingTime = tstarMaj,
+            // a random operator on 2N Majoranas has mean Majorana size N 4^N / (4^N - 1)
+            MajoranaGrowth = input.MeanMajoranaSize is { } mm ? Growth(input, geometry, options, tstarMaj?.Value, mm, input.N / (1 - Math.Pow(4, -input.N)), "N (of 2N Majoranas)") : null,
         };
     }
 
@@ -158,14 +160,15 @@ public static class ScramblingAnalysis
     // ------------------------------------------------------------------ growth
 
     private static GrowthRates Growth(ScramblingInput input, LatticeGeometry geometry, ScramblingAnalysisOptions options, double? tstar)
+        => Growth(input, geometry, options, tstar, input.MeanSize, 0.75 * input.N / (1 - Math.Pow(4, -input.N)), "3N/4");
+
+    private static GrowthRates Growth(ScramblingInput input, LatticeGeometry geometry, ScramblingAnalysisOptions options, double? tstar, double[] n, double expected, string expectedName)
     {
         var t = input.Times;
-        var n = input.MeanSize;
         int nq = input.N;
-        double expected = 0.75 * nq / (1 - Math.Pow(4, -nq));
         double n0 = n[0];
         double excessMax = options.GrowthMaxFraction * (expected - n0);
-        string rule = $"from the first record with n(t) - n(0) >= {options.GrowthMinExcess} (past the t^2 onset) to the last record before n(t) - n(0) exceeds {options.GrowthMaxFraction} of the saturation excess 3N/4 - n(0) = {expected - n0:0.###}";
+        string rule = $"from the first record with n(t) - n(0) >= {options.GrowthMinExcess} (past the t^2 onset) to the last record before n(t) - n(0) exceeds {options.GrowthMaxFraction} of the saturation excess {expectedName} - n(0) = {expected - n0:0.###}";
         var (s, e) = Window(n, v => v - n0 >= options.GrowthMinExcess, v => v - n0 > excessMax);
         GrowthFit expFit, linFit;
         if (e - s + 1 >= options.MinFitPoints)

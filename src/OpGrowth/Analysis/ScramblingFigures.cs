@@ -17,4 +17,7 @@ public sealed record ScramblingFigures
 
     /// <summary>Scrambling time from the Majorana size (fermionic models), or null.</summary>
     public ScramblingTime? MajoranaScramblingTime { get; init; }
+
+    /// <summary>Growth and saturation of the Majorana size (fermionic models; random operator: N of 2N Majoranas), or null.</summary>
+    public GrowthRates? MajoranaGrowth { get; init; }
 }

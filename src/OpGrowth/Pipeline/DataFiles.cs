@@ -34,6 +34,7 @@ public static class DataFiles
         ["compare.csv"] = "Pauli engine against the exact engine at small N: autocorrelation and OTOCs F_j(t) per site from both, and their differences",
         ["tstar_members.csv"] = "t* at the smaller members behind the t* statement: N, t*, its error, the spread over seeds, the half-volume distance and the front's arrival there",
         ["front_arrival.csv"] = "arrival time of the operator front at each distance for every bond dimension of the front engine's budget series, and its uncertainty",
+        ["free_fermion_light_cone.csv"] = "free models: the exact Majorana light cone |R_ab(t)|^2 of one Majorana a, one column per mode b",
         ["diagnosis.json"] = "the diagnosis battery's full report: verdict per test, figures, thresholds, sources, data, settings",
         ["diagnosis.txt"] = "the diagnosis battery's verdict table as text",
     };
@@ -238,6 +239,15 @@ public static class DataFiles
             list.Add("front_arrival.csv");
         }
         return list;
+    }
+
+    /// <summary>Writes free_fermion_light_cone.csv into <paramref name="dir"/>; returns its name.</summary>
+    public static string WriteFreeFermion(string dir, FreeFermionStage ff)
+    {
+        ArgumentNullException.ThrowIfNull(ff);
+        var rows = Enumerable.Range(0, ff.Times.Length).Select(i => (ff.Times[i], Enumerable.Range(0, ff.Modes).Select(b => ff.Weights[b, i]).ToArray()));
+        AtomicFile.WriteAllText(Path.Combine(dir, "free_fermion_light_cone.csv"), Wide("mode", ff.Modes, rows));
+        return "free_fermion_light_cone.csv";
     }
 
     private static void Row(StringBuilder sb, double t, int site, string quantity, double pauli, double exact)

@@ -32,6 +32,9 @@ public static class EvolutionHeadlines
         "saturationMeanSize" => "saturation mean size",
         "scramblingTime" => "t*",
         "majoranaScramblingTime" => "t* (Majoranas)",
+        "majoranaSizeGrowthRateLinear" => "size growth rate dn/dt (Majoranas)",
+        "majoranaSizeGrowthRateExponential" => "size growth rate lambda (Majoranas)",
+        "majoranaSaturationMeanSize" => "saturation mean size (Majoranas)",
         _ => key,
     };
 
@@ -66,9 +69,10 @@ public static class EvolutionHeadlines
     }
 
     /// <summary>Every headline figure of the full-budget run.</summary>
-    public static List<HeadlineFigure> Of(EvolutionResult evo)
+    public static List<HeadlineFigure> Of(EvolutionResult evo, TimeUnits? units = null)
     {
         ArgumentNullException.ThrowIfNull(evo);
+        var u = units ?? TimeUnits.Hamiltonian;
         var list = new List<HeadlineFigure>();
         if (evo.Figures.Count == 0 || evo.Main.Records.Count == 0) return list;
         var fig = evo.Figures[0];
@@ -84,37 +88,44 @@ public static class EvolutionHeadlines
         {
             list.Add(Make(ButterflyVelocity, new Measured(v, Q(p.VelocityError, C("butterflyVelocity")?.Movement),
                 FormattableString.Invariant($"front r(t) where the site weight reaches {p.Threshold:0.###}, fitted over distances {p.MinDistance}..{p.MaxDistance}; {inQuadrature}"),
-                Win(p.WindowStart, p.WindowEnd), "sites/time"), "butterflyVelocity"));
+                Win(p.WindowStart, p.WindowEnd), u.Velocity), "butterflyVelocity"));
         }
         else
         {
-            var g = fig.Growth;
+            // Majorana models: sizes in Majoranas (random operator: N of 2N); qubit models: in sites.
+            bool maj = fig.MajoranaGrowth is not null;
+            var g = fig.MajoranaGrowth ?? fig.Growth;
+            string pre = maj ? "majoranaS" : "s";
             bool expo = g.Regime.Contains("exp", StringComparison.OrdinalIgnoreCase);
             var (fit, key, label) = expo && g.SizeExponential.Rate is not null
-                ? (g.SizeExponential, "sizeGrowthRateExponential", "size growth rate lambda (n ~ e^{lambda t})")
-                : (g.SizeLinear, "sizeGrowthRateLinear", "size growth rate dn/dt");
+                ? (g.SizeExponential, pre + "izeGrowthRateExponential", "size growth rate lambda (n ~ e^{lambda t})")
+                : (g.SizeLinear, pre + "izeGrowthRateLinear", "size growth rate dn/dt");
             if (fit.Rate is double rate)
             {
-                list.Add(Make(label, new Measured(rate, Q(fit.RateError, C(key)?.Movement), $"fit of the mean size ({g.Regime} regime); {inQuadrature}",
-                    Win(fit.WindowStart, fit.WindowEnd), "1/time"), key));
+                string velocity = maj ? u.Velocity.Replace("sites", "Majoranas", StringComparison.Ordinal) : u.Velocity;
+                list.Add(Make(label, new Measured(rate, Q(fit.RateError, C(key)?.Movement), $"fit of the mean {(maj ? "Majorana " : "")}size ({g.Regime} regime); {inQuadrature}",
+                    Win(fit.WindowStart, fit.WindowEnd), expo ? u.Rate : velocity), key));
             }
         }
-        var ts = fig.ScramblingTime;
+        bool majorana = fig.MajoranaScramblingTime is not null;
+        var ts = fig.MajoranaScramblingTime ?? fig.ScramblingTime;
         if (ts.Value is double tv)
         {
-            var c = C("scramblingTime");
+            var c = C(majorana ? "majoranaScramblingTime" : "scramblingTime");
             Measured m = c is { Movement: null } && c.Values.Length > 1 && c.Values[1] is null
                 // The smaller budget never reached the level: all that is known is that t* lies before the end of the run.
-                ? new Measured(tv, Math.Max(ts.GridUncertainty ?? 0, end - tv), $"{ts.Definition}; the smaller budget did not reach the level by t = {NumberFormat.Number(end, 3)}, so the uncertainty is the rest of the run (a bound)", null, "time")
-                : new Measured(tv, Q(ts.GridUncertainty, c?.Movement), $"{ts.Definition}; uncertainty: time grid and movement across budgets in quadrature", null, "time");
-            list.Add(Make(ScramblingTime, m, "scramblingTime"));
+                ? new Measured(tv, Math.Max(ts.GridUncertainty ?? 0, end - tv), $"{ts.Definition}; the smaller budget did not reach the level by t = {NumberFormat.Number(end, 3)}, so the uncertainty is the rest of the run (a bound)", null, u.Time)
+                : new Measured(tv, Q(ts.GridUncertainty, c?.Movement), $"{ts.Definition}; uncertainty: time grid and movement across budgets in quadrature", null, u.Time);
+            list.Add(Make(ScramblingTime, m, majorana ? "majoranaScramblingTime" : "scramblingTime"));
         }
-        if (fig.Growth.Saturation is double s)
+        var sg = fig.MajoranaGrowth ?? fig.Growth;
+        if (sg.Saturation is double s)
         {
-            var g = fig.Growth;
-            list.Add(Make(Saturation, new Measured(s, Q(g.SaturationSpread, C("saturationMeanSize")?.Movement),
-                FormattableString.Invariant($"late-time mean size; a random operator has {g.SaturationExpected:0.###} (3N/4), ratio {g.SaturationRatio ?? double.NaN:0.###}"),
-                g.SaturationWindowStart is double w0 ? Win(w0, end) : null, "sites"), "saturationMeanSize"));
+            bool maj = fig.MajoranaGrowth is not null;
+            string key = maj ? "majoranaSaturationMeanSize" : "saturationMeanSize";
+            list.Add(Make(Saturation, new Measured(s, Q(sg.SaturationSpread, C(key)?.Movement),
+                FormattableString.Invariant($"late-time mean {(maj ? "Majorana " : "")}size; a random operator has {sg.SaturationExpected:0.###} ({(maj ? "N of 2N Majoranas" : "3N/4")}), ratio {sg.SaturationRatio ?? double.NaN:0.###}"),
+                sg.SaturationWindowStart is double w0 ? Win(w0, end) : null, maj ? "Majoranas" : "sites"), key));
         }
         return list;
     }

@@ -22,22 +22,34 @@ public static class RunFigures
             var fig = evo.Figures[0];
             int n = evo.N;
             double[] times = recs.Select(x => x.Time).ToArray();
-            double[] mean = recs.Select(x => x.MeanSize).ToArray();
-            var w = new double[n + 1, times.Length];
+            // Majorana models count sizes in Majoranas (random operator: N of 2N), qubit models in qubits (3N/4).
+            bool maj = fig.MajoranaGrowth is not null && recs.All(x => x.MeanMajoranaSize is not null && x.MajoranaSizeDistribution is not null);
+            string timeLabel = r.Model.IsDriven ? AxisText.Periods : AxisText.Time;
+            double Mean(EvolutionRecord x) => maj ? x.MeanMajoranaSize!.Value : x.MeanSize;
+            double[] mean = recs.Select(Mean).ToArray();
+            int kMax = maj ? 2 * n : n;
+            var w = new double[kMax + 1, times.Length];
             for (int i = 0; i < times.Length; i++)
-                for (int k = 0; k <= n && k < recs[i].SizeDistribution.Length; k++) w[k, i] = recs[i].SizeDistribution[k];
-            list.Add(Charts.SizeDistribution(new SizeDistributionSeries(times, w) { MeanSize = mean }, size));
+            {
+                var dist = maj ? recs[i].MajoranaSizeDistribution! : recs[i].SizeDistribution;
+                for (int k = 0; k <= kMax && k < dist.Length; k++) w[k, i] = dist[k];
+            }
+            list.Add(Charts.SizeDistribution(new SizeDistributionSeries(times, w) { MeanSize = mean, SizeUnit = maj ? "Majoranas" : "qubits", TimeLabel = timeLabel }, size));
 
-            var smaller = evo.Runs.Skip(1).Select(s => new BudgetCurve(s.Budget.MaxStrings ?? 0, s.Records.Select(x => x.Time).ToArray(), s.Records.Select(x => x.MeanSize).ToArray())).ToList();
-            var ts = fig.ScramblingTime;
+            var smaller = evo.Runs.Skip(1).Select(s => new BudgetCurve(s.Budget.MaxStrings ?? 0, s.Records.Select(x => x.Time).ToArray(), s.Records.Select(x => maj && x.MeanMajoranaSize is double m ? m : x.MeanSize).ToArray())).ToList();
+            var ts = maj ? fig.MajoranaScramblingTime! : fig.ScramblingTime;
             var tsHeadline = r.Headlines.FirstOrDefault(h => h.Name == EvolutionHeadlines.ScramblingTime);
-            list.Add(Charts.MeanSize(new MeanSizeSeries(times, mean, fig.Growth.SaturationExpected)
+            list.Add(Charts.MeanSize(new MeanSizeSeries(times, mean, maj ? fig.MajoranaGrowth!.SaturationExpected : fig.Growth.SaturationExpected)
             {
                 ScramblingTime = tsHeadline?.Value,
                 ScramblingLevel = ts.Target,
                 Budgets = smaller,
                 PartTime = ScramblingTimeStage.BudgetPartTime(evo),
                 Budget = evo.Main.Budget.MaxStrings,
+                SizeUnit = maj ? "Majoranas" : "qubits",
+                TimeLabel = timeLabel,
+                ScramblingLevelLabel = maj ? "N/2" : "3N/8",
+                SaturationLabel = maj ? "saturation N (of 2N)" : "saturation 3N/4",
             }, size));
 
             if (DiscardedWeight(evo) is { } discarded) list.Add(discarded);
@@ -80,6 +92,17 @@ public static class RunFigures
         if (r.CrossCheck is { Ran: true } x && x.Times.Length > 1) list.Add(PauliVersusExact(x, size));
         if (r.Front is { } frontStage) list.Add(FrontFigure(frontStage.Result, r.ScramblingTime, size));
         if (r.ScramblingTime is { Members.Count: > 0 } st) list.Add(StatementFigure(st, size));
+        if (r.FreeFermion is { } ff)
+        {
+            list.Add(Charts.LightCone(new LightConeMap(ff.Times, Enumerable.Range(0, ff.Modes).Select(b => (double)b).ToArray(), ff.Weights)
+            {
+                Quantity = "|R_ab(t)|²",
+                Origin = ff.Majorana,
+                PositionLabel = "Majorana mode b",
+                ScaleMax = ff.Weights.Cast<double>().Where(double.IsFinite).DefaultIfEmpty(1).Max(),
+            }, size, "free-fermion-light-cone", $"Free-fermion light cone of Majorana {ff.Majorana}",
+                FormattableString.Invariant($"Exact Majorana light cone |R_ab(t)|² = |(e^(At))_ab|² from the {ff.Modes} x {ff.Modes} single-particle matrix A of the free-fermion map, for {ff.MajoranaNote}; each time's weights sum to 1. The model is free, so no scrambling time is stated.")));
+        }
         if (r.Sweep?.Series is { } series && TStarSeries(series) is { } tsSeries)
         {
             string caption = series.Comparison?.Verdict is { } v

@@ -39,11 +39,11 @@ public static class RunReport
         if (r.Evolution is { } evo)
         {
             // One voice: with a t* statement at the model's N, the evolution's own t* is not a second headline.
-            var evoHeadlines = EvolutionHeadlines.Of(evo);
-            if (r.ScramblingTime is not null) evoHeadlines.RemoveAll(x => x.Name == EvolutionHeadlines.ScramblingTime);
+            var evoHeadlines = EvolutionHeadlines.Of(evo, TimeUnits.For(r.Model.IsDriven));
+            if (r.ScramblingTime is not null || r.FreeFermion is not null) evoHeadlines.RemoveAll(x => x.Name == EvolutionHeadlines.ScramblingTime);
             list.AddRange(evoHeadlines);
         }
-        if (r.ScramblingTime is { Value: not null } st) list.Add(ScramblingTimeHeadline(st));
+        if (r.ScramblingTime is { Value: not null } st) list.Add(ScramblingTimeHeadline(st, TimeUnits.For(r.Model.IsDriven)));
         if (r.Krylov?.Growth is { } lg && r.Lanczos is { } lz)
         {
             bool conv = LanczosConverged(lz, lg.WindowStart, lg.WindowEnd);
@@ -55,7 +55,7 @@ public static class RunReport
             if (lg.BoundApplies)
             {
                 list.Add(new HeadlineFigure(LyapunovBound,
-                    new Measured(lg.LyapunovBound, 2 * lg.AlphaError, "lambda_L <= 2 alpha at infinite temperature (Parker et al., PRX 9, 041017 (2019))", w, "1/time"), conv)
+                    new Measured(lg.LyapunovBound, 2 * lg.AlphaError, "lambda_L <= 2 alpha at infinite temperature (Parker et al., PRX 9, 041017 (2019))", w, TimeUnits.For(r.Model.IsDriven).Rate), conv)
                 { Note = conv ? null : note });
             }
         }
@@ -66,15 +66,16 @@ public static class RunReport
     public const string ScramblingTimeName = "scrambling time t*";
 
     /// <summary>The t* statement as a headline: value and uncertainty (a bound shows as its value with NaN uncertainty), route in the note.</summary>
-    public static HeadlineFigure ScramblingTimeHeadline(OpGrowth.Sweeps.ScramblingTimeStatement st)
+    public static HeadlineFigure ScramblingTimeHeadline(OpGrowth.Sweeps.ScramblingTimeStatement st, TimeUnits? units = null)
     {
+        string unit = (units ?? TimeUnits.Hamiltonian).Time;
         string def = $"t* at N = {st.N}, {st.Route}: {st.Method}";
         if (st.Value is double v)
         {
-            var m = new Measured(v, st.Uncertainty is double u && double.IsFinite(u) ? u : double.NaN, def, null, "time");
+            var m = new Measured(v, st.Uncertainty is double u && double.IsFinite(u) ? u : double.NaN, def, null, unit);
             return new HeadlineFigure(ScramblingTimeName, m, true) { Note = $"{st.Route}; band {Band(st)}; {st.Basis}" };
         }
-        var b = new Measured(st.Low ?? double.NaN, double.NaN, def + (st.Low is double lb ? FormattableString.Invariant($" (lower bound: t* > {lb:0.##})") : " (not quoted)"), null, "time");
+        var b = new Measured(st.Low ?? double.NaN, double.NaN, def + (st.Low is double lb ? FormattableString.Invariant($" (lower bound: t* > {lb:0.##})") : " (not quoted)"), null, unit);
         return new HeadlineFigure(ScramblingTimeName, b, false) { Note = $"{st.Route}: {st.Basis}" };
     }
 
@@ -183,23 +184,32 @@ public static class RunReport
         var evo = r.Evolution;
         if (evo is not null && evo.Figures.Count > 0 && evo.Main.Records.Count > 0)
         {
-            var g = evo.Figures[0].Growth;
-            var ts = evo.Figures[0].ScramblingTime;
+            // Majorana models state sizes in Majoranas (level N/2, random value N of 2N), qubit models in qubits (3N/8, 3N/4).
+            bool maj = evo.Figures[0].MajoranaGrowth is not null && evo.Figures[0].MajoranaScramblingTime is not null;
+            var g = evo.Figures[0].MajoranaGrowth ?? evo.Figures[0].Growth;
+            var ts = maj ? evo.Figures[0].MajoranaScramblingTime! : evo.Figures[0].ScramblingTime;
+            string level = maj ? "N/2 Majoranas" : "3N/8", full = maj ? "N (of 2N Majoranas)" : "3N/4";
             string first;
-            if (r.ScramblingTime is { } st)
+            if (r.FreeFermion is { } ff)
+            {
+                parts.Add(char.ToUpperInvariant(ff.Text()[0]) + ff.Text()[1..] + ".");
+                first = "The truncated Pauli evolution's mean size ";
+                first += ts.Value is double tv1 ? FormattableString.Invariant($"passes {level} at t = {NumberFormat.Number(tv1, 3)} (not a scrambling time for a free model) and ") : $"does not reach {level}, and ";
+            }
+            else if (r.ScramblingTime is { } st)
             {
                 parts.Add(st.Text() + ".");
                 first = ts.Value is double tv0
-                    ? FormattableString.Invariant($"In the truncated Pauli evolution (method: budget series) the mean size reaches 3N/8 at t = {NumberFormat.Number(tv0, 3)} and ")
-                    : FormattableString.Invariant($"In the truncated Pauli evolution the mean size does not reach 3N/8 = {NumberFormat.Number(ts.Target, 3)} by t = {NumberFormat.Number(evo.Main.Records[^1].Time, 3)}, and ");
+                    ? FormattableString.Invariant($"In the truncated Pauli evolution (method: budget series) the mean size reaches {level} at t = {NumberFormat.Number(tv0, 3)} and ")
+                    : FormattableString.Invariant($"In the truncated Pauli evolution the mean size does not reach {level} = {NumberFormat.Number(ts.Target, 3)} by t = {NumberFormat.Number(evo.Main.Records[^1].Time, 3)}, and ");
             }
             else
             {
                 first = ts.Value is double tv
-                    ? FormattableString.Invariant($"The operator's mean size reaches 3N/8 at t* = {NumberFormat.Number(tv, 3)} and ")
-                    : FormattableString.Invariant($"The operator's mean size does not reach 3N/8 = {NumberFormat.Number(ts.Target, 3)} by t = {NumberFormat.Number(evo.Main.Records[^1].Time, 3)}, and ");
+                    ? FormattableString.Invariant($"The operator's mean size reaches {level} at t* = {NumberFormat.Number(tv, 3)} and ")
+                    : FormattableString.Invariant($"The operator's mean size does not reach {level} = {NumberFormat.Number(ts.Target, 3)} by t = {NumberFormat.Number(evo.Main.Records[^1].Time, 3)}, and ");
             }
-            parts.Add(first + (g.SaturationRatio is double sr ? FormattableString.Invariant($"saturates at {NumberFormat.Number(sr, 2)} of the random-operator value 3N/4.") : "has not saturated by the end of the run."));
+            parts.Add(first + (g.SaturationRatio is double sr ? FormattableString.Invariant($"saturates at {NumberFormat.Number(sr, 2)} of the random-operator value {full}.") : "has not saturated by the end of the run."));
             parts.Add($"Discarded weight: {EvolutionHeadlines.DiscardedText(evo)}.");
         }
         foreach (var x in h.Where(x => x.Name == EvolutionHeadlines.ButterflyVelocity || x.Name.StartsWith("size growth", StringComparison.Ordinal)))
@@ -254,7 +264,7 @@ public static class RunReport
                     finite ? "the front moves at a finite speed (the headline v_B)" : "the velocity is not resolved from zero"));
             }
             list.Add(new VerdictRow("growth regime of the mean size",
-                g.SizeLinear.Rate is double lr ? new Measured(lr, g.SizeLinear.RateError ?? double.NaN, "slope of the mean size", Win(g.SizeLinear.WindowStart, g.SizeLinear.WindowEnd), "sites/time") : Measured.Exact(double.NaN, "slope of the mean size"),
+                g.SizeLinear.Rate is double lr ? new Measured(lr, g.SizeLinear.RateError ?? double.NaN, "slope of the mean size", Win(g.SizeLinear.WindowStart, g.SizeLinear.WindowEnd), TimeUnits.For(r.Model.IsDriven).Velocity) : Measured.Exact(double.NaN, "slope of the mean size"),
                 "regime of the best fit", g.Regime, g.RegimeReason));
         }
         if (r.Krylov?.Growth is { } lg && headlines.FirstOrDefault(x => x.Name == LanczosSlope) is { } alpha)
@@ -593,6 +603,7 @@ public static class RunReport
             ["stopReason"] = r.StopReason,
             ["headline"] = r.Headlines.Select(h => new { name = h.Name, converged = h.Converged, note = h.Note, measured = M(h.Value) }).ToList(),
             ["scramblingTime"] = ScramblingTimeJson(r),
+            ["freeFermions"] = r.FreeFermion is { } ff ? new { modes = ff.Modes, majorana = ff.Majorana, majoranaNote = ff.MajoranaNote, energyMin = ff.Energies[0], energyMax = ff.Energies[^1], energies = ff.Energies, reason = ff.Reason, lightConeFile = "data/free_fermion_light_cone.csv" } : null,
             ["evolution"] = evo is null ? null : new
             {
                 completed = evo.Completed,

@@ -54,7 +54,8 @@ public static partial class ScramblingRun
             model.Name, model.N, model.Hamiltonian.Terms.Count, probe, options.Effort.ToString().ToLowerInvariant(), folder);
 
         // ---- stage 2: evolution with the budget series
-        var (problem, evoOptions) = EvolutionInputs(model, probe, options, preset);
+        var (problem, evoOptions, budgetNote) = EvolutionInputs(model, probe, options, preset);
+        if (budgetNote is not null) log?.LogInformation("{Note}", budgetNote);
         var geometry = GeometryOf(model);
         EvolutionResult? evo = null;
         var notes = new List<string>();
@@ -62,6 +63,7 @@ public static partial class ScramblingRun
         Report(options, "evolution", 0, $"{evoOptions.BudgetCount} budget(s) up to t = {evoOptions.Time.ToString("0.##", Inv)}");
         evo = OperatorEvolution.Run(problem, evoOptions, geometry, log, new EvolutionProgressAdapter(options.Progress), ct);
         timings["evolution"] = Lap(clock);
+        if (budgetNote is not null) notes.Add(budgetNote);
         notes.AddRange(evo.Notes);
         if (!evo.Completed) stop = "evolution: " + (evo.StopReason ?? "stopped");
         if (evo.Runs.Count > 0 && evo.Main.Records.Count > 0) files.AddRange(DataFiles.WriteEvolution(dataDir, evo).Select(f => "data/" + f));
@@ -127,7 +129,20 @@ public static partial class ScramblingRun
         // ---- stage 5b: the scrambling-time statement at the model's own N (measured, predicted or bound)
         OpGrowth.Sweeps.ScramblingTimeStatement? tstar = null;
         FrontStage? front = null;
-        if (!ct.IsCancellationRequested && stop is null)
+        FreeFermionStage? free = null;
+        // A model the battery finds free gets no scrambling time but its free-fermion figures (exact at any N).
+        if (diagnosis?.Overall is { Outcome: OpGrowth.Diagnosis.TestOutcome.Fails, Leading: OpGrowth.Diagnosis.Mechanism.FreeFermions } && !ct.IsCancellationRequested)
+        {
+            var times = evo.Main.Records.Count > 1 ? evo.Main.Records.Select(x => x.Time).ToArray() : Enumerable.Range(0, 41).Select(i => i * (options.Time ?? preset.Time) / 40).ToArray();
+            free = FreeFermionStage.TryRun(model, problem.Initial[0].String, times);
+            if (free is not null)
+            {
+                log?.LogInformation("{Free}", free.Text());
+                files.Add("data/" + DataFiles.WriteFreeFermion(dataDir, free));
+            }
+            timings["freeFermions"] = Lap(clock);
+        }
+        if (!ct.IsCancellationRequested && stop is null && free is null)
         {
             Report(options, "t* statement", 0, $"t* at N = {model.N}");
             try
@@ -199,6 +214,7 @@ public static partial class ScramblingRun
             Sweep = sweep,
             ScramblingTime = tstar,
             Front = front,
+            FreeFermion = free,
             Completed = stop is null,
             StopReason = stop,
             Cancelled = cancelled,
@@ -229,12 +245,30 @@ public static partial class ScramblingRun
         => model.Drive is { } d ? Math.Max(1, Math.Ceiling(time - 1e-9)) * d.Period : time;
 
     /// <summary>The evolution problem and options the pipeline uses for a model (also for tests and reruns).</summary>
-    public static (EvolutionProblem Problem, EvolutionOptions Options) EvolutionInputs(Model model, PauliString probe, ScramblingRunOptions options, EffortPreset preset)
+    public static (EvolutionProblem Problem, EvolutionOptions Options, string? BudgetNote) EvolutionInputs(Model model, PauliString probe, ScramblingRunOptions options, EffortPreset preset)
     {
         double time = AbsoluteTime(model, options.Time ?? preset.Time);
         double stepTime = model.Drive?.Period ?? preset.Dt;
         long steps = (long)Math.Ceiling(time / stepTime - 1e-9);
         var problem = ProblemOf(model, probe);
+        long maxStrings = preset.MaxStrings;
+        string? note = null;
+        // Many-term models (all-to-all, SYK): keep quick and standard within their time by lowering the string
+        // budget, never the time; the budget series then shows what truncation costs.
+        if (TargetEvolutionSeconds(options.Effort) is double target)
+        {
+            int terms = model.Drive is null ? model.Hamiltonian.Terms.Count : model.Drive.Layers.Sum(l => l.Count);
+            double estimate = EvolutionSecondsEstimate(terms, maxStrings, steps, preset.Budgets, options.Threads);
+            if (estimate > target)
+            {
+                long lowered = Math.Max(MinRunStrings, (long)(maxStrings * target / estimate) / 1000 * 1000);
+                if (lowered < maxStrings)
+                {
+                    note = FormattableString.Invariant($"string budget lowered from {maxStrings:N0} to {lowered:N0} so that the evolution stays near {target:0} s at this effort ({terms:N0} terms, {steps} steps; estimated {estimate:0} s at the full budget); a larger budget: --effort thorough");
+                    maxStrings = lowered;
+                }
+            }
+        }
         var evo = new EvolutionOptions
         {
             Method = IntegrationMethod.Trotter2,
@@ -243,9 +277,32 @@ public static partial class ScramblingRun
             RecordEvery = (int)Math.Clamp(steps / 60, 1, int.MaxValue),
             Threads = options.Threads,
             BudgetCount = preset.Budgets,
-            Truncation = new TruncationPolicy { MaxStrings = preset.MaxStrings, MemoryBytes = options.MemoryBytes },
+            Truncation = new TruncationPolicy { MaxStrings = maxStrings, MemoryBytes = options.MemoryBytes },
         };
-        return (problem, evo);
+        return (problem, evo, note);
+    }
+
+    /// <summary>The smallest string budget a run lowers to.</summary>
+    public const long MinRunStrings = 2_000;
+
+    /// <summary>Wall time the evolution aims at per effort (quick 45 s, standard 180 s; thorough: no target).</summary>
+    public static double? TargetEvolutionSeconds(RunEffort effort) => effort switch
+    {
+        RunEffort.Quick => 45,
+        RunEffort.Standard => 180,
+        _ => null,
+    };
+
+    /// <summary>
+    /// Upper estimate of the evolution's wall time: terms x strings x steps x 2 (second-order Trotter) over the budget
+    /// series (each budget half the previous), at 1.2e7 term-string updates per second per thread (measured on the
+    /// 2-core test machine: SYK of 20 Majoranas, 4,845 terms, about 2.4e7 per second on 2 threads under load).
+    /// </summary>
+    public static double EvolutionSecondsEstimate(int terms, long maxStrings, long steps, int budgets, int threads)
+    {
+        double series = 0;
+        for (int b = 0; b < Math.Max(1, budgets); b++) series += Math.Pow(0.5, b);
+        return (double)terms * maxStrings * series * steps * 2 / (1.2e7 * Math.Max(1, Math.Min(threads, Environment.ProcessorCount)));
     }
 
     /// <summary>The Lanczos options the pipeline uses (budgets are <see cref="EffortPreset.LanczosBudgets"/>, truncated mode).</summary>

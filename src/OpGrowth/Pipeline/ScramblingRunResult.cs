@@ -57,6 +57,8 @@ public sealed record ScramblingRunResult
     public OpGrowth.Sweeps.ScramblingTimeStatement? ScramblingTime { get; init; }
     /// <summary>The front engine's budget series, when the t* statement used it (chains).</summary>
     public FrontStage? Front { get; init; }
+    /// <summary>Free-fermion figures instead of a scrambling time, when the battery finds the model free (null otherwise).</summary>
+    public FreeFermionStage? FreeFermion { get; init; }
     /// <summary>The t*(N) stage (null when no sweep was requested or it did not start).</summary>
     public SweepStage? Sweep { get; init; }
     /// <summary>The overall answer, consistent with the diagnosis battery when it ran.</summary>
