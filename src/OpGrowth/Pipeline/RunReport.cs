@@ -20,7 +20,7 @@ public static class RunReport
     public static readonly IReadOnlyList<string> ResultKeys =
     [
         "format", "toolVersion", "created", "model", "options", "effort", "seeds", "threads", "completed", "stopReason",
-        "verdict", "headline", "scramblingTime", "evolution", "lanczos", "crossCheck", "diagnosis", "sweep", "verdicts", "checks", "cautions", "notes",
+        "verdict", "headline", "scramblingTime", "freeFermions", "evolution", "lanczos", "crossCheck", "diagnosis", "sweep", "verdicts", "checks", "cautions", "notes",
         "timingsSeconds", "files",
     ];
 
