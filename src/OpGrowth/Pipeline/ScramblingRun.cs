@@ -73,13 +73,16 @@ public static partial class ScramblingRun
         LanczosOptions? lzOptions = null;
         LanczosEstimate? lz = null;
         KrylovAnalysis? krylov = null;
-        if (options.RunLanczos && !ct.IsCancellationRequested && stop is null)
+        // A drive has no single generator: the Krylov recursion of the period-averaged Hamiltonian would describe a
+        // different dynamics (and the battery's test 2 says "not run" for drives), so run states the same.
+        if (options.RunLanczos && model.IsDriven)
+            notes.Add("Lanczos coefficients not computed: a periodic drive has no single generator (the period-averaged Hamiltonian describes other dynamics); the battery's test 2 is not run for drives either");
+        if (options.RunLanczos && !model.IsDriven && !ct.IsCancellationRequested && stop is null)
         {
             Report(options, "lanczos", 0, $"depth {preset.LanczosDepth}, budgets {string.Join("/", preset.LanczosBudgets)}");
             lzOptions = LanczosInputs(options, preset, ct);
             lz = LanczosStudy.Run(model, probe, LanczosMode.Truncated, lzOptions with { Logger = log }, preset.LanczosBudgets);
             if (lz.B.Count >= 3) krylov = KrylovAnalyzer.Analyze(lz, new KrylovAnalysisOptions());
-            if (model.IsDriven) notes.Add("driven model: the Lanczos coefficients are those of the period-averaged generator, not of the Floquet map");
             if (lz.Reference.StopReason == LanczosStopReason.Cancelled) stop = "lanczos: interrupted";
             files.AddRange(DataFiles.WriteLanczos(dataDir, lz, krylov).Select(f => "data/" + f));
             timings["lanczos"] = Lap(clock);

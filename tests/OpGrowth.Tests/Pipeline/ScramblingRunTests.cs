@@ -346,4 +346,90 @@ public class RunCommandTests
             if (Directory.Exists(dir)) Directory.Delete(dir, true);
         }
     }
+
+    /// <summary>
+    /// A periodic drive has no single generator: run computes no Lanczos coefficients for it (the battery's test 2
+    /// is not run for drives either) and says why in the notes, so run and diagnose rest on the same evidence.
+    /// </summary>
+    [Fact]
+    public void Execute_Drive_SkipsLanczosWithReason()
+    {
+        string dir = Path.Combine(Path.GetTempPath(), "og-drive-" + Guid.NewGuid().ToString("N"));
+        try
+        {
+            var r = ScramblingRun.Execute(new ScramblingRunOptions
+            {
+                Model = "kicked-ising", Overrides = new Dictionary<string, string> { ["N"] = "6" }, OutputFolder = dir, Effort = RunEffort.Quick, Threads = 2, RunExact = false, RunDiagnosis = false, Time = 3,
+            });
+            Assert.Null(r.Lanczos);
+            Assert.Contains(r.Notes, n => n.Contains("no single generator", StringComparison.Ordinal));
+            Assert.DoesNotContain(r.Headlines, h => h.Name == RunReport.LanczosSlope);
+        }
+        finally
+        {
+            if (Directory.Exists(dir)) Directory.Delete(dir, true);
+        }
+    }
+
+    /// <summary>
+    /// A model the battery finds free (transverse-field Ising: a line-graph frustration graph, Chapman and Flammia,
+    /// Quantum 4, 278 (2020)) gets no scrambling-time headline or statement, but the free-fermion figures: 2N
+    /// Majorana modes and a light cone whose weights sum to 1 at every time (R(t) is orthogonal).
+    /// </summary>
+    [Fact]
+    public void Execute_FreeModel_GivesFreeFermionFiguresInsteadOfTStar()
+    {
+        string dir = Path.Combine(Path.GetTempPath(), "og-free-" + Guid.NewGuid().ToString("N"));
+        try
+        {
+            var r = ScramblingRun.Execute(new ScramblingRunOptions
+            {
+                Model = "transverse-field-ising", Overrides = new Dictionary<string, string> { ["N"] = "8" }, OutputFolder = dir, Effort = RunEffort.Quick, Threads = 2, RunExact = false, RunLanczos = false,
+            });
+            Assert.Equal(OpGrowth.Diagnosis.Mechanism.FreeFermions, r.Diagnosis!.Overall.Leading);
+            var ff = Assert.IsType<FreeFermionStage>(r.FreeFermion);
+            Assert.Equal(16, ff.Modes);
+            Assert.Null(r.ScramblingTime);
+            Assert.DoesNotContain(r.Headlines, h => h.Name == EvolutionHeadlines.ScramblingTime);
+            for (int i = 0; i < ff.Times.Length; i++)
+            {
+                double sum = 0;
+                for (int b = 0; b < ff.Modes; b++) sum += ff.Weights[b, i];
+                Assert.Equal(1.0, sum, 10);
+            }
+            Assert.True(File.Exists(Path.Combine(dir, "data", "free_fermion_light_cone.csv")));
+            Assert.True(File.Exists(Path.Combine(dir, "figures", "free-fermion-light-cone.svg")));
+        }
+        finally
+        {
+            if (Directory.Exists(dir)) Directory.Delete(dir, true);
+        }
+    }
+
+    /// <summary>
+    /// A Majorana model (q = 4 SYK on 6 qubits = 12 Majoranas) states sizes in Majoranas: the saturation headline
+    /// against N of 2N Majoranas (a random operator's mean Majorana size), the growth rate in Majoranas per unit time.
+    /// </summary>
+    [Fact]
+    public void Execute_MajoranaModel_StatesSizesInMajoranas()
+    {
+        string dir = Path.Combine(Path.GetTempPath(), "og-syk-" + Guid.NewGuid().ToString("N"));
+        try
+        {
+            var r = ScramblingRun.Execute(new ScramblingRunOptions
+            {
+                Model = "syk4", Overrides = new Dictionary<string, string> { ["N"] = "6" }, OutputFolder = dir, Effort = RunEffort.Quick, Threads = 2, RunExact = false, RunLanczos = false, RunDiagnosis = false, Time = 6,
+            });
+            var sat = Assert.Single(r.Headlines, h => h.Name == EvolutionHeadlines.Saturation);
+            Assert.Equal("Majoranas", sat.Value.Unit);
+            Assert.Contains("N of 2N Majoranas", sat.Value.Definition, StringComparison.Ordinal);
+            // saturation of the Majorana size near N = 6 (random operator: 6 x 4^6 / (4^6 - 1))
+            Assert.InRange(sat.Value.Value, 4.5, 7.0);
+            Assert.Contains(r.Headlines, h => h.Name.StartsWith("size growth rate", StringComparison.Ordinal) && h.Value.Unit!.Contains("Majoranas", StringComparison.Ordinal));
+        }
+        finally
+        {
+            if (Directory.Exists(dir)) Directory.Delete(dir, true);
+        }
+    }
 }
