@@ -17,7 +17,7 @@ internal static class CommandHelp
         ("lanczos", "Lanczos coefficients b_n, growth class, C(t) and Krylov complexity K(t)"),
         ("exact", "exact state-vector engine at small N: OTOCs, finite temperature, level statistics"),
         ("compare", "the Pauli engine against the exact engine at small N (exit 4 on disagreement)"),
-        ("diagnose", "why a model does (not) scramble: the six-test diagnosis battery"),
+        ("diagnose", "why a model does (not) scramble: the seven-test diagnosis battery"),
         ("sweep", "t*(N) over sizes, parameters, seeds and probes; local or as a Slurm job array"),
         ("collect", "merge a sweep's results: tables, disorder averages, t*(N) fits"),
     ];

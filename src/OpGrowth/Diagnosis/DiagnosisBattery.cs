@@ -7,7 +7,7 @@ using OpGrowth.Models;
 namespace OpGrowth.Diagnosis;
 
 /// <summary>
-/// The diagnosis battery: six tests that together say whether a model scrambles and, if not, why.
+/// The diagnosis battery: seven tests that together say whether a model scrambles and, if not, why.
 /// 1 level statistics (small N), 2 Lanczos growth, 3 operator size and autocorrelation, 4 operator front,
 /// 5 conserved quantities and Mazur bounds, 6 finite temperature (small N). Each test returns a verdict
 /// with its figure, threshold and source; <see cref="VerdictRules"/> combines them.

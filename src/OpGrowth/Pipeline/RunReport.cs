@@ -286,7 +286,7 @@ public static class RunReport
             int no = d.Tests.Count(t => t.Outcome == OpGrowth.Diagnosis.TestOutcome.Fails);
             list.Insert(0, new VerdictRow("overall (diagnosis battery)",
                 Measured.Exact(yes, FormattableString.Invariant($"tests that say scrambles, of {ran} measured ({no} say fails)")),
-                "the battery's rules combine the six tests (see the diagnosis table)", r.Verdict!.Outcome, r.Verdict.Reason));
+                "the battery's rules combine the seven tests (see the diagnosis table)", r.Verdict!.Outcome, r.Verdict.Reason));
         }
         else
         {

@@ -105,7 +105,7 @@ public static partial class ScramblingRun
         if (options.RunDiagnosis && !ct.IsCancellationRequested && stop is null)
         {
             var dOptions = (options.Diagnosis ?? RunStages.DiagnosisFor(options.Effort, options.Threads)) with { Logger = options.DiagnosisLogger ?? log };
-            Report(options, "diagnosis", 0, $"six tests, small members N = {dOptions.LevelN}/{dOptions.ClusterN}/{dOptions.ThermalN}");
+            Report(options, "diagnosis", 0, $"seven tests, small members N = {dOptions.LevelN}/{dOptions.ClusterN}/{dOptions.ThermalN}");
             try
             {
                 diagnosis = RunStages.Diagnose(path, options.Overrides, model, dOptions, ct);
