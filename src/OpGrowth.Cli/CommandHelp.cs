@@ -18,6 +18,8 @@ internal static class CommandHelp
         ("exact", "exact state-vector engine at small N: OTOCs, finite temperature, level statistics"),
         ("compare", "the Pauli engine against the exact engine at small N (exit 4 on disagreement)"),
         ("diagnose", "why a model does (not) scramble: the seven-test diagnosis battery"),
+        ("front", "the operator front on chains of any length (matrix-product engine, budget series of bond dimensions)"),
+        ("ensemble", "random circuits and Brownian counterparts at any N: size growth, light cone, t*(N)"),
         ("sweep", "t*(N) over sizes, parameters, seeds and probes; local or as a Slurm job array"),
         ("collect", "merge a sweep's results: tables, disorder averages, t*(N) fits"),
     ];
@@ -70,6 +72,18 @@ internal static class CommandHelp
             "opgrowth exact mixed-field-ising --set N=12 --probe Z_0 --times 0:6:31",
             "opgrowth exact mixed-field-ising --set N=10 --mode thermal --beta 0.2,0.5 --sites 5",
             "opgrowth exact mixed-field-ising --set N=12 --mode levels",
+            "opgrowth exact heisenberg-all-to-all --set N=16 --mode tstar --samples 1   # t* by search, cost logged first",
+        ],
+        ["front"] =
+        [
+            "opgrowth front mixed-field-ising --set N=200 --probe Z_0 --time 125 --bond-dimensions 16,32,64",
+            "opgrowth front demo/tilted-chain --time 10 --bond-dimensions 8,16,32",
+        ],
+        ["ensemble"] =
+        [
+            "opgrowth ensemble demo/device-brickwork          # a shipped random-circuit file",
+            "opgrowth ensemble circuits/all-to-all-pairs.toml --sweep 16,64,256,1024,4096,16384",
+            "opgrowth ensemble demo/tilted-chain --effort quick   # the model's Brownian counterpart",
         ],
         ["compare"] =
         [
@@ -79,9 +93,9 @@ internal static class CommandHelp
         ["sweep"] =
         [
             "opgrowth sweep models/sweeps/demo-chains.sweep --jobs 2",
-            "opgrowth sweep --model mixed-field-ising --sizes 8:24:4 --probe Z_0 --results out/ising",
+            "opgrowth sweep --model mixed-field-ising --sizes 8:24:4 --probe Z_0 --out out/ising",
             "opgrowth sweep plan.toml --slurm-script sweep.sbatch --submit --wait",
-            "opgrowth sweep plan.toml --results /shared/run1 --task-index 7",
+            "opgrowth sweep plan.toml --out /shared/run1 --task-index 7",
         ],
         ["collect"] =
         [

@@ -34,8 +34,7 @@ internal static class EnsembleCommand
         var cmd = new Command("ensemble",
             "Random-circuit and Brownian (white-noise) counterparts, averaged exactly up to sampling error at any N: mean size and size distribution " +
             "against time, light cone, v_B, growth rate, t*, optionally t*(N) with both fits. A circuit file gives Haar-random circuits (sampled with " +
-            "random Clifford gates, a unitary 2-design); a model file gives its Brownian counterpart. See docs/ensembles.md.\n\n" +
-            "Examples:\n  opgrowth ensemble demo/device-brickwork\n  opgrowth ensemble circuits/all-to-all-pairs.toml --sweep 16,64,256,1024,4096,16384\n  opgrowth ensemble demo/tilted-chain --effort quick")
+            "random Clifford gates, a unitary 2-design); a model file gives its Brownian counterpart. See docs/ensembles.md.")
         {
             input, set, outDir, effort, samples, seed, threads, time, noise, method, sweep,
         };

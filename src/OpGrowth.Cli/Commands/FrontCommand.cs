@@ -33,8 +33,7 @@ internal static class FrontCommand
         var cmd = new Command("front",
             "The operator front on chains of any length (tested to 1000 sites): the operator as a matrix product in the Pauli basis, evolved by second-order sweeps of " +
             "two-site gates and truncated to a bond dimension. A budget series of bond dimensions gives every arrival time its truncation uncertainty and the distance " +
-            "where the budgets part; truncation behind the front does not hold the front back (unlike the Pauli-string budget).\n\n" +
-            "Examples:\n  opgrowth front mixed-field-ising --set N=200 --probe Z_0 --time 125 --bond-dimensions 16,32,64\n  opgrowth front demo/tilted-chain --time 10 --bond-dimensions 8,16,32")
+            "where the budgets part; truncation behind the front does not hold the front back (unlike the Pauli-string budget).")
         {
             model, set, probe, time, dt, every, bonds, fraction, threads, outDir,
         };

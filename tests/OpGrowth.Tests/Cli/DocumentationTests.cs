@@ -55,6 +55,15 @@ public class DocumentationTests
 
     public static IEnumerable<object[]> CommandLines()
     {
+        // the examples every --help prints
+        foreach (var (command, lines) in OpGrowth.Cli.CommandHelp.Examples)
+            for (int i = 0; i < lines.Length; i++)
+            {
+                string l = lines[i];
+                int at = l.IndexOf(" #", StringComparison.Ordinal);
+                if (at >= 0) l = l[..at].Trim();
+                yield return ["CommandHelp." + command, i + 1, l];
+            }
         foreach (string file in Documents())
         {
             var lines = File.ReadAllLines(file);
