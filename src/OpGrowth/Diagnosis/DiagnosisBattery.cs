@@ -147,7 +147,8 @@ public static class DiagnosisBattery
         }
 
         tests.Sort((a, b) => a.Number.CompareTo(b.Number));
-        var overall = VerdictRules.Decide(tests, spreading, model.IsDriven, conserved);
+        bool disorderedShortRange = model.IsDisordered && model.Lattice.Kind != "all-to-all";
+        var overall = VerdictRules.Decide(tests, spreading, model.IsDriven, conserved, disorderedShortRange);
         if (model.IsDisordered) caveats.Add("random couplings: one disorder realisation per size, and the smaller members draw their own couplings");
         caveats.Add($"tests 1, 5 and 6 and the operator-size saturation of test 3 use smaller members of the family (N = {Math.Min(model.N, levelN)}, {Math.Min(model.N, options.ClusterN)}, {Math.Min(model.N, options.ThermalN)}, {Math.Min(model.N, options.SizeN)}); finite-size effects are strong there");
         if (spreading is not null && spreading.Runs.Any(r => r.Discarded[^1] > 0)) caveats.Add("tests 3 and 4 keep the top strings of the evolving operator; the discarded weight is reported per probe");

@@ -31,7 +31,11 @@ public static class VerdictRules
     /// <param name="spreading">Findings of tests 3-4 (front kind).</param>
     /// <param name="driven">True for a periodic drive (no Hamiltonian: the Lanczos test does not apply).</param>
     /// <param name="conserved">Findings of test 5 (Mazur bounds), when run.</param>
-    public static OverallVerdict Decide(IReadOnlyList<TestVerdict> tests, SpreadingFindings? spreading = null, bool driven = false, ConservedFindings? conserved = null)
+    /// <param name="disorderedShortRange">True for random couplings on a lattice with distances (not all-to-all): there
+    /// Poisson levels together with a local memory plateau are the signature of many-body localization (local integrals
+    /// of motion: Serbyn, Papic, Abanin, PRL 111, 127201 (2013); Huse, Nandkishore, Oganesyan, PRB 90, 174202 (2014);
+    /// Luitz, Laflorencie, Alet, PRB 91, 081103 (2015)), even when the truncated front cannot tell.</param>
+    public static OverallVerdict Decide(IReadOnlyList<TestVerdict> tests, SpreadingFindings? spreading = null, bool driven = false, ConservedFindings? conserved = null, bool disorderedShortRange = false)
     {
         ArgumentNullException.ThrowIfNull(tests);
         TestVerdict? T(int n) => tests.FirstOrDefault(t => t.Number == n);
@@ -92,11 +96,18 @@ public static class VerdictRules
         if (noFront && poisson) Add(Mechanism.Localized, 1, 2, "levels are Poisson");
         if (noFront && bounded) Add(Mechanism.Localized, 2, 1, "Lanczos coefficients stay bounded");
         if (noFront && plateau3) Add(Mechanism.Localized, 3, 1, "the autocorrelation keeps a plateau");
-        if (!noFront && poisson) Add(Mechanism.InteractingIntegrable, 1, 2, "levels are Poisson with every symmetry resolved");
+        // random couplings on a short-range lattice: Poisson levels and a local memory plateau mean localization
+        bool mbl = !noFront && poisson && plateau3 && disorderedShortRange && !ballistic;
+        if (mbl)
+        {
+            Add(Mechanism.Localized, 1, 2, "levels are Poisson in a disordered short-range model");
+            Add(Mechanism.Localized, 3, 1, "a local probe keeps a memory plateau far above its Mazur bound (local integrals of motion)");
+        }
+        if (!noFront && poisson && !mbl) Add(Mechanism.InteractingIntegrable, 1, 2, "levels are Poisson with every symmetry resolved");
         if (charges) Add(Mechanism.InteractingIntegrable, 5, 2, "local conserved charges outside the symmetry algebra exist");
         if (clawFree) Add(Mechanism.InteractingIntegrable, 7, 2, "the frustration graph is claw-free (a hierarchy of commuting charges)");
         if (sqrt) Add(Mechanism.InteractingIntegrable, 2, 1, "exact Lanczos coefficients grow like sqrt(n)");
-        if (plateau3 && !ballistic && !noFront) Add(Mechanism.Frozen, 3, 1, "single-site autocorrelations stay far above the Mazur bound");
+        if (plateau3 && !ballistic && !noFront && !mbl) Add(Mechanism.Frozen, 3, 1, "single-site autocorrelations stay far above the Mazur bound");
         if (frozen6 && !saturates && !ballistic) Add(Mechanism.Frozen, 6, 1, "autocorrelations freeze at low temperature");
         if (!noFront && bounded) Add(Mechanism.Localized, 2, 1, "Lanczos coefficients stay bounded");
 

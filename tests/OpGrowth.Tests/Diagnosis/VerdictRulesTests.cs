@@ -135,6 +135,28 @@ public class VerdictRulesTests
         Assert.Equal(TestOutcome.Fails, v.Outcome);
     }
 
+    /// <summary>
+    /// Many-body localization when the truncated front cannot tell (strongly disordered Heisenberg chain at the
+    /// standard effort): Poisson levels and a local memory plateau in a disordered short-range model are
+    /// localization (local integrals of motion; Luitz, Laflorencie, Alet, PRB 91, 081103 (2015)), not
+    /// interacting integrability; the same tests in a clean model stay interacting integrable.
+    /// </summary>
+    [Fact]
+    public void Decide_PoissonAndPlateauInDisorderedChain_IsLocalizedEvenWithoutAFront()
+    {
+        var t = Chaotic();
+        t[0] = T(1, TestOutcome.Fails, Poisson);
+        t[1] = T(2, TestOutcome.Inconclusive);
+        t[2] = T(3, TestOutcome.Fails, Mechanism.Frozen, Mechanism.Localized);
+        t[3] = T(4, TestOutcome.Inconclusive);
+        t[5] = T(6, TestOutcome.Inconclusive);
+        var disordered = VerdictRules.Decide(t, Front("irregular", 0.5), disorderedShortRange: true);
+        Assert.Equal(TestOutcome.Fails, disordered.Outcome);
+        Assert.Equal(Mechanism.Localized, disordered.Leading);
+        var clean = VerdictRules.Decide(t, Front("irregular", 0.5), disorderedShortRange: false);
+        Assert.Equal(Mechanism.InteractingIntegrable, clean.Leading);
+    }
+
     [Fact]
     public void Decide_BoundedLanczosWithoutStructure_IsNotCalledFree()
     {
