@@ -43,7 +43,7 @@ public class SlurmArrayTests(ITestOutputHelper output)
         string plan = kit.WritePlan(SweepTestKit.SyntheticPlan(sizes: "[8, 12, 16, 20]", seeds: "[0]", noise: 0).Replace("seeds = [0]\n", "", StringComparison.Ordinal));
         string dir = kit.Path("results");
         string script = kit.Path("sweep.sbatch");
-        var r = SweepTestKit.RunCli(TimeSpan.FromMinutes(4), "sweep", plan, "--results", dir, "--slurm-script", script, "--submit", "--wait", "--wait-minutes", "3");
+        var r = SweepTestKit.RunCli(TimeSpan.FromMinutes(4), "sweep", plan, "--out", dir, "--slurm-script", script, "--submit", "--wait", "--wait-minutes", "3");
         output.WriteLine(r.Stderr);
         output.WriteLine(r.Stdout);
         string job = r.Stdout.Split('\n')[0].Trim();
