@@ -5,7 +5,7 @@ namespace OpGrowth.Tests.Cli;
 
 /// <summary>
 /// The documentation shows what the code does: every complete model file in README.md and docs/*.md (a
-/// ```toml block with a [lattice] table and [[term]] or [[layer]] blocks) passes 'opgrowth check', and every
+/// ```toml block with a [lattice] table and [[term]] or [[layer]] blocks, or a [circuit] table) passes 'opgrowth check', and every
 /// command line quoted after "opgrowth " names a command and options that exist.
 /// </summary>
 public class DocumentationTests
@@ -18,7 +18,7 @@ public class DocumentationTests
             foreach (Match m in Regex.Matches(text, "```toml\n(.*?)```", RegexOptions.Singleline))
             {
                 string body = m.Groups[1].Value;
-                if (!body.Contains("[lattice]", StringComparison.Ordinal) || !(body.Contains("[[term]]", StringComparison.Ordinal) || body.Contains("[[layer]]", StringComparison.Ordinal))) continue;
+                if (!body.Contains("[lattice]", StringComparison.Ordinal) || !(body.Contains("[[term]]", StringComparison.Ordinal) || body.Contains("[[layer]]", StringComparison.Ordinal) || body.Contains("[circuit]", StringComparison.Ordinal))) continue;
                 int line = text[..m.Index].Count(c => c == '\n') + 1;
                 yield return [Path.GetRelativePath(RepoRoot(), file), line];
             }
