@@ -186,18 +186,7 @@ public static class ConservationCheck
         if (!f.ContainsHamiltonian) notes.Add("H itself has strings outside the search space (longer range or weight), so it is not among the operators searched");
         if (f.Gap < 1e-3 && f.Gap > 0) notes.Add(FormattableString.Invariant($"smallest non-zero singular value is only {f.Gap:G2} of the largest: the count of conserved operators may be fragile"));
         foreach (var c in f.Charges.Take(6)) notes.Add($"{c.Class}: {c.Operator}");
-        TestVerdict V(TestOutcome o, string reason, params Mechanism[] ev) => new()
-        {
-            Number = 5,
-            Name = Name,
-            Outcome = o,
-            Figure = figure,
-            Threshold = threshold,
-            Source = source,
-            Reason = reason,
-            Evidence = ev,
-            Notes = notes,
-        };
+        TestVerdict V(TestOutcome o, string reason, params Mechanism[] ev) => TestVerdict.Of(5, Name, figure, threshold, source, notes, o, reason, ev);
         if (top is not null && top.Bound >= DiagnosisThresholds.MazurSignificant)
         {
             var lead = top.Contributions.OrderByDescending(c => c.Share).First();

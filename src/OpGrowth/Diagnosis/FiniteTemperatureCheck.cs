@@ -308,18 +308,7 @@ public static class FiniteTemperatureCheck
         if (f.PlateauBySize.Count > 1)
             notes.Add("plateau by size: " + string.Join(", ", f.PlateauBySize.Select(b => string.Create(inv, $"N = {b.N}: {b.Plateau:0.000} +- {b.PlateauError:0.000}"))));
         notes.Add(string.Create(inv, $"small size N = {f.N}: finite-size effects are strong, and the lowest temperatures are reached only roughly"));
-        TestVerdict V(TestOutcome o, string reason, params Mechanism[] ev) => new()
-        {
-            Number = 6,
-            Name = Name,
-            Outcome = o,
-            Figure = figure,
-            Threshold = threshold,
-            Source = source,
-            Reason = reason,
-            Evidence = ev,
-            Notes = notes,
-        };
+        TestVerdict V(TestOutcome o, string reason, params Mechanism[] ev) => TestVerdict.Of(6, Name, figure, threshold, source, notes, o, reason, ev);
         // A frozen plateau matched by lattice-pattern order is a symmetry-broken phase, not a glass.
         static bool Frozen(ThermalPoint p) => p.Plateau - 2 * p.PlateauError >= DiagnosisThresholds.FrozenPlateau;
         static bool Ordered(ThermalPoint p) => double.IsFinite(p.Order) && p.Order >= DiagnosisThresholds.OrderShare * p.Plateau;

@@ -234,18 +234,7 @@ public static class LanczosGrowthCheck
         var notes = f.Probes.Where(p => !string.IsNullOrEmpty(p.StopMessage)).Select(p => $"{p.Probe}: {p.StopMessage}").ToList();
         foreach (var p in f.Probes.Where(p => p.DiscardedWeight > 0))
             notes.Add(string.Create(inv, $"{p.Probe}: truncation discarded weight {p.DiscardedWeight:G3} in total; b_n with budget spread above {MaxRelativeUncertainty:P0} were not used ({p.Used} of {p.B.Count} used)"));
-        TestVerdict V(TestOutcome o, string reason, params Mechanism[] ev) => new()
-        {
-            Number = 2,
-            Name = Name,
-            Outcome = o,
-            Figure = figure,
-            Threshold = threshold,
-            Source = source,
-            Reason = reason,
-            Evidence = ev,
-            Notes = notes,
-        };
+        TestVerdict V(TestOutcome o, string reason, params Mechanism[] ev) => TestVerdict.Of(2, Name, figure, threshold, source, notes, o, reason, ev);
         var bounded = f.Probes.FirstOrDefault(p => p.Kind == "bounded");
         if (bounded is not null)
         {

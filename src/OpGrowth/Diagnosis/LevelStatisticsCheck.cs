@@ -158,18 +158,7 @@ public static class LevelStatisticsCheck
             $"midpoint {f.Midpoint:F4} of Poisson {f.PoissonRatio:F4} and {wd} {f.WignerDysonRatio:F4}, at least {DiagnosisThresholds.LevelSigmas:0} error bars away");
         const string source = "Atas, Bogomolny, Giraud, Roux, PRL 110, 084101 (2013); 3 error bars: common practice";
         var notes = new List<string>(f.Warnings);
-        TestVerdict V(TestOutcome o, string reason, params Mechanism[] ev) => new()
-        {
-            Number = 1,
-            Name = Name,
-            Outcome = o,
-            Figure = figure,
-            Threshold = threshold,
-            Source = source,
-            Reason = reason,
-            Evidence = ev,
-            Notes = notes,
-        };
+        TestVerdict V(TestOutcome o, string reason, params Mechanism[] ev) => TestVerdict.Of(1, Name, figure, threshold, source, notes, o, reason, ev);
         if (f.Gaps < DiagnosisThresholds.MinimumGaps || !double.IsFinite(f.Error) || f.Error <= 0 || !double.IsFinite(f.MeanRatio))
         {
             return V(TestOutcome.NotRun, $"only {f.Gaps} gap ratios in the resolved sectors: too few for a verdict (at least {DiagnosisThresholds.MinimumGaps}; raise the effort for a larger member)");

@@ -363,18 +363,7 @@ public static class SpreadingCheck
             if (!s.SizeTrusted) notes.Add(string.Create(inv, $"{s.Probe}, N = {s.N}: truncation discarded {s.Discarded:0.###} of the weight; its late-time size is biased low and is not used for the size verdict{(trusted.Count == 0 ? " (used anyway: no exact run)" : string.Empty)}"));
             if (s.EarlyGrowth.IsExponential) notes.Add(string.Create(inv, $"{s.Probe}, N = {s.N}: size grows exponentially at early times, rate {s.EarlyGrowth.Rate:0.###} +- {s.EarlyGrowth.RateError:0.###} (t = {s.EarlyGrowth.WindowStart:0.##}..{s.EarlyGrowth.WindowEnd:0.##})"));
         }
-        TestVerdict V(TestOutcome o, string reason, params Mechanism[] ev) => new()
-        {
-            Number = 3,
-            Name = SizeName,
-            Outcome = o,
-            Figure = figure,
-            Threshold = threshold,
-            Source = source,
-            Reason = reason,
-            Evidence = ev,
-            Notes = notes,
-        };
+        TestVerdict V(TestOutcome o, string reason, params Mechanism[] ev) => TestVerdict.Of(3, SizeName, figure, threshold, source, notes, o, reason, ev);
         var plateau = sizes.Where(s => s.LateAutocorrelation - s.Mazur >= DiagnosisThresholds.PlateauExcess).MaxBy(s => s.LateAutocorrelation - s.Mazur);
         if (plateau is not null)
         {
@@ -429,17 +418,7 @@ public static class SpreadingCheck
         string threshold = string.Create(inv,
             $"front at rho_j >= {f.Threshold:0.###} ({DiagnosisThresholds.FrontFraction} x 3/4); ballistic when v_B > {DiagnosisThresholds.VelocitySigmas:0} standard errors and r = v t + c fits at least as well as r = a + b ln t (or the front crossed the system); stalled when it has not crossed and did not advance in the second half of the run; no front when it never passes distance {DiagnosisThresholds.StalledFrontDistance}; a logarithmic, stalled or absent front counts only with discarded weight <= {DiagnosisThresholds.FrontMaxDiscarded}");
         const string source = "conventions.md (front and v_B fit); v_B = 0 for the disordered XX chain (check-values.md); thresholds: common practice";
-        TestVerdict V(TestOutcome o, string reason, params Mechanism[] ev) => new()
-        {
-            Number = 4,
-            Name = FrontName,
-            Outcome = o,
-            Figure = figure,
-            Threshold = threshold,
-            Source = source,
-            Reason = reason,
-            Evidence = ev,
-        };
+        TestVerdict V(TestOutcome o, string reason, params Mechanism[] ev) => TestVerdict.Of(4, FrontName, figure, threshold, source, null, o, reason, ev);
         // A top-M string budget also stops fronts: a localization reading (logarithmic, stalled or no front)
         // counts only when truncation kept the weight, as for the other branches.
         if (f.Kind is "logarithmic" or "stalled" or "none" && f.Discarded > DiagnosisThresholds.FrontMaxDiscarded)

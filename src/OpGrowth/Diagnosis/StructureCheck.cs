@@ -116,18 +116,7 @@ public static class StructureCheck
         var notes = new List<string>(f.Notes);
         if (f.MajoranaModes is int m) notes.Add(FormattableString.Invariant($"free-fermion map: {m} Majorana modes; single-particle energies {f.SingleParticleMin:G4} to {f.SingleParticleMax:G4}; {string.Join("; ", f.MajoranaMap)}{(f.Terms > f.MajoranaMap.Count ? "; ..." : string.Empty)}"));
         if (f.ConservedExamples.Count > 0) notes.Add($"conserved strings: {string.Join(", ", f.ConservedExamples)}{(f.ConservedStrings > f.ConservedExamples.Count ? ", ..." : string.Empty)}");
-        TestVerdict V(TestOutcome o, string reason, params Mechanism[] ev) => new()
-        {
-            Number = Number,
-            Name = Name,
-            Outcome = o,
-            Figure = figure,
-            Threshold = threshold,
-            Source = source,
-            Reason = reason,
-            Evidence = ev,
-            Notes = notes,
-        };
+        TestVerdict V(TestOutcome o, string reason, params Mechanism[] ev) => TestVerdict.Of(Number, Name, figure, threshold, source, notes, o, reason, ev);
         if (f.Commuting)
             return V(TestOutcome.Fails, "every term commutes with every other: each term is conserved and an operator only ever reaches the terms that touch it", Mechanism.Commuting);
         if (f.GraphClass == "line graph")

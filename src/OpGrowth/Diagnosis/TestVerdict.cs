@@ -38,6 +38,21 @@ public sealed record TestVerdict
     public double Seconds { get; init; }
 
     /// <summary>A verdict for a test that did not run (not applicable, skipped, or failed to run).</summary>
+    /// <summary>A verdict of a test whose figure, threshold, source and notes are settled: only the outcome, reason and evidence vary.</summary>
+    public static TestVerdict Of(int number, string name, string figure, string threshold, string source, IReadOnlyList<string>? notes,
+        TestOutcome outcome, string reason, IReadOnlyList<Mechanism> evidence) => new()
+    {
+        Number = number,
+        Name = name,
+        Outcome = outcome,
+        Figure = figure,
+        Threshold = threshold,
+        Source = source,
+        Reason = reason,
+        Evidence = evidence,
+        Notes = notes ?? [],
+    };
+
     public static TestVerdict NotRun(int number, string name, string reason, double seconds = 0) => new()
     {
         Number = number,

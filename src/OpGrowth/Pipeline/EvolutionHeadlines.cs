@@ -102,9 +102,8 @@ public static class EvolutionHeadlines
                 : (g.SizeLinear, pre + "izeGrowthRateLinear", "size growth rate dn/dt");
             if (fit.Rate is double rate)
             {
-                string velocity = maj ? u.Velocity.Replace("sites", "Majoranas", StringComparison.Ordinal) : u.Velocity;
                 list.Add(Make(label, new Measured(rate, Q(fit.RateError, C(key)?.Movement), $"fit of the mean {(maj ? "Majorana " : "")}size ({g.Regime} regime); {inQuadrature}",
-                    Win(fit.WindowStart, fit.WindowEnd), expo ? u.Rate : velocity), key));
+                    Win(fit.WindowStart, fit.WindowEnd), expo ? u.Rate : u.SizePerTime(maj ? "Majoranas" : "sites")), key));
             }
         }
         bool majorana = fig.MajoranaScramblingTime is not null;

@@ -20,6 +20,9 @@ public static class AxisText
 /// </summary>
 public sealed record TimeUnits(string Time, string Rate, string Velocity)
 {
+    /// <summary>A size (in <paramref name="sizeUnit"/>, e.g. "Majoranas") per unit time: the unit of dn/dt.</summary>
+    public string SizePerTime(string sizeUnit) => Velocity.Replace("sites", sizeUnit, StringComparison.Ordinal);
+
     /// <summary>Hamiltonian models.</summary>
     public static readonly TimeUnits Hamiltonian = new("1/J", "J", "sites·J");
 

@@ -299,30 +299,24 @@ public class RunCommandTests
     [Fact]
     public void RunCommand_QuickSmallModel_ExitsZeroAndWritesReport()
     {
-        string dir = Path.Combine(Path.GetTempPath(), "opgrowth-run-cli-" + Guid.NewGuid().ToString("N"));
-        try
+        using var temp = new TempFolder("opgrowth-run-cli-");
+        string dir = temp.Path;
+        var o = new StringWriter();
+        var e = new StringWriter();
+        int code = OpGrowth.Cli.Program.Run(["run", "mixed-field-ising", "--set", "N=8", "--effort", "quick", "--no-lanczos", "--no-diagnosis", "--threads", "2", "--out", dir], o, e);
+        Assert.True(code == 0, e.ToString());
+        Assert.Contains("scrambling time t*", o.ToString());
+        Assert.Contains("verdict: ", o.ToString());
+        Assert.Contains("discarded weight: ", o.ToString());
+        using (var doc = JsonDocument.Parse(File.ReadAllBytes(Path.Combine(dir, "results.json"))))
         {
-            var o = new StringWriter();
-            var e = new StringWriter();
-            int code = OpGrowth.Cli.Program.Run(["run", "mixed-field-ising", "--set", "N=8", "--effort", "quick", "--no-lanczos", "--no-diagnosis", "--threads", "2", "--out", dir], o, e);
-            Assert.True(code == 0, e.ToString());
-            Assert.Contains("scrambling time t*", o.ToString());
-            Assert.Contains("verdict: ", o.ToString());
-            Assert.Contains("discarded weight: ", o.ToString());
-            using (var doc = JsonDocument.Parse(File.ReadAllBytes(Path.Combine(dir, "results.json"))))
-            {
-                Assert.False(doc.RootElement.GetProperty("diagnosis").GetProperty("ran").GetBoolean());
-                Assert.Equal("evolution", doc.RootElement.GetProperty("verdict").GetProperty("source").GetString());
-            }
-            Assert.False(File.Exists(Path.Combine(dir, "data", "diagnosis.json")));
-            Assert.True(File.Exists(Path.Combine(dir, "report.html")));
-            Assert.True(File.Exists(Path.Combine(dir, "results.json")));
-            Assert.False(File.Exists(Path.Combine(dir, "data", "lanczos.csv")));
+            Assert.False(doc.RootElement.GetProperty("diagnosis").GetProperty("ran").GetBoolean());
+            Assert.Equal("evolution", doc.RootElement.GetProperty("verdict").GetProperty("source").GetString());
         }
-        finally
-        {
-            if (Directory.Exists(dir)) Directory.Delete(dir, true);
-        }
+        Assert.False(File.Exists(Path.Combine(dir, "data", "diagnosis.json")));
+        Assert.True(File.Exists(Path.Combine(dir, "report.html")));
+        Assert.True(File.Exists(Path.Combine(dir, "results.json")));
+        Assert.False(File.Exists(Path.Combine(dir, "data", "lanczos.csv")));
     }
 
     [Fact]
@@ -330,21 +324,15 @@ public class RunCommandTests
     {
         // The square model is sized by its width and height (no parameter N): the cross-check now takes the
         // largest member of at most the exact size, shrinking one direction, and compares the engines on it.
-        string dir = Path.Combine(Path.GetTempPath(), "opgrowth-run-cli-" + Guid.NewGuid().ToString("N"));
-        try
+        using var temp = new TempFolder("opgrowth-run-cli-");
+        string dir = temp.Path;
+        var r = ScramblingRun.Execute(new ScramblingRunOptions
         {
-            var r = ScramblingRun.Execute(new ScramblingRunOptions
-            {
-                Model = "square-ising", Overrides = new Dictionary<string, string>(), OutputFolder = dir, Effort = RunEffort.Quick, Threads = 2, RunLanczos = false, RunDiagnosis = false, Time = 0.5,
-            });
-            Assert.True(r.CrossCheck!.Ran, r.CrossCheck.SkipReason);
-            Assert.True(r.CrossCheck.N <= 8 && r.CrossCheck.N >= 6, $"member of {r.CrossCheck.N} sites");
-            Assert.True(r.CrossCheck.MaxOtocDifference < 1e-6);
-        }
-        finally
-        {
-            if (Directory.Exists(dir)) Directory.Delete(dir, true);
-        }
+            Model = "square-ising", Overrides = new Dictionary<string, string>(), OutputFolder = dir, Effort = RunEffort.Quick, Threads = 2, RunLanczos = false, RunDiagnosis = false, Time = 0.5,
+        });
+        Assert.True(r.CrossCheck!.Ran, r.CrossCheck.SkipReason);
+        Assert.True(r.CrossCheck.N <= 8 && r.CrossCheck.N >= 6, $"member of {r.CrossCheck.N} sites");
+        Assert.True(r.CrossCheck.MaxOtocDifference < 1e-6);
     }
 
     /// <summary>
@@ -354,21 +342,15 @@ public class RunCommandTests
     [Fact]
     public void Execute_Drive_SkipsLanczosWithReason()
     {
-        string dir = Path.Combine(Path.GetTempPath(), "og-drive-" + Guid.NewGuid().ToString("N"));
-        try
+        using var temp = new TempFolder("og-drive-");
+        string dir = temp.Path;
+        var r = ScramblingRun.Execute(new ScramblingRunOptions
         {
-            var r = ScramblingRun.Execute(new ScramblingRunOptions
-            {
-                Model = "kicked-ising", Overrides = new Dictionary<string, string> { ["N"] = "6" }, OutputFolder = dir, Effort = RunEffort.Quick, Threads = 2, RunExact = false, RunDiagnosis = false, Time = 3,
-            });
-            Assert.Null(r.Lanczos);
-            Assert.Contains(r.Notes, n => n.Contains("no single generator", StringComparison.Ordinal));
-            Assert.DoesNotContain(r.Headlines, h => h.Name == RunReport.LanczosSlope);
-        }
-        finally
-        {
-            if (Directory.Exists(dir)) Directory.Delete(dir, true);
-        }
+            Model = "kicked-ising", Overrides = new Dictionary<string, string> { ["N"] = "6" }, OutputFolder = dir, Effort = RunEffort.Quick, Threads = 2, RunExact = false, RunDiagnosis = false, Time = 3,
+        });
+        Assert.Null(r.Lanczos);
+        Assert.Contains(r.Notes, n => n.Contains("no single generator", StringComparison.Ordinal));
+        Assert.DoesNotContain(r.Headlines, h => h.Name == RunReport.LanczosSlope);
     }
 
     /// <summary>
@@ -379,31 +361,25 @@ public class RunCommandTests
     [Fact]
     public void Execute_FreeModel_GivesFreeFermionFiguresInsteadOfTStar()
     {
-        string dir = Path.Combine(Path.GetTempPath(), "og-free-" + Guid.NewGuid().ToString("N"));
-        try
+        using var temp = new TempFolder("og-free-");
+        string dir = temp.Path;
+        var r = ScramblingRun.Execute(new ScramblingRunOptions
         {
-            var r = ScramblingRun.Execute(new ScramblingRunOptions
-            {
-                Model = "transverse-field-ising", Overrides = new Dictionary<string, string> { ["N"] = "8" }, OutputFolder = dir, Effort = RunEffort.Quick, Threads = 2, RunExact = false, RunLanczos = false,
-            });
-            Assert.Equal(OpGrowth.Diagnosis.Mechanism.FreeFermions, r.Diagnosis!.Overall.Leading);
-            var ff = Assert.IsType<FreeFermionStage>(r.FreeFermion);
-            Assert.Equal(16, ff.Modes);
-            Assert.Null(r.ScramblingTime);
-            Assert.DoesNotContain(r.Headlines, h => h.Name == EvolutionHeadlines.ScramblingTime);
-            for (int i = 0; i < ff.Times.Length; i++)
-            {
-                double sum = 0;
-                for (int b = 0; b < ff.Modes; b++) sum += ff.Weights[b, i];
-                Assert.Equal(1.0, sum, 10);
-            }
-            Assert.True(File.Exists(Path.Combine(dir, "data", "free_fermion_light_cone.csv")));
-            Assert.True(File.Exists(Path.Combine(dir, "figures", "free-fermion-light-cone.svg")));
-        }
-        finally
+            Model = "transverse-field-ising", Overrides = new Dictionary<string, string> { ["N"] = "8" }, OutputFolder = dir, Effort = RunEffort.Quick, Threads = 2, RunExact = false, RunLanczos = false,
+        });
+        Assert.Equal(OpGrowth.Diagnosis.Mechanism.FreeFermions, r.Diagnosis!.Overall.Leading);
+        var ff = Assert.IsType<FreeFermionStage>(r.FreeFermion);
+        Assert.Equal(16, ff.Modes);
+        Assert.Null(r.ScramblingTime);
+        Assert.DoesNotContain(r.Headlines, h => h.Name == EvolutionHeadlines.ScramblingTime);
+        for (int i = 0; i < ff.Times.Length; i++)
         {
-            if (Directory.Exists(dir)) Directory.Delete(dir, true);
+            double sum = 0;
+            for (int b = 0; b < ff.Modes; b++) sum += ff.Weights[b, i];
+            Assert.Equal(1.0, sum, 10);
         }
+        Assert.True(File.Exists(Path.Combine(dir, "data", "free_fermion_light_cone.csv")));
+        Assert.True(File.Exists(Path.Combine(dir, "figures", "free-fermion-light-cone.svg")));
     }
 
     /// <summary>
@@ -413,23 +389,30 @@ public class RunCommandTests
     [Fact]
     public void Execute_MajoranaModel_StatesSizesInMajoranas()
     {
-        string dir = Path.Combine(Path.GetTempPath(), "og-syk-" + Guid.NewGuid().ToString("N"));
-        try
+        using var temp = new TempFolder("og-syk-");
+        string dir = temp.Path;
+        var r = ScramblingRun.Execute(new ScramblingRunOptions
         {
-            var r = ScramblingRun.Execute(new ScramblingRunOptions
-            {
-                Model = "syk4", Overrides = new Dictionary<string, string> { ["N"] = "6" }, OutputFolder = dir, Effort = RunEffort.Quick, Threads = 2, RunExact = false, RunLanczos = false, RunDiagnosis = false, Time = 6,
-            });
-            var sat = Assert.Single(r.Headlines, h => h.Name == EvolutionHeadlines.Saturation);
-            Assert.Equal("Majoranas", sat.Value.Unit);
-            Assert.Contains("N of 2N Majoranas", sat.Value.Definition, StringComparison.Ordinal);
-            // saturation of the Majorana size near N = 6 (random operator: 6 x 4^6 / (4^6 - 1))
-            Assert.InRange(sat.Value.Value, 4.5, 7.0);
-            Assert.Contains(r.Headlines, h => h.Name.StartsWith("size growth rate", StringComparison.Ordinal) && h.Value.Unit!.Contains("Majoranas", StringComparison.Ordinal));
-        }
-        finally
-        {
-            if (Directory.Exists(dir)) Directory.Delete(dir, true);
-        }
+            Model = "syk4", Overrides = new Dictionary<string, string> { ["N"] = "6" }, OutputFolder = dir, Effort = RunEffort.Quick, Threads = 2, RunExact = false, RunLanczos = false, RunDiagnosis = false, Time = 6,
+        });
+        var sat = Assert.Single(r.Headlines, h => h.Name == EvolutionHeadlines.Saturation);
+        Assert.Equal("Majoranas", sat.Value.Unit);
+        Assert.Contains("N of 2N Majoranas", sat.Value.Definition, StringComparison.Ordinal);
+        // saturation of the Majorana size near N = 6 (random operator: 6 x 4^6 / (4^6 - 1))
+        Assert.InRange(sat.Value.Value, 4.5, 7.0);
+        Assert.Contains(r.Headlines, h => h.Name.StartsWith("size growth rate", StringComparison.Ordinal) && h.Value.Unit!.Contains("Majoranas", StringComparison.Ordinal));
+    }
+}
+
+/// <summary>A fresh folder under the system temp folder, deleted with everything in it on dispose.</summary>
+internal sealed class TempFolder : IDisposable
+{
+    public TempFolder(string prefix) => Path = System.IO.Path.Combine(System.IO.Path.GetTempPath(), prefix + Guid.NewGuid().ToString("N"));
+
+    public string Path { get; }
+
+    public void Dispose()
+    {
+        if (Directory.Exists(Path)) Directory.Delete(Path, true);
     }
 }
