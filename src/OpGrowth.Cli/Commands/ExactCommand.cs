@@ -98,7 +98,8 @@ internal static class ExactCommand
         int samples = ParseInt(s.Samples, "--samples", 1, 10_000);
         int th = threads > 0 ? threads : Environment.ProcessorCount;
         Model? small = n > 12 && model.Parameters.ContainsKey("N") ? ModelLoader.Load(path, new Dictionary<string, string>(overrides) { ["N"] = "12" }, lenient: true) : null;
-        var est = ScramblingTimeCost.Estimate(model.Hamiltonian, small?.Hamiltonian, Math.Min(times[^1], ScramblingTimeSearch.FirstTime(model.Hamiltonian, w) * 4), samples, ScramblingTimeSearch.VectorsPerState(n, blocks, groups), th);
+        Model? timing = n > ScramblingTimeCost.TimedLimit && model.Parameters.ContainsKey("N") ? ModelLoader.Load(path, new Dictionary<string, string>(overrides) { ["N"] = ScramblingTimeCost.TimedLimit.ToString(System.Globalization.CultureInfo.InvariantCulture) }, lenient: true) : null;
+        var est = ScramblingTimeCost.Estimate(model.Hamiltonian, small?.Hamiltonian, Math.Min(times[^1], ScramblingTimeSearch.FirstTime(model.Hamiltonian, w) * 4), samples, ScramblingTimeSearch.VectorsPerState(n, blocks, groups), th, siteBlocks: blocks, timing: timing?.Hamiltonian);
         log.LogInformation("estimated cost: {Seconds:0} s and {Gib:0.##} GiB on {Threads} thread(s) ({Basis}; t* assumed {T:0.##}, a rough first guess)", est.Seconds, est.Bytes / 1073741824.0, th, est.Basis, est.TStar);
         var r = ScramblingTimeSearch.Run(model.Hamiltonian, new ScramblingTimeSearchOptions
         {

@@ -21,52 +21,83 @@ public sealed record ScramblingTimeEstimate(double Seconds, long Bytes, long App
 /// </summary>
 /// <remarks>
 /// The typical search evaluates at about 0.5, 0.8, 1.05 and 1.0 t* (measured: 3 to 5 evaluations), with forward
-/// increments that add up to about t*. Seconds per application come from timing the same model at a smaller
-/// size and scaling by the amplitude updates (2^N times the number of X-mask groups plus the diagonal); the half
-/// width from a Lanczos estimate at the smaller size scaled by N (extensive energies). Both are estimates: the
-/// measured ratio of actual to estimated time is quoted in docs/exact-engine.md.
+/// increments that add up to about t*. Seconds per application are timed on the target N itself up to
+/// <see cref="TimedLimit"/> qubits (a 64 MiB vector), in the search's own arrangement (two single-thread propagations
+/// side by side when it splits, so memory-bandwidth contention is in the figure), and beyond that at the limit scaled
+/// by the amplitude updates (2^N times the number of X-mask groups plus the diagonal). Timing a small member instead
+/// (N = 12, as before) overestimated the all-to-all cluster by 4-5x (fixed per-group costs dominate small vectors)
+/// and underestimated SYK (its coefficient tables fall out of cache at larger N). The half width comes from a
+/// Lanczos estimate at the smaller size scaled by N (extensive energies). Memory is the search's own
+/// <see cref="ScramblingTimeSearch.PlannedVectorBytes"/> plus the appliers' diagonals and a fixed reserve. Measured
+/// ratios of actual to estimated time are quoted in docs/exact-engine.md.
 /// </remarks>
 public static class ScramblingTimeCost
 {
+    /// <summary>Largest N timed directly (one vector of 2^22 amplitudes is 64 MiB).</summary>
+    public const int TimedLimit = 22;
+
     /// <summary>Relative times of the evaluations of a typical search, and of its forward increments, in units of t*.</summary>
     private static readonly double[] BackwardTimes = [0.5, 0.8, 1.05, 1.0];
     private static readonly double[] ForwardTimes = [0.5, 0.3, 0.2];
 
     /// <summary>
     /// Estimates a search on <paramref name="h"/> (at the target N) from a smaller member <paramref name="small"/> of the
-    /// same family (used for timing and the spectral width; null: time <paramref name="h"/> itself).
+    /// same family (used for the spectral width, and for timing when N is above <see cref="TimedLimit"/> and no
+    /// <paramref name="timing"/> member is given; null: <paramref name="h"/> itself). <paramref name="siteBlocks"/>
+    /// says whether the vectors per state are site blocks (no probe-group diagonals) or random-sign probe groups.
     /// </summary>
-    public static ScramblingTimeEstimate Estimate(Hamiltonian h, Hamiltonian? small, double tStar, int samples, int vectorsPerState, int threads, double tolerance = 1e-8)
+    public static ScramblingTimeEstimate Estimate(Hamiltonian h, Hamiltonian? small, double tStar, int samples, int vectorsPerState, int threads, double tolerance = 1e-8, bool siteBlocks = false, Hamiltonian? timing = null)
     {
         ArgumentNullException.ThrowIfNull(h);
         if (!(tStar > 0)) throw new ArgumentOutOfRangeException(nameof(tStar), tStar, "t* must be positive.");
+        threads = Math.Max(1, threads);
         var probeH = small ?? h;
-        var app = new PauliHamiltonianApplier(probeH, 1);
-        double units = Units(probeH.N, CountGroups(probeH));
-        var psi = StateVector.Create(probeH.N);
-        StateVector.FillHaarRandom(psi, new Random(1));
-        var o = new Complex[psi.Length];
-        app.Apply(psi, o);
-        int reps = Math.Max(2, (int)Math.Min(50, 2e7 / units));
-        var sw = Stopwatch.StartNew();
-        for (int r = 0; r < reps; r++) app.Apply(psi, o);
-        double perUnit = sw.Elapsed.TotalSeconds / reps / units;
-        var bounds = SpectralBounds.Estimate(app, steps: 40);
+        var timedH = timing ?? (h.N <= TimedLimit ? h : probeH);
+        long dim = 1L << h.N;
+        bool split = threads >= 2 && dim >= StateVector.ParallelThreshold;
+        double perTimed = TimeApplication(timedH, split, threads);
+        double perApp = perTimed * Units(h.N, CountGroups(h)) / Units(timedH.N, CountGroups(timedH));
+        var bounds = SpectralBounds.Estimate(new PauliHamiltonianApplier(probeH, 1), steps: 40);
         double rho = bounds.HalfWidth * h.N / probeH.N;
-        int groupsN = CountGroups(h);
-        double perApp = perUnit * Units(h.N, groupsN);
         double x = rho * tStar;
         double perVector = BackwardTimes.Sum(f => Terms(f * x, tolerance)) + ForwardTimes.Sum(f => Terms(f * x, tolerance));
         long vectors = (long)vectorsPerState * samples;
         long apps = (long)Math.Ceiling(vectors * perVector) + 60;
-        int parallel = threads >= 2 ? 2 : 1;
-        double seconds = vectors * perVector * perApp / parallel + 60 * perApp / Math.Max(1, threads * 0.8);
-        long dim = 1L << h.N;
-        long bytes = (2L * vectors + 13) * dim * 16 + 3 * dim * 8 + (96L << 20);
-        string basis = small is null
-            ? $"timed at N = {h.N}"
-            : $"H timed and its spectral width estimated at N = {small.N}, scaled to N = {h.N}";
+        double seconds = (vectors * perVector + 60) * perApp;
+        long bytes = ScramblingTimeSearch.PlannedVectorBytes(h.N, siteBlocks, vectorsPerState, samples, threads)
+            + (split ? 3 : 1) * dim * 8 + (96L << 20);
+        string basis = timedH.N == h.N
+            ? (small is null ? $"timed at N = {h.N}" : $"H timed at N = {h.N}, its spectral width estimated at N = {small.N} and scaled")
+            : $"H timed at N = {timedH.N} and its spectral width estimated at N = {probeH.N}, scaled to N = {h.N}";
         return new ScramblingTimeEstimate(seconds, bytes, apps, rho, tStar, perApp, basis);
+    }
+
+    // Wall seconds per application of H as the search does it: with split, two single-thread appliers on two vectors
+    // at the same time (per application: half the wall time of the pair); otherwise one applier on all threads.
+    private static double TimeApplication(Hamiltonian h, bool split, int threads)
+    {
+        int n = h.N;
+        var psi = new[] { StateVector.Create(n), StateVector.Create(n) };
+        var outs = new[] { new Complex[psi[0].Length], new Complex[psi[0].Length] };
+        StateVector.FillHaarRandom(psi[0], new Random(1));
+        StateVector.FillHaarRandom(psi[1], new Random(2));
+        var apps = split ? new[] { new PauliHamiltonianApplier(h, 1), new PauliHamiltonianApplier(h, 1) } : new[] { new PauliHamiltonianApplier(h, threads) };
+        void Once()
+        {
+            if (split) Parallel.For(0, 2, new ParallelOptions { MaxDegreeOfParallelism = 2 }, i => apps[i].Apply(psi[i], outs[i]));
+            else apps[0].Apply(psi[0], outs[0]);
+        }
+        Once(); // warm-up (JIT, page faults)
+        var sw = Stopwatch.StartNew();
+        int reps = 0;
+        do
+        {
+            Once();
+            reps++;
+        }
+        while (reps < 2 || (sw.Elapsed.TotalSeconds < 0.3 && reps < 200));
+        double perOnce = sw.Elapsed.TotalSeconds / reps;
+        return split ? perOnce / 2 : perOnce;
     }
 
     /// <summary>Applications of H in one Chebyshev propagation over x = rho t at the tolerance.</summary>

@@ -174,7 +174,7 @@ public static class ScramblingTimeSearch
                 }
             }
             int vecs = _groups + 1;
-            long work = (7L + (_split ? 6 : 3)) * dim * 16 + 2L * (_blocks ? 0 : _groups) * _samples * dim * 8;
+            long work = WorkBytes(_n, _blocks, vecs, _samples, _split);
             long full = 2L * vecs * _samples * dim * 16 + work;
             long budget = o.MemoryBytes ?? (long)(0.6 * GC.GetGCMemoryInfo().TotalAvailableMemoryBytes);
             // Checkpoints (the forward vectors at the last time below the crossing) save the forward propagation from
@@ -479,6 +479,24 @@ public static class ScramblingTimeSearch
 
     /// <summary>Vectors propagated per random state and evaluation: 2N with site blocks, G + 1 with G probe groups.</summary>
     public static int VectorsPerState(int n, bool siteBlocks, int probeGroups) => siteBlocks ? 2 * n : Math.Max(1, probeGroups) + 1;
+
+    /// <summary>
+    /// Bytes of vectors a search holds with checkpoints (the usual case): a forward and a carried copy of every vector
+    /// of every state, the propagation work vectors, and each probe group's diagonal (two doubles per amplitude).
+    /// The sweep planner and <see cref="ScramblingTimeCost"/> use the same figure.
+    /// </summary>
+    public static long PlannedVectorBytes(int n, bool siteBlocks, int vectorsPerState, int samples, int threads)
+    {
+        long dim = StateVector.Dimension(n);
+        bool split = threads >= 2 && dim >= StateVector.ParallelThreshold;
+        return 2L * vectorsPerState * samples * dim * 16 + WorkBytes(n, siteBlocks, vectorsPerState, samples, split);
+    }
+
+    private static long WorkBytes(int n, bool siteBlocks, int vectorsPerState, int samples, bool split)
+    {
+        long dim = StateVector.Dimension(n);
+        return (7L + (split ? 6 : 3)) * dim * 16 + 2L * (siteBlocks ? 0 : vectorsPerState - 1) * samples * dim * 8;
+    }
 
     /// <summary>
     /// First time evaluated without a guess: the inverse of the local energy scale of W,

@@ -102,12 +102,13 @@ public static class ScramblingTimeStage
         var (blocks, groups) = ScramblingTimeSearch.DefaultEstimator(n, model.Lattice.Diameter, majorana);
         int samples = MemberSamples(n);
         int vectors = ScramblingTimeSearch.VectorsPerState(n, blocks, groups);
-        Model? small = null;
+        Model? small = null, timing = null;
         if (hamiltonian && n <= 26)
         {
             small = n > 12 && model.Parameters.ContainsKey("N") ? FamilyMembers.FromFile(path, options.Overrides, model)(12, 0) : null;
+            timing = n > ScramblingTimeCost.TimedLimit && model.Parameters.ContainsKey("N") ? FamilyMembers.FromFile(path, options.Overrides, model)(ScramblingTimeCost.TimedLimit, 0) : null;
             double guess = pauli?.Value ?? GuessTStar(evo, majorana) ?? preset.Time;
-            est = ScramblingTimeCost.Estimate(model.Hamiltonian, small?.N < n ? small.Hamiltonian : null, guess, samples, vectors, options.Threads);
+            est = ScramblingTimeCost.Estimate(model.Hamiltonian, small?.N < n ? small.Hamiltonian : null, guess, samples, vectors, options.Threads, siteBlocks: blocks, timing: timing?.N < n ? timing.Hamiltonian : null);
         }
         bool cheap = est is not null && est.Seconds <= (options.ExactScramblingTimeBudget ?? ExactBudgetSeconds(options.Effort));
 
@@ -127,7 +128,7 @@ public static class ScramblingTimeStage
 
         if (est is not null && (forced || cheap))
         {
-            if (predicted?.Value is double pv) est = ScramblingTimeCost.Estimate(model.Hamiltonian, small?.N < n ? small.Hamiltonian : null, pv, samples, vectors, options.Threads);
+            if (predicted?.Value is double pv) est = ScramblingTimeCost.Estimate(model.Hamiltonian, small?.N < n ? small.Hamiltonian : null, pv, samples, vectors, options.Threads, siteBlocks: blocks, timing: timing?.N < n ? timing.Hamiltonian : null);
             long avail = options.MemoryBytes ?? (long)(0.8 * GC.GetGCMemoryInfo().TotalAvailableMemoryBytes);
             string cost = FormattableString.Invariant($"exact t* at N = {n}: estimated {Duration(est.Seconds)} and {est.Bytes / 1073741824.0:0.##} GiB on {options.Threads} thread(s) ({est.Basis}; t* assumed {est.TStar:0.##})");
             if (est.Bytes > avail)
