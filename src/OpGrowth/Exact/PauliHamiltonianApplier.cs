@@ -57,6 +57,12 @@ public sealed class PauliHamiltonianApplier
 
     private const int MaxTableBits = 12;
 
+    // Larger tables (up to 2^22 entries) for groups whose masks differ in more bits, as long as all of them together
+    // stay within this many bytes: the SYK model's two-site groups (a Majorana on each of two sites times Z on any
+    // third site) differ in every bit, so without a table every amplitude pays a sum over 4(N - 2) strings.
+    private const int MaxLargeTableBits = 22;
+    private const long LargeTableBudget = 256L << 20;
+
     /// <summary>Number of qubits.</summary>
     public int N { get; }
 
@@ -153,6 +159,20 @@ public sealed class PauliHamiltonianApplier
                 rest.Add(g);
             }
         }
+        // Groups left without a table: the ones with most strings per amplitude first, within the budget.
+        long large = 0;
+        foreach (var g in rest.Where(g => g.TableRe is null && g.RealZ.Length + g.ImagZ.Length > 8).OrderByDescending(g => g.RealZ.Length + g.ImagZ.Length).ThenBy(g => g.X))
+        {
+            ulong d = 0, b0 = g.RealZ.Length > 0 ? g.RealZ[0] : g.ImagZ[0];
+            foreach (var z in g.RealZ) d |= z ^ b0;
+            foreach (var z in g.ImagZ) d |= z ^ b0;
+            int bits = BitOperations.PopCount(d);
+            if (bits > MaxLargeTableBits) continue;
+            long bytes = (1L << bits) * 8 * (g.ImagZ.Length > 0 ? 2 : 1);
+            if (large + bytes > LargeTableBudget) continue;
+            large += bytes;
+            CompressLarge(g, b0, d);
+        }
         _groups = [.. rest];
         // Pairs sharing the bits above the chunk read the same partner chunk: keep them together.
         int chunkMask = (1 << StateVector.ChunkBits) - 1;
@@ -223,6 +243,35 @@ public sealed class PauliHamiltonianApplier
         g.Vary = d;
         g.TableRe = re;
         g.TableIm = im;
+    }
+
+    // The same table for many differing bits, built by a fast Walsh-Hadamard transform: T[m] = sum_u A[u] (-1)^{|m & u|}
+    // with A[pext(Z_t ^ B, D)] = c_t, O(2^bits bits) instead of O(2^bits terms).
+    private static void CompressLarge(Group g, ulong b, ulong d)
+    {
+        int size = 1 << BitOperations.PopCount(d);
+        double[] Table(ulong[] zs, double[] cs)
+        {
+            var t = new double[size];
+            for (int i = 0; i < zs.Length; i++) t[(int)Extract(zs[i] ^ b, d)] += cs[i];
+            for (int h = 1; h < size; h <<= 1)
+            {
+                for (int i = 0; i < size; i += 2 * h)
+                {
+                    for (int j = i; j < i + h; j++)
+                    {
+                        double x = t[j], y = t[j + h];
+                        t[j] = x + y;
+                        t[j + h] = x - y;
+                    }
+                }
+            }
+            return t;
+        }
+        g.Base = b;
+        g.Vary = d;
+        g.TableRe = Table(g.RealZ, g.RealC);
+        g.TableIm = g.ImagZ.Length > 0 ? Table(g.ImagZ, g.ImagC) : null;
     }
 
     // Scatters the low bits of m to the positions of the set bits of mask (software pdep).

@@ -133,6 +133,18 @@ public class StateVectorTests
     }
 
     [Fact]
+    public void Applier_SykGroupsDifferingInEveryBit_MatchTermByTerm()
+    {
+        // q = 4 SYK with 28 Majoranas on N = 14 qubits (Families.Syk, Jordan-Wigner strings): its two-site groups
+        // (a Majorana on each of two sites times Z on any third) differ in all 14 bits, beyond the small tables,
+        // and get the Walsh-Hadamard-built large table. Reference: the one-string-at-a-time path (4,095 + terms);
+        // bit-identical at one and two threads. Tolerance: rounding of ~20,000 terms of size 1/sqrt(N^3).
+        var h = OpGrowth.Models.Families.Syk(14, 4, 1.0, 5);
+        var app = AssertMatchesTermByTerm(h, 6, 1e-11);
+        Assert.True(app.TableGroups > 1001, $"{app.TableGroups} table groups"); // C(14, 4) four-site groups plus two-site ones
+    }
+
+    [Fact]
     public void Applier_ManyTermGroupsWithTables_MatchDenseMatrix()
     {
         // Groups of several strings with one X mask and different Z masks (incl. odd Y: complex) use the
