@@ -1,0 +1,145 @@
+using System.Runtime.CompilerServices;
+using OpGrowth.Pauli;
+
+namespace OpGrowth.Krylov;
+
+/// <summary>
+/// Feeds a step table: the commutator of a stored vector (or a scaled copy of one) in blocks of input
+/// strings; each block is cut into one contiguous slice per thread, each thread appends its contributions
+/// to one stream per partition group (<see cref="EmitBuffer{T}"/>), then group g is merged by thread
+/// g mod threads, reading the threads' streams in slice order. Every string's contributions are therefore
+/// summed in input order, and every partition receives its strings in input order, at any thread count and
+/// any block size: the result is bit-identical to feeding the table one contribution at a time.
+/// The emit buffers are kept between steps (their size is one block's contributions).
+/// </summary>
+internal sealed unsafe class StepDriver<T> where T : unmanaged, IPauliKey<T>
+{
+    /// <summary>Input strings in the first block of a pass (it measures the contributions per input).</summary>
+    private const int FirstBlock = 1 << 12;
+
+    /// <summary>Largest block of input strings.</summary>
+    private const int MaxBlock = 1 << 21;
+
+    /// <summary>Below this many bytes of tables the target stays in cache and small blocks are best.</summary>
+    private const long SmallTargetBytes = 16L << 20;
+
+    /// <summary>Contributions per block into a small target.</summary>
+    private const long SmallBlockEmissions = 1 << 18;
+
+    /// <summary>Contributions buffered per block (all threads together) into a large target.</summary>
+    internal static long BlockEmissions = 1 << 21;
+
+    private EmitBuffer<T>[] _buffers = [];
+
+    /// <summary>Bytes the emit buffers hold now.</summary>
+    public long BufferBytes
+    {
+        get
+        {
+            long b = 0;
+            foreach (var buf in _buffers)
+            {
+                foreach (var s in buf.Streams) b += (long)s.Length * Unsafe.SizeOf<EmitBuffer<T>.Entry>();
+            }
+            return b;
+        }
+    }
+
+    /// <summary>Upper bound on the emit buffers' bytes for a pass over strings that emit <paramref name="perInput"/> each.</summary>
+    public static long BufferBound(int threads, long inputs, double perInput)
+    {
+        double p = Math.Max(1.0, perInput);
+        long block = Math.Max(FirstBlock, (long)Math.Ceiling(BlockEmissions / p));
+        long emissions = (long)Math.Ceiling(Math.Min(inputs, block) * p);
+        // Streams grow by doubling: up to twice the block's contributions, plus their initial sizes.
+        return (emissions * 2 + (long)threads * threads * 1024) * Unsafe.SizeOf<EmitBuffer<T>.Entry>();
+    }
+
+    /// <summary>Drops the emit buffers.</summary>
+    public void Release() => _buffers = [];
+
+    /// <summary>Accumulates map(strings start..end of <paramref name="source"/>) into <paramref name="target"/>.</summary>
+    public void Map<TMap>(SlotVector<T> source, int start, int end, TMap map, StepTable<T> target, int threads)
+        where TMap : struct, IPauliMap<T>
+        => Run(source, start, end, new MapProducer<TMap>(map), target, threads);
+
+    /// <summary>Accumulates a * <paramref name="source"/> into <paramref name="target"/> (each string added as a * c, in storage order).</summary>
+    public void AddScaled(SlotVector<T> source, double a, StepTable<T> target, int threads)
+        => Run(source, 0, source.Count, new ScaledProducer(a), target, threads);
+
+    private void Run<TProducer>(SlotVector<T> source, int start, int end, TProducer producer, StepTable<T> target, int threads)
+        where TProducer : struct, IProducer
+    {
+        ArgumentOutOfRangeException.ThrowIfLessThan(threads, 1);
+        int n = end - start;
+        if (n <= 0) return;
+        threads = Math.Min(threads, Math.Max(1, n / 256));
+        threads = Math.Min(threads, target.Parts.Length);
+        if (_buffers.Length < threads)
+        {
+            var more = new EmitBuffer<T>[threads];
+            for (int t = 0; t < threads; t++) more[t] = t < _buffers.Length ? _buffers[t] : new EmitBuffer<T>();
+            _buffers = more;
+        }
+        var buffers = _buffers;
+        for (int t = 0; t < threads; t++) buffers[t].Reset(target.Shift, threads);
+        var items = source.Pointer;
+        var options = new ParallelOptions { MaxDegreeOfParallelism = threads };
+        var merge = new StepTable<T>.Target(target.Parts, target.Shift);
+        int blockSize = FirstBlock;
+        for (int b0 = start, b1; b0 < end; b0 = b1)
+        {
+            b1 = (int)Math.Min(end, (long)b0 + blockSize);
+            if (threads == 1)
+            {
+                Array.Clear(buffers[0].Counts);
+                producer.Produce(items, b0, b1, buffers[0]);
+                EmitBuffer<T>.MergeGroups(buffers, 1, 0, 1, merge);
+            }
+            else
+            {
+                int s0 = b0, len = b1 - b0, used = threads;
+                Parallel.For(0, used, options, t =>
+                {
+                    int s = s0 + (int)((long)len * t / used);
+                    int e = s0 + (int)((long)len * (t + 1) / used);
+                    Array.Clear(buffers[t].Counts);
+                    producer.Produce(source.Pointer, s, e, buffers[t]);
+                });
+                Parallel.For(0, used, options, u => EmitBuffer<T>.MergeGroups(buffers, used, u, used, merge));
+            }
+            long emitted = 0;
+            for (int t = 0; t < threads; t++)
+            {
+                foreach (int c in buffers[t].Counts) emitted += c;
+            }
+            double perInput = Math.Max(1.0, emitted / (double)(b1 - b0));
+            long wanted = target.AllocatedBytes < SmallTargetBytes ? SmallBlockEmissions : BlockEmissions;
+            blockSize = (int)Math.Clamp(wanted / perInput, FirstBlock, MaxBlock);
+        }
+    }
+
+    private interface IProducer
+    {
+        void Produce(KeyValue<T>* items, int start, int end, EmitBuffer<T> sink);
+    }
+
+    private readonly struct MapProducer<TMap>(TMap map) : IProducer where TMap : struct, IPauliMap<T>
+    {
+        private readonly TMap _map = map;
+
+        [MethodImpl(MethodImplOptions.AggressiveOptimization)]
+        public void Produce(KeyValue<T>* items, int start, int end, EmitBuffer<T> sink)
+        {
+            for (int i = start; i < end; i++) _map.Apply(items[i].Key, items[i].Value, sink);
+        }
+    }
+
+    private readonly struct ScaledProducer(double a) : IProducer
+    {
+        public void Produce(KeyValue<T>* items, int start, int end, EmitBuffer<T> sink)
+        {
+            for (int i = start; i < end; i++) sink.Emit(items[i].Key, a * items[i].Value);
+        }
+    }
+}
