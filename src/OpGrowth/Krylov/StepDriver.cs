@@ -5,12 +5,14 @@ namespace OpGrowth.Krylov;
 
 /// <summary>
 /// Feeds a step table: the commutator of a stored vector (or a scaled copy of one) in blocks of input
-/// strings; each block is cut into one contiguous slice per thread, each thread appends its contributions
-/// to one stream per partition group (<see cref="EmitBuffer{T}"/>), then group g is merged by thread
-/// g mod threads, reading the threads' streams in slice order. Every string's contributions are therefore
-/// summed in input order, and every partition receives its strings in input order, at any thread count and
-/// any block size: the result is bit-identical to feeding the table one contribution at a time.
-/// The emit buffers are kept between steps (their size is one block's contributions).
+/// strings. One thread: the contributions of a small block go to one stream (a few tens of kilobytes, still
+/// in the first-level cache) and are then added to the table in emission order, the home slot of each one
+/// prefetched a dozen entries ahead. Several threads: each block is cut into one contiguous slice per thread,
+/// each thread appends its contributions to one stream per owner (the top bits of the hash choose the owner,
+/// a contiguous range of partitions), then owner u adds the streams of all threads in slice order into its
+/// partitions. Every string's contributions are therefore summed in input order, and every partition
+/// receives its strings in input order, at any thread count and any block size: the result is bit-identical
+/// to feeding the table one contribution at a time, as the managed accumulator is fed.
 /// </summary>
 internal sealed unsafe class StepDriver<T> where T : unmanaged, IPauliKey<T>
 {
@@ -20,14 +22,11 @@ internal sealed unsafe class StepDriver<T> where T : unmanaged, IPauliKey<T>
     /// <summary>Largest block of input strings.</summary>
     private const int MaxBlock = 1 << 21;
 
-    /// <summary>Below this many bytes of tables the target stays in cache and small blocks are best.</summary>
-    private const long SmallTargetBytes = 16L << 20;
+    /// <summary>Contributions per block with one thread (a few tens of kilobytes: the stream stays in the first-level cache).</summary>
+    internal const long SingleBlockEmissions = 1 << 11;
 
-    /// <summary>Contributions per block into a small target.</summary>
-    private const long SmallBlockEmissions = 1 << 18;
-
-    /// <summary>Contributions buffered per block (all threads together) into a large target.</summary>
-    internal static long BlockEmissions = 1 << 21;
+    /// <summary>Contributions per thread and block with several threads (the streams stay in the second-level cache).</summary>
+    internal const long BlockEmissions = 1 << 15;
 
     private EmitBuffer<T>[] _buffers = [];
 
@@ -49,7 +48,7 @@ internal sealed unsafe class StepDriver<T> where T : unmanaged, IPauliKey<T>
     public static long BufferBound(int threads, long inputs, double perInput)
     {
         double p = Math.Max(1.0, perInput);
-        long block = Math.Max(FirstBlock, (long)Math.Ceiling(BlockEmissions / p));
+        long block = Math.Max(FirstBlock, (long)Math.Ceiling(threads * BlockEmissions / p));
         long emissions = (long)Math.Ceiling(Math.Min(inputs, block) * p);
         // Streams grow by doubling: up to twice the block's contributions, plus their initial sizes.
         return (emissions * 2 + (long)threads * threads * 1024) * Unsafe.SizeOf<EmitBuffer<T>.Entry>();
@@ -74,7 +73,8 @@ internal sealed unsafe class StepDriver<T> where T : unmanaged, IPauliKey<T>
         int n = end - start;
         if (n <= 0) return;
         threads = Math.Min(threads, Math.Max(1, n / 256));
-        threads = Math.Min(threads, target.Parts.Length);
+        threads = Math.Min(threads, target.Parts.Length / (1 << EmitBuffer<T>.PartitionsPerGroupBits));
+        threads = Math.Max(1, threads);
         if (_buffers.Length < threads)
         {
             var more = new EmitBuffer<T>[threads];
@@ -82,17 +82,26 @@ internal sealed unsafe class StepDriver<T> where T : unmanaged, IPauliKey<T>
             _buffers = more;
         }
         var buffers = _buffers;
-        for (int t = 0; t < threads; t++) buffers[t].Reset(target.Shift, threads);
+        // One stream per owner (the smallest power of two of groups >= threads, by the top bits of the hash):
+        // a thread's streams are written and read sequentially, and group g (a contiguous range of partitions)
+        // is merged by thread g mod threads only. One thread: one stream, drained every small block while it
+        // is still in the first-level cache, so the contributions go to the table in emission order with
+        // prefetching and without a round trip through memory.
+        int groupBits = 0;
+        while ((1 << groupBits) < threads) groupBits++;
+        int fakeShift = 64 - (groupBits + EmitBuffer<T>.PartitionsPerGroupBits);
+        for (int t = 0; t < threads; t++) buffers[t].Reset(fakeShift, threads);
         var items = source.Pointer;
         var options = new ParallelOptions { MaxDegreeOfParallelism = threads };
         var merge = new StepTable<T>.Target(target.Parts, target.Shift);
-        int blockSize = FirstBlock;
+        long wanted = threads == 1 ? SingleBlockEmissions : threads * BlockEmissions;
+        int blockSize = threads == 1 ? 16 : FirstBlock;
         for (int b0 = start, b1; b0 < end; b0 = b1)
         {
             b1 = (int)Math.Min(end, (long)b0 + blockSize);
             if (threads == 1)
             {
-                Array.Clear(buffers[0].Counts);
+                buffers[0].Counts[0] = 0;
                 producer.Produce(items, b0, b1, buffers[0]);
                 EmitBuffer<T>.MergeGroups(buffers, 1, 0, 1, merge);
             }
@@ -114,8 +123,7 @@ internal sealed unsafe class StepDriver<T> where T : unmanaged, IPauliKey<T>
                 foreach (int c in buffers[t].Counts) emitted += c;
             }
             double perInput = Math.Max(1.0, emitted / (double)(b1 - b0));
-            long wanted = target.AllocatedBytes < SmallTargetBytes ? SmallBlockEmissions : BlockEmissions;
-            blockSize = (int)Math.Clamp(wanted / perInput, FirstBlock, MaxBlock);
+            blockSize = (int)Math.Clamp(wanted / perInput, 16, MaxBlock);
         }
     }
 
