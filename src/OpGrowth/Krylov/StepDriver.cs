@@ -93,7 +93,6 @@ internal sealed unsafe class StepDriver<T> where T : unmanaged, IPauliKey<T>
         for (int t = 0; t < threads; t++) buffers[t].Reset(fakeShift, threads);
         var items = source.Pointer;
         var options = new ParallelOptions { MaxDegreeOfParallelism = threads };
-        var merge = new StepTable<T>.Target(target.Parts, target.Shift);
         long wanted = threads == 1 ? SingleBlockEmissions : threads * BlockEmissions;
         int blockSize = threads == 1 ? 16 : FirstBlock;
         for (int b0 = start, b1; b0 < end; b0 = b1)
@@ -103,7 +102,7 @@ internal sealed unsafe class StepDriver<T> where T : unmanaged, IPauliKey<T>
             {
                 buffers[0].Counts[0] = 0;
                 producer.Produce(items, b0, b1, buffers[0]);
-                EmitBuffer<T>.MergeGroups(buffers, 1, 0, 1, merge);
+                Merge(buffers, 1, 0, 1, target);
             }
             else
             {
@@ -115,7 +114,7 @@ internal sealed unsafe class StepDriver<T> where T : unmanaged, IPauliKey<T>
                     Array.Clear(buffers[t].Counts);
                     producer.Produce(source.Pointer, s, e, buffers[t]);
                 });
-                Parallel.For(0, used, options, u => EmitBuffer<T>.MergeGroups(buffers, used, u, used, merge));
+                Parallel.For(0, used, options, u => Merge(buffers, used, u, used, target));
             }
             long emitted = 0;
             for (int t = 0; t < threads; t++)
@@ -124,6 +123,46 @@ internal sealed unsafe class StepDriver<T> where T : unmanaged, IPauliKey<T>
             }
             double perInput = Math.Max(1.0, emitted / (double)(b1 - b0));
             blockSize = (int)Math.Clamp(wanted / perInput, 16, MaxBlock);
+        }
+    }
+
+    /// <summary>Prefetch distance of the merge, in contributions.</summary>
+    private const int Ahead = 16;
+
+    /// <summary>
+    /// Adds the owner's groups (g = owner, owner + owners, ...) of every buffer into the table, one group at a
+    /// time and the buffers in slice order within a group, prefetching the home slot a fixed distance ahead.
+    /// </summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
+    private static void Merge(EmitBuffer<T>[] buffers, int used, int owner, int owners, StepTable<T> target)
+    {
+        var parts = target.Parts;
+        int shift = target.Shift;
+        int ahead = Ahead;
+        int groups = buffers[0].Groups;
+        for (int g = owner; g < groups; g += owners)
+        {
+            for (int b = 0; b < used; b++)
+            {
+                var entries = buffers[b].Streams[g];
+                int c = buffers[b].Counts[g];
+                int pre = Math.Min(ahead, c);
+                for (int i = 0; i < pre; i++)
+                {
+                    ulong h = entries[i].Hash;
+                    StepTable<T>.Prefetch(ref parts[(int)(h >> shift)], h);
+                }
+                for (int i = 0; i < c; i++)
+                {
+                    if (i + ahead < c)
+                    {
+                        ulong hp = entries[i + ahead].Hash;
+                        StepTable<T>.Prefetch(ref parts[(int)(hp >> shift)], hp);
+                    }
+                    ref var e = ref entries[i];
+                    StepTable<T>.Add(ref parts[(int)(e.Hash >> shift)], e.Key, e.Value, e.Hash);
+                }
+            }
         }
     }
 
