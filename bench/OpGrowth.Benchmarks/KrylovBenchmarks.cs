@@ -37,7 +37,7 @@ public class KrylovBenchmarks
             {
                 before = last;
                 last = o;
-            });
+            }, stepOperators: true);
         _cur = last!;
         _prev = before!;
         _b = r.B[^1];

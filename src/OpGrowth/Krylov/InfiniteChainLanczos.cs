@@ -85,7 +85,7 @@ public static class InfiniteChainLanczos
                 log?.LogWarning("{Message}", msg);
             }
         }
-        var result = PauliWidth.Dispatch<LanczosResult, ChainRun>(n, new ChainRun(h, probe, options, Check,
+        var result = ChainWidth.Dispatch<LanczosResult, ChainRun>(n, new ChainRun(h, probe, options, Check,
             $"infinite chain (open chain of {n} sites, probe at site {offset}; light-cone length, generic bound {layout.GenericSites}{(useReflection ? "; one key per mirror pair" : "")})",
             useReflection));
         return result with

@@ -56,6 +56,18 @@ internal static class KeyWords<T> where T : unmanaged, IPauliKey<T>
             var r = new Pauli64(p.X >> s, p.Z >> s);
             return Unsafe.As<Pauli64, T>(ref r);
         }
+        if (typeof(T) == typeof(ChainKey32))
+        {
+            var p = Unsafe.As<T, ChainKey32>(ref Unsafe.AsRef(in key));
+            var r = new ChainKey32(p.X >> s, p.Z >> s);
+            return Unsafe.As<ChainKey32, T>(ref r);
+        }
+        if (typeof(T) == typeof(ChainKey48))
+        {
+            var p = Unsafe.As<T, ChainKey48>(ref Unsafe.AsRef(in key));
+            var r = new ChainKey48(p.X >> s, p.Z >> s, true);
+            return Unsafe.As<ChainKey48, T>(ref r);
+        }
         Span<ulong> xz = stackalloc ulong[2 * Words];
         key.CopyWords(xz[..Words], xz[Words..]);
         ShiftDownWords(xz[..Words], s);
@@ -73,6 +85,19 @@ internal static class KeyWords<T> where T : unmanaged, IPauliKey<T>
             var p = Unsafe.As<T, Pauli64>(ref Unsafe.AsRef(in key));
             var r = new Pauli64(p.X << s, p.Z << s);
             return Unsafe.As<Pauli64, T>(ref r);
+        }
+        if (typeof(T) == typeof(ChainKey32))
+        {
+            var p = Unsafe.As<T, ChainKey32>(ref Unsafe.AsRef(in key));
+            var r = new ChainKey32(p.X << s, p.Z << s);
+            return Unsafe.As<ChainKey32, T>(ref r);
+        }
+        if (typeof(T) == typeof(ChainKey48))
+        {
+            var p = Unsafe.As<T, ChainKey48>(ref Unsafe.AsRef(in key));
+            const ulong mask = (1UL << 48) - 1;
+            var r = new ChainKey48((p.X << s) & mask, (p.Z << s) & mask, true);
+            return Unsafe.As<ChainKey48, T>(ref r);
         }
         Span<ulong> xz = stackalloc ulong[2 * Words];
         key.CopyWords(xz[..Words], xz[Words..]);
@@ -92,6 +117,20 @@ internal static class KeyWords<T> where T : unmanaged, IPauliKey<T>
             int d64 = 63 - m; // m <= 63 for a site of a 64-site key
             var r = new Pauli64(ReverseBits(p.X) >> d64, ReverseBits(p.Z) >> d64);
             return Unsafe.As<Pauli64, T>(ref r);
+        }
+        if (typeof(T) == typeof(ChainKey32))
+        {
+            var p = Unsafe.As<T, ChainKey32>(ref Unsafe.AsRef(in key));
+            int d32 = 63 - m; // reversing 64 bits puts site j at 63 - j; m <= 31
+            var r = new ChainKey32((uint)(ReverseBits(p.X) >> d32), (uint)(ReverseBits(p.Z) >> d32));
+            return Unsafe.As<ChainKey32, T>(ref r);
+        }
+        if (typeof(T) == typeof(ChainKey48))
+        {
+            var p = Unsafe.As<T, ChainKey48>(ref Unsafe.AsRef(in key));
+            int d48 = 63 - m; // m <= 47
+            var r = new ChainKey48(ReverseBits(p.X) >> d48, ReverseBits(p.Z) >> d48, true);
+            return Unsafe.As<ChainKey48, T>(ref r);
         }
         Span<ulong> xz = stackalloc ulong[2 * Words];
         key.CopyWords(xz[..Words], xz[Words..]);
@@ -121,6 +160,22 @@ internal static class KeyWords<T> where T : unmanaged, IPauliKey<T>
             ulong mask = ringSize == 64 ? ulong.MaxValue : (1UL << ringSize) - 1;
             var r = new Pauli64(((p.X >> s) | (p.X << (ringSize - s))) & mask, ((p.Z >> s) | (p.Z << (ringSize - s))) & mask);
             return Unsafe.As<Pauli64, T>(ref r);
+        }
+        if (typeof(T) == typeof(ChainKey32))
+        {
+            var p = Unsafe.As<T, ChainKey32>(ref Unsafe.AsRef(in key));
+            ulong mask = ringSize == 64 ? ulong.MaxValue : (1UL << ringSize) - 1;
+            ulong x = p.X, z = p.Z;
+            var r = new ChainKey32((uint)(((x >> s) | (x << (ringSize - s))) & mask), (uint)(((z >> s) | (z << (ringSize - s))) & mask));
+            return Unsafe.As<ChainKey32, T>(ref r);
+        }
+        if (typeof(T) == typeof(ChainKey48))
+        {
+            var p = Unsafe.As<T, ChainKey48>(ref Unsafe.AsRef(in key));
+            ulong mask = (1UL << ringSize) - 1; // ringSize <= 48
+            ulong x = p.X, z = p.Z;
+            var r = new ChainKey48(((x >> s) | (x << (ringSize - s))) & mask, ((z >> s) | (z << (ringSize - s))) & mask, true);
+            return Unsafe.As<ChainKey48, T>(ref r);
         }
         Span<ulong> xz = stackalloc ulong[2 * Words];
         Span<ulong> lo = stackalloc ulong[Words];

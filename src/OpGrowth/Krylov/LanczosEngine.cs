@@ -17,7 +17,7 @@ namespace OpGrowth.Krylov;
 /// and the next step uses b~_n = ||P A_n|| = b_n sqrt(1 - w_n) (w_n = discarded fraction), the exact
 /// overlap -(O_{n-1}| i[H, O_n]) up to terms of order w, so A_{n+1} stays orthogonal to O_{n-1}.
 /// </remarks>
-internal static class LanczosEngine
+internal static partial class LanczosEngine
 {
 
     /// <summary>
@@ -30,12 +30,20 @@ internal static class LanczosEngine
     /// <summary>Strings per commutator chunk at least; memory and cancellation are checked between chunks.</summary>
     private const int MinChunk = 1 << 20;
 
+    /// <summary>
+    /// Runs the recursion. <paramref name="onStep"/> gets each step's record and, when
+    /// <paramref name="stepOperators"/> is set (or the run truncates or re-orthogonalizes), the new vector O_n.
+    /// Exact runs without re-orthogonalization take the unmanaged-memory route (<see cref="RunExact"/>), which
+    /// gives bit for bit the same b_n; <paramref name="managedRoute"/> forces the managed one (for comparison).
+    /// </summary>
     public static LanczosResult Run<T, TBasis>(TBasis basis, PauliOperator<T> o0, LanczosOptions opt, string representation, int sites,
-        Action<LanczosStep, PauliOperator<T>>? onStep = null)
+        Action<LanczosStep, PauliOperator<T>?>? onStep = null, bool stepOperators = false, bool managedRoute = false)
         where T : unmanaged, IPauliKey<T>
         where TBasis : struct, IKrylovBasis<T>
     {
         opt.Validate();
+        if (!managedRoute && opt.MaxStrings == 0 && opt.Reorthogonalize == Reorthogonalization.None)
+            return RunExact(basis, o0, opt, representation, sites, onStep, stepOperators);
         var log = opt.Logger;
         var total = Stopwatch.StartNew();
         int perString = Unsafe.SizeOf<T>() + sizeof(double);

@@ -25,7 +25,7 @@ public static class LanczosRecursion
         {
             if (t.String.N != h.N) throw new ArgumentException($"Probe term {t} acts on {t.String.N} qubits; the Hamiltonian on {h.N}.", nameof(probe));
         }
-        return PauliWidth.Dispatch<LanczosResult, PlainRun>(h.N, new PlainRun(h, probe, options));
+        return ChainWidth.Dispatch<LanczosResult, PlainRun>(h.N, new PlainRun(h, probe, options));
     }
 
     /// <summary>Runs the recursion for a single Pauli string.</summary>

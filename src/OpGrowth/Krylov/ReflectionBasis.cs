@@ -70,6 +70,18 @@ internal readonly struct ReflectionBasis<T> : IKrylovBasis<T> where T : unmanage
             var pb = System.Runtime.CompilerServices.Unsafe.As<T, Pauli64>(ref System.Runtime.CompilerServices.Unsafe.AsRef(in b));
             return pa.Z != pb.Z ? pa.Z < pb.Z : pa.X < pb.X;
         }
+        if (typeof(T) == typeof(ChainKey32))
+        {
+            // z in the high half: comparing the words compares z first, then x, as for the wider keys.
+            return System.Runtime.CompilerServices.Unsafe.As<T, ChainKey32>(ref System.Runtime.CompilerServices.Unsafe.AsRef(in a)).Bits
+                 < System.Runtime.CompilerServices.Unsafe.As<T, ChainKey32>(ref System.Runtime.CompilerServices.Unsafe.AsRef(in b)).Bits;
+        }
+        if (typeof(T) == typeof(ChainKey48))
+        {
+            var ka = System.Runtime.CompilerServices.Unsafe.As<T, ChainKey48>(ref System.Runtime.CompilerServices.Unsafe.AsRef(in a));
+            var kb = System.Runtime.CompilerServices.Unsafe.As<T, ChainKey48>(ref System.Runtime.CompilerServices.Unsafe.AsRef(in b));
+            return ka.Z != kb.Z ? ka.Z < kb.Z : ka.X < kb.X;
+        }
         int w = KeyWords<T>.Words;
         Span<ulong> wa = stackalloc ulong[2 * w];
         Span<ulong> wb = stackalloc ulong[2 * w];

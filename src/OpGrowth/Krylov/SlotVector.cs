@@ -1,0 +1,96 @@
+using System.Runtime.CompilerServices;
+using System.Runtime.InteropServices;
+using OpGrowth.Pauli;
+
+namespace OpGrowth.Krylov;
+
+/// <summary>One stored string: key and coefficient side by side (16 bytes with <see cref="ChainKey32"/>, 20 with <see cref="ChainKey48"/>, 24 with <see cref="Pauli64"/>).</summary>
+/// <remarks>4-byte packing: with the 12-byte <see cref="ChainKey48"/> a pair takes 20 bytes (the coefficient unaligned, which costs nothing measurable on x64).</remarks>
+[StructLayout(LayoutKind.Sequential, Pack = 4)]
+internal struct KeyValue<T> where T : unmanaged
+{
+    public T Key;
+    public double Value;
+}
+
+/// <summary>
+/// A Krylov vector of the exact recursion in one block of unmanaged memory: <see cref="Count"/> (key,
+/// coefficient) pairs, each string once, in the order the step table left them. It is the step table's own
+/// block, compacted in place and shrunk (see <see cref="StepTable{T}.Compact"/>), so a vector is never held
+/// twice, and freeing it returns its pages to the system at once (no garbage awaiting collection).
+/// </summary>
+internal sealed unsafe class SlotVector<T> : IDisposable where T : unmanaged, IPauliKey<T>
+{
+    private KeyValue<T>* _items;
+
+    /// <summary>Number of qubits.</summary>
+    public int N { get; }
+
+    /// <summary>Number of stored strings.</summary>
+    public int Count { get; private set; }
+
+    internal SlotVector(int n, KeyValue<T>* items, int count)
+    {
+        N = n;
+        _items = items;
+        Count = count;
+    }
+
+    /// <summary>A copy of an operator (any order it has).</summary>
+    public static SlotVector<T> From(PauliOperator<T> o)
+    {
+        var p = (KeyValue<T>*)NativeMemory.Alloc((nuint)Math.Max(1, o.Count), (nuint)sizeof(KeyValue<T>));
+        var k = o.Keys;
+        var c = o.Coefficients;
+        for (int i = 0; i < o.Count; i++)
+        {
+            p[i].Key = k[i];
+            p[i].Value = c[i];
+        }
+        return new SlotVector<T>(o.N, p, o.Count);
+    }
+
+    /// <summary>The stored pairs.</summary>
+    public Span<KeyValue<T>> Items
+    {
+        [MethodImpl(MethodImplOptions.AggressiveInlining)]
+        get => new(_items, Count);
+    }
+
+    internal KeyValue<T>* Pointer => _items;
+
+    /// <summary>Bytes held.</summary>
+    public long Bytes => (long)Count * sizeof(KeyValue<T>);
+
+    /// <summary>Bytes per stored string.</summary>
+    public static int BytesPerString => sizeof(KeyValue<T>);
+
+    /// <summary>A managed copy (for callers that want the operator itself).</summary>
+    public PauliOperator<T> ToOperator()
+    {
+        var keys = new T[Count];
+        var vals = new double[Count];
+        var s = Items;
+        for (int i = 0; i < s.Length; i++)
+        {
+            keys[i] = s[i].Key;
+            vals[i] = s[i].Value;
+        }
+        return new PauliOperator<T>(N, keys, vals, Count);
+    }
+
+    public void Dispose()
+    {
+        Free();
+        GC.SuppressFinalize(this);
+    }
+
+    ~SlotVector() => Free();
+
+    private void Free()
+    {
+        if (_items != null) NativeMemory.Free(_items);
+        _items = null;
+        Count = 0;
+    }
+}
