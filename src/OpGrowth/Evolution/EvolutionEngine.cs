@@ -242,6 +242,27 @@ internal sealed class EvolutionEngine<T> where T : unmanaged, IPauliKey<T>
     /// <summary>Bytes held by the engine's arrays now.</summary>
     internal long HeldBytes => TrackedBytes;
 
+    /// <summary>Benchmark hook: strings held now.</summary>
+    internal int StringCount => _cur.Count;
+
+    /// <summary>Benchmark hook: passes applied so far.</summary>
+    internal long PassCount => _state.Passes;
+
+    /// <summary>Benchmark hook: writes the operator and the engine state in the checkpoint format.</summary>
+    internal void SaveState(string path) => Save(path);
+
+    /// <summary>Benchmark hook: continues from a state written by <see cref="SaveState"/> (bit-identical continuation).</summary>
+    internal void LoadState(string path) => Load(path);
+
+    /// <summary>Benchmark hook: a checksum of the operator's keys and coefficients (equal for bit-identical operators).</summary>
+    internal ulong OperatorChecksum()
+    {
+        var sum = new Checksum64();
+        sum.Append(System.Runtime.InteropServices.MemoryMarshal.AsBytes(_cur.KeySpan));
+        sum.Append(System.Runtime.InteropServices.MemoryMarshal.AsBytes(_cur.CoeffSpan));
+        return sum.Value;
+    }
+
     /// <summary>
     /// Advances one segment of <paramref name="steps"/> steps (between two records), pass by pass. Cancellation is
     /// honoured between passes only, where the operator and the state agree: the position inside the segment is
