@@ -63,6 +63,8 @@ public static class TrotterPass
         {
             long passes0 = engine.PassCount;
             int strings0 = engine.StringCount;
+            var ph0 = engine.PhaseSeconds;
+            var vol0 = engine.PassVolume;
             var cpu0 = Process.GetCurrentProcess().TotalProcessorTime;
             var t = Stopwatch.StartNew();
             int kept = engine.Step(1);
@@ -72,8 +74,12 @@ public static class TrotterPass
             double rate = passes * (double)strings0 / t.Elapsed.TotalSeconds / threads;
             sumRate += rate;
             bestRate = Math.Max(bestRate, rate);
+            var ph = engine.PhaseSeconds;
+            var vol = engine.PassVolume;
             Console.WriteLine(string.Create(CultureInfo.InvariantCulture,
                 $"step {s + 1}: {t.Elapsed.TotalSeconds:F2} s wall, {cpu.TotalSeconds:F2} s CPU, {passes} passes, {strings0:N0} -> {kept:N0} strings, {rate / 1e6:F3} M strings/s per thread"));
+            Console.WriteLine(string.Create(CultureInfo.InvariantCulture,
+                $"        produce {ph.Produce - ph0.Produce:F2} s, merge {ph.Merge - ph0.Merge:F2} s, compact {ph.Compact - ph0.Compact:F2} s; emitted {(vol.Emitted - vol0.Emitted) / (double)passes / strings0:F1} and distinct {(vol.Distinct - vol0.Distinct) / (double)passes / strings0:F2} per input string and pass"));
         }
         int count = engine.StringCount;
         long held = engine.HeldBytes;
