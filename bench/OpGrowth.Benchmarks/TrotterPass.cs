@@ -89,6 +89,9 @@ public static class TrotterPass
             $"mean {sumRate / Math.Max(1, steps) / 1e6:F3}, best {bestRate / 1e6:F3} M strings/s per thread ({threads} thread(s), budget {budget:N0})"));
         Console.WriteLine(string.Create(CultureInfo.InvariantCulture,
             $"bytes per string: engine arrays {held / (double)count:F1}, resident set {rss / (double)count:F1}, peak resident set during the steps {hwm / (double)count:F1} ({hwm / 1e9:F2} GB)"));
+        var parts = engine.HeldBreakdown;
+        Console.WriteLine(string.Create(CultureInfo.InvariantCulture,
+            $"engine arrays per string: operator {parts.Operator / (double)count:F1}, accumulator {parts.Accumulator / (double)count:F1} ({parts.Distinct / (double)count:F2} distinct per string in the last pass, {parts.Bits} partition bits), emit buffers {parts.Buffers / (double)count:F1}"));
         Console.WriteLine($"operator checksum {engine.OperatorChecksum():x16} ({count} strings)");
     }
 

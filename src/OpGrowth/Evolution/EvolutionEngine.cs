@@ -256,6 +256,10 @@ internal sealed class EvolutionEngine<T> where T : unmanaged, IPauliKey<T>
     internal (double Produce, double Merge, double Compact) PhaseSeconds
         => (_runner.ProduceTicks / (double)Stopwatch.Frequency, _runner.MergeTicks / (double)Stopwatch.Frequency, _compactTicks / (double)Stopwatch.Frequency);
 
+    /// <summary>Benchmark hook: bytes held by the operator, the accumulator (and its distinct strings and partition bits), and the emit buffers.</summary>
+    internal (long Operator, long Accumulator, long Distinct, int Bits, long Buffers) HeldBreakdown
+        => (_cur.AllocatedBytes, _acc?.AllocatedBytes ?? 0, _acc?.Count ?? 0, _acc?.PartitionBits ?? 0, _runner.BufferBytes);
+
     /// <summary>Benchmark hook: strings held now.</summary>
     internal int StringCount => _cur.Count;
 
@@ -647,7 +651,7 @@ internal sealed class EvolutionEngine<T> where T : unmanaged, IPauliKey<T>
     {
         var acc = Accumulator();
         acc.Clear();
-        if (!_runner.Run(src.Keys, src.Coeffs, src.Count, new CommutatorMap<T>(_compiled!, scale), acc, AccumulatorLimit(extra), ct))
+        if (!_runner.Run(src.Keys, src.Coeffs, src.Count, new LiouvillePassMap<T>(_compiled!, scale), acc, AccumulatorLimit(extra), ct))
         {
             throw new ResourceLimitException($"i[H, O] of {src.Count} strings does not fit the memory budget {MemoryBudget.Format(_budget.MemoryBytes)}");
         }
