@@ -511,7 +511,7 @@ internal sealed class EvolutionEngine<T> where T : unmanaged, IPauliKey<T>
         if (_acc is null || _acc.PartitionBits != _state.PartitionBits)
         {
             _acc = null;
-            _acc = new PassAccumulator<T>(_state.PartitionBits);
+            _acc = new PassAccumulator<T>(_state.PartitionBits, _cur.Count);
         }
         return _acc;
     }

@@ -1,3 +1,4 @@
+using System.Numerics;
 using System.Runtime.CompilerServices;
 using OpGrowth.Pauli;
 
@@ -20,14 +21,22 @@ internal sealed class PassAccumulator<T> where T : unmanaged, IPauliKey<T>
 
     internal readonly int Shift;
 
-    public PassAccumulator(int partitionBits)
+    /// <param name="partitionBits">log2 of the partition count.</param>
+    /// <param name="expectedCount">
+    /// Distinct strings expected (0: unknown). The partitions are presized for it, so an accumulator made for an
+    /// operator of known size does not reach that size through a series of resized arrays (garbage that the
+    /// collector may hold for a while). Capacity only: no result depends on it.
+    /// </param>
+    public PassAccumulator(int partitionBits, long expectedCount = 0)
     {
         ArgumentOutOfRangeException.ThrowIfLessThan(partitionBits, 1);
         ArgumentOutOfRangeException.ThrowIfGreaterThan(partitionBits, 16);
+        ArgumentOutOfRangeException.ThrowIfNegative(expectedCount);
         PartitionBits = partitionBits;
         Shift = 64 - partitionBits;
         Parts = new Part[1 << partitionBits];
-        for (int i = 0; i < Parts.Length; i++) Parts[i] = new Part();
+        int perPart = (int)Math.Min(1 << 26, Math.Max(16, expectedCount >> partitionBits));
+        for (int i = 0; i < Parts.Length; i++) Parts[i] = new Part(perPart);
     }
 
     /// <summary>Distinct strings held.</summary>
@@ -94,10 +103,18 @@ internal sealed class PassAccumulator<T> where T : unmanaged, IPauliKey<T>
 
     internal sealed class Part
     {
-        public Entry[] Entries = new Entry[16];
+        public Entry[] Entries;
         public int Count;
-        private int[] _slots = new int[32];
-        private int _mask = 31;
+        private int[] _slots;
+        private int _mask;
+
+        public Part(int capacity = 16)
+        {
+            Entries = new Entry[capacity];
+            int slots = (int)BitOperations.RoundUpToPowerOf2((uint)(2 * capacity));
+            _slots = new int[slots];
+            _mask = slots - 1;
+        }
 
         public long AllocatedBytes => (long)Entries.Length * Unsafe.SizeOf<Entry>() + (long)_slots.Length * 4;
 
