@@ -50,6 +50,57 @@ public class PassKernelTests
     }
 
     [Fact]
+    public void PassEmitter_ChunkChains_ReturnEveryGroupsContributionsInEmissionOrder_AcrossReuseAndPoolGrowth()
+    {
+        // Reference: the emitted sequence filtered by group (top hash bits, as EmitBuffer groups partitions), in
+        // order. Three blocks of different sizes reuse the emitter; the second outgrows the initial pool. Keys are
+        // drawn from a small pool too, so one group receives long runs (the burst the chunked design is for).
+        var rng = new Random(17);
+        var emitter = new PassEmitter<Pauli64>();
+        const int partitionBits = 10;
+        emitter.Reset(64 - partitionBits);
+        int groupBits = partitionBits - EmitBuffer<Pauli64>.PartitionsPerGroupBits;
+        Assert.Equal(1 << groupBits, emitter.Groups);
+        var keys = new Pauli64[5000];
+        for (int i = 0; i < keys.Length; i++) keys[i] = new Pauli64((ulong)rng.NextInt64(), (ulong)rng.NextInt64());
+        int largest = 0;
+        foreach (int count in new[] { 3000, 200000, 777 })
+        {
+            largest = Math.Max(largest, count);
+            emitter.Clear();
+            var emitted = new List<(Pauli64 Key, double Value)>();
+            for (int i = 0; i < count; i++)
+            {
+                var k = i % 3 == 0 ? keys[0] : keys[rng.Next(keys.Length)];
+                double v = rng.NextDouble();
+                emitter.Emit(k, v);
+                emitted.Add((k, v));
+            }
+            Assert.Equal(count, emitter.Count);
+            var byGroup = emitted.ToLookup(e => (int)(e.Key.Hash64 >> (64 - groupBits)));
+            for (int g = 0; g < emitter.Groups; g++)
+            {
+                var got = new List<(Pauli64, double)>();
+                for (int c = emitter.Head[g]; c >= 0; c = emitter.Next[c])
+                {
+                    int n = c == emitter.Tail[g] ? emitter.TailFill[g] : PassEmitter<Pauli64>.ChunkSize;
+                    for (int i = 0; i < n; i++)
+                    {
+                        var e = emitter.Pool[c * PassEmitter<Pauli64>.ChunkSize + i];
+                        Assert.Equal(e.Key.Hash64, e.Hash);
+                        got.Add((e.Key, e.Value));
+                    }
+                }
+                Assert.Equal(byGroup[g].ToList(), got);
+            }
+            // The pool holds the largest block so far plus at most one partly filled chunk per group, with the
+            // slack of growth by half.
+            Assert.True(emitter.Pool.Length <= (largest + emitter.Groups * PassEmitter<Pauli64>.ChunkSize) * 3 / 2 + 64 * PassEmitter<Pauli64>.ChunkSize,
+                $"pool {emitter.Pool.Length} for {largest}");
+        }
+    }
+
+    [Fact]
     public void Compactor_TopMWithManyTies_OneAndTwoThreadsKeepTheSameStringsInStorageOrder()
     {
         // Reference: sort by |c| descending with ties broken by storage order (partition, then insertion), take M,
