@@ -21,6 +21,12 @@ internal static class Program
             QuickEvolution.Run(long.Parse(args[1], System.Globalization.CultureInfo.InvariantCulture), int.Parse(args[2], System.Globalization.CultureInfo.InvariantCulture), int.Parse(args[3], System.Globalization.CultureInfo.InvariantCulture), args.Length > 4 ? int.Parse(args[4], System.Globalization.CultureInfo.InvariantCulture) : 0);
             return;
         }
+        if (args.Length > 3 && args[0] == "trotter-pass")
+        {
+            var ci = System.Globalization.CultureInfo.InvariantCulture;
+            TrotterPass.Run(long.Parse(args[1], ci), int.Parse(args[2], ci), int.Parse(args[3], ci), args.Length > 4 ? args[4] : null);
+            return;
+        }
         if (args.Length > 3 && args[0] == "quick-apply")
         {
             QuickExact.Apply(args[1], int.Parse(args[2], System.Globalization.CultureInfo.InvariantCulture), int.Parse(args[3], System.Globalization.CultureInfo.InvariantCulture), args.Length > 4 ? int.Parse(args[4], System.Globalization.CultureInfo.InvariantCulture) : 5);

@@ -35,11 +35,18 @@ internal sealed class Compactor<T> where T : unmanaged, IPauliKey<T>
     private double[] _delSq = [];
     private double[] _dampSq = [];
     private double[] _binValues = [];
+    private readonly double[][] _threadBins;
+    private readonly int[] _threadFill;
+    private int[] _binStart = [];
+    private int[] _binEnd = [];
+    private int[] _binThread = [];
 
     public Compactor(int threads)
     {
         _threads = threads;
         _hist = new int[threads][];
+        _threadBins = new double[threads][];
+        _threadFill = new int[threads];
     }
 
     private static int Bin(double a) => (int)(BitConverter.DoubleToInt64Bits(a) >>> 48);
@@ -58,6 +65,9 @@ internal sealed class Compactor<T> where T : unmanaged, IPauliKey<T>
             _keptSq = new double[np];
             _delSq = new double[np];
             _dampSq = new double[np];
+            _binStart = new int[np];
+            _binEnd = new int[np];
+            _binThread = new int[np];
         }
         bool topM = rule.MaxStrings < long.MaxValue;
         double thr = rule.Threshold;
@@ -122,32 +132,56 @@ internal sealed class Compactor<T> where T : unmanaged, IPauliKey<T>
                 cum += hist[bin];
             }
             int inBin = hist[bin];
+            int rankFromTop = (int)(need - cum); // 1..inBin
+            // One parallel sweep: per partition, the candidates above the boundary bin, and the magnitudes inside it
+            // (gathered per thread, partition after partition). The cut is the value of a rank, whatever the order
+            // the values are gathered in; the counts per partition then come from each partition's slice.
+            for (int t = 0; t < threads; t++)
+            {
+                if (_threadBins[t] is null || _threadBins[t].Length < inBin) _threadBins[t] = new double[Math.Max(inBin, 2 * (_threadBins[t]?.Length ?? 0))];
+                _threadFill[t] = 0;
+            }
+            ForStripes(threads, np, (t, pi) =>
+            {
+                var part = parts[pi];
+                var ents = part.Entries;
+                var values = _threadBins[t];
+                int f = _threadFill[t];
+                _binStart[pi] = f;
+                int above = 0;
+                for (int i = 0; i < part.Count; i++)
+                {
+                    double a = Magnitude(ents[i].Key, ents[i].Val, thr, maxSize, damp, needSize);
+                    if (a == 0) continue;
+                    int b = Bin(a);
+                    if (b > bin) above++;
+                    else if (b == bin) values[f++] = a;
+                }
+                _threadFill[t] = f;
+                _binEnd[pi] = f;
+                _binThread[pi] = t;
+                _above[pi] = above;
+            });
             if (_binValues.Length < inBin) _binValues = new double[Math.Max(inBin, _binValues.Length * 2)];
             int filled = 0;
+            for (int t = 0; t < threads; t++)
+            {
+                _threadBins[t].AsSpan(0, _threadFill[t]).CopyTo(_binValues.AsSpan(filled));
+                filled += _threadFill[t];
+            }
+            cut = Select(_binValues.AsSpan(0, filled), filled - rankFromTop);
             for (int pi = 0; pi < np; pi++)
             {
-                var part = parts[pi];
-                for (int i = 0; i < part.Count; i++)
-                {
-                    double a = Magnitude(part.Entries[i].Key, part.Entries[i].Val, thr, maxSize, damp, needSize);
-                    if (a > 0 && Bin(a) == bin) _binValues[filled++] = a;
-                }
-            }
-            int rankFromTop = (int)(need - cum); // 1..inBin
-            cut = Select(_binValues.AsSpan(0, filled), filled - rankFromTop);
-            ForStripes(threads, np, (_, pi) =>
-            {
-                var part = parts[pi];
+                var values = _threadBins[_binThread[pi]];
                 int above = 0, ties = 0;
-                for (int i = 0; i < part.Count; i++)
+                for (int i = _binStart[pi], end = _binEnd[pi]; i < end; i++)
                 {
-                    double a = Magnitude(part.Entries[i].Key, part.Entries[i].Val, thr, maxSize, damp, needSize);
-                    if (a > cut) above++;
-                    else if (a == cut) ties++;
+                    if (values[i] > cut) above++;
+                    else if (values[i] == cut) ties++;
                 }
-                _above[pi] = above;
+                _above[pi] += above;
                 _ties[pi] = ties;
-            });
+            }
             long remaining = need;
             for (int p = 0; p < np; p++) remaining -= _above[p];
             for (int p = 0; p < np; p++)

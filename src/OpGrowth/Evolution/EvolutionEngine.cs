@@ -38,8 +38,11 @@ internal sealed class EvolutionEngine<T> where T : unmanaged, IPauliKey<T>
     private readonly T[] _initKeys;
     private readonly double[] _initCoeffs;
     private PassAccumulator<T>? _acc;
-    private OperatorBuffer<T> _cur = new();
-    private OperatorBuffer<T> _spare = new();
+    /// <summary>
+    /// The operator: source of every pass and, once the pass's image sits in the accumulator, the destination of
+    /// its compaction (no second operator buffer; the source is dead by then).
+    /// </summary>
+    private readonly OperatorBuffer<T> _cur = new();
     private EngineState _state = new();
     private EvolutionSeries _series;
 
@@ -241,6 +244,42 @@ internal sealed class EvolutionEngine<T> where T : unmanaged, IPauliKey<T>
 
     /// <summary>Bytes held by the engine's arrays now.</summary>
     internal long HeldBytes => TrackedBytes;
+
+    private long _compactTicks;
+    private long _distinctTotal;
+    private long _emittedTotal;
+
+    /// <summary>Benchmark hook: contributions emitted and distinct strings accumulated, summed over all passes so far.</summary>
+    internal (long Emitted, long Distinct) PassVolume => (_emittedTotal, _distinctTotal);
+
+    /// <summary>Benchmark hook: seconds spent so far producing contributions, merging them, and compacting (wall clock).</summary>
+    internal (double Produce, double Merge, double Compact) PhaseSeconds
+        => (_runner.ProduceTicks / (double)Stopwatch.Frequency, _runner.MergeTicks / (double)Stopwatch.Frequency, _compactTicks / (double)Stopwatch.Frequency);
+
+    /// <summary>Benchmark hook: bytes held by the operator, the accumulator (and its distinct strings and partition bits), and the emit buffers.</summary>
+    internal (long Operator, long Accumulator, long Distinct, int Bits, long Buffers) HeldBreakdown
+        => (_cur.AllocatedBytes, _acc?.AllocatedBytes ?? 0, _acc?.Count ?? 0, _acc?.PartitionBits ?? 0, _runner.BufferBytes);
+
+    /// <summary>Benchmark hook: strings held now.</summary>
+    internal int StringCount => _cur.Count;
+
+    /// <summary>Benchmark hook: passes applied so far.</summary>
+    internal long PassCount => _state.Passes;
+
+    /// <summary>Benchmark hook: writes the operator and the engine state in the checkpoint format.</summary>
+    internal void SaveState(string path) => Save(path);
+
+    /// <summary>Benchmark hook: continues from a state written by <see cref="SaveState"/> (bit-identical continuation).</summary>
+    internal void LoadState(string path) => Load(path);
+
+    /// <summary>Benchmark hook: a checksum of the operator's keys and coefficients (equal for bit-identical operators).</summary>
+    internal ulong OperatorChecksum()
+    {
+        var sum = new Checksum64();
+        sum.Append(System.Runtime.InteropServices.MemoryMarshal.AsBytes(_cur.KeySpan));
+        sum.Append(System.Runtime.InteropServices.MemoryMarshal.AsBytes(_cur.CoeffSpan));
+        return sum.Value;
+    }
 
     /// <summary>
     /// Advances one segment of <paramref name="steps"/> steps (between two records), pass by pass. Cancellation is
@@ -472,19 +511,20 @@ internal sealed class EvolutionEngine<T> where T : unmanaged, IPauliKey<T>
         if (_acc is null || _acc.PartitionBits != _state.PartitionBits)
         {
             _acc = null;
-            _acc = new PassAccumulator<T>(_state.PartitionBits);
+            _acc = new PassAccumulator<T>(_state.PartitionBits, _cur.Count);
         }
         return _acc;
     }
 
-    private long TrackedBytes => _cur.AllocatedBytes + _spare.AllocatedBytes + (_acc?.AllocatedBytes ?? 0) + _runner.BufferBytes;
+    private long TrackedBytes => _cur.AllocatedBytes + (_acc?.AllocatedBytes ?? 0) + _runner.BufferBytes;
 
     private long ArrayBudget => MemoryBudget.ArrayBytes(_budget.MemoryBytes, _threads) + MemoryBudget.BufferReservePerThread * _threads;
 
     /// <summary>Bytes the accumulator may grow to in this pass.</summary>
     private long AccumulatorLimit(long extraOperators = 0)
     {
-        long dest = Math.Max(_spare.AllocatedBytes, EntryBytes * Math.Min(_budget.MaxStrings ?? 2L * _cur.Count, 2L * _cur.Count + 16));
+        // Room for the compaction to grow the operator's arrays (it writes into the source buffer, which may need to grow).
+        long dest = Math.Max(_cur.AllocatedBytes, EntryBytes * Math.Min(_budget.MaxStrings ?? 2L * _cur.Count, 2L * _cur.Count + 16));
         return ArrayBudget - _cur.AllocatedBytes - dest - _runner.BufferBytes - extraOperators;
     }
 
@@ -525,6 +565,7 @@ internal sealed class EvolutionEngine<T> where T : unmanaged, IPauliKey<T>
             var flag = new int[1];
             var map = new GroupRotationMap<T>(group, cos, sin, prune, flag);
             bool ok = _runner.Run(_cur.Keys, _cur.Coeffs, _cur.Count, map, acc, AccumulatorLimit(), ct, out emitted, flag, ImageCap());
+            _emittedTotal += emitted;
             // Too many branches for one string, or an image beyond the string budget's allowance or the memory budget:
             // apply the group in parts (exact: its generators commute). Only a single generator falls back to pruning.
             if (group.Count > 1 && (flag[0] != 0 || !ok))
@@ -536,11 +577,10 @@ internal sealed class EvolutionEngine<T> where T : unmanaged, IPauliKey<T>
             if (ok) break;
         }
         double before = prune > 0 ? _cur.NormSquared() : 0;
-        var stats = CompactInto(acc, Rule(damping), _spare);
+        var stats = CompactInto(acc, Rule(damping), _cur);
         // Weight lost to branch pruning. It can be negative: a pruned branch may have cancelled part of a kept
         // one. Booking it with its sign keeps ||O||^2 + discarded = 1 exact (the norm check of every report).
         double passLoss = prune > 0 ? before - (stats.KeptWeight + stats.DeletedWeight + stats.DampedWeight) : 0;
-        Swap();
         AfterPass(stats);
         return passLoss + stats.DeletedWeight + stats.DampedWeight;
     }
@@ -551,8 +591,7 @@ internal sealed class EvolutionEngine<T> where T : unmanaged, IPauliKey<T>
         var acc = Accumulator();
         acc.Clear();
         AddScaled(acc, _cur, 1.0);
-        var stats = CompactInto(acc, Rule(Damping(1)), _spare);
-        Swap();
+        var stats = CompactInto(acc, Rule(Damping(1)), _cur);
         AfterPass(stats);
         return stats.DeletedWeight + stats.DampedWeight;
     }
@@ -577,7 +616,10 @@ internal sealed class EvolutionEngine<T> where T : unmanaged, IPauliKey<T>
     {
         HeapValve();
         long room = Math.Max(0, ArrayBudget - _cur.AllocatedBytes - acc.AllocatedBytes - _runner.BufferBytes);
+        long t0 = Stopwatch.GetTimestamp();
         var stats = _compactor.Compact(acc, rule, dest, room / EntryBytes);
+        _compactTicks += Stopwatch.GetTimestamp() - t0;
+        _distinctTotal += stats.Distinct;
         if (stats.Kept < 0)
         {
             throw new ResourceLimitException(
@@ -587,8 +629,6 @@ internal sealed class EvolutionEngine<T> where T : unmanaged, IPauliKey<T>
         HeapValve();
         return stats;
     }
-
-    private void Swap() => (_cur, _spare) = (_spare, _cur);
 
     private void AfterPass(in CompactStats stats)
     {
@@ -611,7 +651,7 @@ internal sealed class EvolutionEngine<T> where T : unmanaged, IPauliKey<T>
     {
         var acc = Accumulator();
         acc.Clear();
-        if (!_runner.Run(src.Keys, src.Coeffs, src.Count, new CommutatorMap<T>(_compiled!, scale), acc, AccumulatorLimit(extra), ct))
+        if (!_runner.Run(src.Keys, src.Coeffs, src.Count, new LiouvillePassMap<T>(_compiled!, scale), acc, AccumulatorLimit(extra), ct))
         {
             throw new ResourceLimitException($"i[H, O] of {src.Count} strings does not fit the memory budget {MemoryBudget.Format(_budget.MemoryBytes)}");
         }
@@ -652,8 +692,7 @@ internal sealed class EvolutionEngine<T> where T : unmanaged, IPauliKey<T>
         AddScaled(fin, _k[1], dt / 3);
         AddScaled(fin, _k[2], dt / 3);
         AddScaled(fin, _k[3], dt / 6);
-        var stats = CompactInto(fin, Rule(Damping(1)), _spare);
-        Swap();
+        var stats = CompactInto(fin, Rule(Damping(1)), _cur);
         AfterPass(stats);
         return stats.DeletedWeight + stats.DampedWeight;
     }
@@ -688,8 +727,7 @@ internal sealed class EvolutionEngine<T> where T : unmanaged, IPauliKey<T>
             if (k > 20 && tn > 1e30) break;
         }
         if (!converged) throw new InputException($"the Taylor series did not converge at dt = {dt}; use a smaller --dt");
-        var stats = CompactInto(_sum, Rule(Damping(1)), _spare);
-        Swap();
+        var stats = CompactInto(_sum, Rule(Damping(1)), _cur);
         AfterPass(stats);
         return stats.DeletedWeight + stats.DampedWeight;
     }

@@ -17,7 +17,7 @@ namespace OpGrowth.Evolution;
 /// (every completion only multiplies by |cos|, |sin| &lt;= 1); the weight it carried leaves the
 /// operator's norm, and the engine books that loss as discarded weight.
 /// </summary>
-internal readonly struct GroupRotationMap<T> : IPauliMap<T> where T : unmanaged, IPauliKey<T>
+internal readonly struct GroupRotationMap<T> : IPassMap<T> where T : unmanaged, IPauliKey<T>
 {
     private readonly T[] _keys;
     private readonly double[] _cos;
@@ -45,7 +45,7 @@ internal readonly struct GroupRotationMap<T> : IPauliMap<T> where T : unmanaged,
     }
 
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
-    public void Apply(in T key, double coefficient, EmitBuffer<T> sink)
+    public void Apply(in T key, double coefficient, PassEmitter<T> sink)
     {
         var sites = sink.Sites;
         int ms = T.SupportSites(key, sites);
@@ -85,7 +85,7 @@ internal readonly struct GroupRotationMap<T> : IPauliMap<T> where T : unmanaged,
     }
 
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
-    private void Branch(int i, int m, int[] idx, T key, double amp, EmitBuffer<T> sink, ref int budget)
+    private void Branch(int i, int m, int[] idx, T key, double amp, PassEmitter<T> sink, ref int budget)
     {
         double prune = _prune;
         while (true)

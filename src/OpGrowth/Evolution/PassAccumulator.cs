@@ -1,3 +1,4 @@
+using System.Numerics;
 using System.Runtime.CompilerServices;
 using OpGrowth.Pauli;
 
@@ -20,14 +21,22 @@ internal sealed class PassAccumulator<T> where T : unmanaged, IPauliKey<T>
 
     internal readonly int Shift;
 
-    public PassAccumulator(int partitionBits)
+    /// <param name="partitionBits">log2 of the partition count.</param>
+    /// <param name="expectedCount">
+    /// Distinct strings expected (0: unknown). The partitions are presized for it, so an accumulator made for an
+    /// operator of known size does not reach that size through a series of resized arrays (garbage that the
+    /// collector may hold for a while). Capacity only: no result depends on it.
+    /// </param>
+    public PassAccumulator(int partitionBits, long expectedCount = 0)
     {
         ArgumentOutOfRangeException.ThrowIfLessThan(partitionBits, 1);
         ArgumentOutOfRangeException.ThrowIfGreaterThan(partitionBits, 16);
+        ArgumentOutOfRangeException.ThrowIfNegative(expectedCount);
         PartitionBits = partitionBits;
         Shift = 64 - partitionBits;
         Parts = new Part[1 << partitionBits];
-        for (int i = 0; i < Parts.Length; i++) Parts[i] = new Part();
+        int perPart = (int)Math.Min(1 << 26, Math.Max(16, expectedCount >> partitionBits));
+        for (int i = 0; i < Parts.Length; i++) Parts[i] = new Part(perPart);
     }
 
     /// <summary>Distinct strings held.</summary>
@@ -52,8 +61,8 @@ internal sealed class PassAccumulator<T> where T : unmanaged, IPauliKey<T>
         }
     }
 
-    /// <summary>Bytes one stored entry costs at worst: key + value at array capacity up to twice the count, plus 4 slots of 4 bytes.</summary>
-    public static int WorstBytesPerEntry => 2 * Unsafe.SizeOf<Entry>() + 16;
+    /// <summary>Bytes one stored entry costs at worst: key + value at array capacity up to 1.25 times the count, plus 4 slots of 4 bytes.</summary>
+    public static int WorstBytesPerEntry => (5 * Unsafe.SizeOf<Entry>() + 3) / 4 + 16;
 
     /// <summary>Forgets the content, keeps the capacity.</summary>
     public void Clear()
@@ -94,10 +103,18 @@ internal sealed class PassAccumulator<T> where T : unmanaged, IPauliKey<T>
 
     internal sealed class Part
     {
-        public Entry[] Entries = new Entry[16];
+        public Entry[] Entries;
         public int Count;
-        private int[] _slots = new int[32];
-        private int _mask = 31;
+        private int[] _slots;
+        private int _mask;
+
+        public Part(int capacity = 16)
+        {
+            Entries = new Entry[capacity];
+            int slots = (int)BitOperations.RoundUpToPowerOf2((uint)(2 * capacity));
+            _slots = new int[slots];
+            _mask = slots - 1;
+        }
 
         public long AllocatedBytes => (long)Entries.Length * Unsafe.SizeOf<Entry>() + (long)_slots.Length * 4;
 
@@ -115,6 +132,25 @@ internal sealed class PassAccumulator<T> where T : unmanaged, IPauliKey<T>
             if (System.Runtime.Intrinsics.X86.Sse.IsSupported)
             {
                 fixed (int* p = &_slots[(int)h & _mask]) System.Runtime.Intrinsics.X86.Sse.Prefetch0(p);
+            }
+        }
+
+        /// <summary>
+        /// Hints the cache line of the entry the first probed slot points to (call after <see cref="Prefetch"/>
+        /// had time to bring the slot in). The second half of a two-stage prefetch: without it every update of
+        /// a table that is not cache-resident waits for the entry's line after the slot's.
+        /// </summary>
+        [MethodImpl(MethodImplOptions.AggressiveInlining)]
+        public unsafe void PrefetchEntry(ulong h)
+        {
+            if (System.Runtime.Intrinsics.X86.Sse.IsSupported)
+            {
+                int s = _slots[(int)h & _mask];
+                var entries = Entries;
+                if ((uint)(s - 1) < (uint)entries.Length)
+                {
+                    fixed (Entry* p = &entries[s - 1]) System.Runtime.Intrinsics.X86.Sse.Prefetch0(p);
+                }
             }
         }
 
@@ -142,13 +178,22 @@ internal sealed class PassAccumulator<T> where T : unmanaged, IPauliKey<T>
 
         private void Insert(in T key, double value, int slot)
         {
-            if (Count == Entries.Length) Array.Resize(ref Entries, Entries.Length * 2);
+            if (Count == Entries.Length) Grow();
             ref Entry e = ref Entries[Count];
             e.Key = key;
             e.Val = value;
             _slots[slot] = ++Count;
             if (2 * Count > _mask + 1) Rehash((_mask + 1) * 2);
         }
+
+        /// <summary>
+        /// Grows the entry array by a quarter (not by doubling): the arrays are kept across passes, so their
+        /// capacity is the largest image a partition has held plus at most 25% (doubling left up to 100%, on
+        /// average about 40%, of the largest memory item of a pass unused). Partition and insertion order, and
+        /// with them all results, do not depend on the capacity.
+        /// </summary>
+        [MethodImpl(MethodImplOptions.NoInlining)]
+        private void Grow() => Array.Resize(ref Entries, Entries.Length + Math.Max(16, Entries.Length >> 2));
 
         private void Rehash(int size)
         {
