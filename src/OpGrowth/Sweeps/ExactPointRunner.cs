@@ -227,8 +227,13 @@ public sealed class ExactPointRunner : IPointRunner
         var e = point.Engine;
         var model = pm.Model;
         var (blocks, groups) = Estimator(e, model);
+        // Above N = 12 the planner's t* (quick searches at N = 10 and 12, extrapolated; shared by the seeds of a
+        // size and usually already made for the log line before the point) starts the search near t* instead of
+        // at the inverse local energy scale, which saves the early evaluations far below the level.
+        double? guess = point.N > 12 ? Estimate(point).TStar : null;
         var r = ScramblingTimeSearch.Run(model.Hamiltonian, new ScramblingTimeSearchOptions
         {
+            Guess = guess,
             Operator = pm.Probe,
             MajoranaSize = model.SizeMeasure == SizeMeasure.Majoranas,
             MaxTime = e.Time,

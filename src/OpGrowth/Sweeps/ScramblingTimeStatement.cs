@@ -83,7 +83,9 @@ public sealed record ScramblingTimeStatement
         if (Route == "bound" || Value is null)
             return Low is double lb ? $"t* at N = {N}: > {lb.ToString("0.##", ci)} (bound: {Method})" : $"t* at N = {N}: not quoted ({Method})";
         string v = Uncertainty is double u && u > 0 ? Reporting.NumberFormat.ValueWithUncertainty(Value.Value, u) : Value.Value.ToString("0.###", ci);
-        string band = Low is double lo && High is double hi ? $", band {lo.ToString("0.##", ci)}..{hi.ToString("0.##", ci)}" : "";
+        // The band's ends to the value's decimals ("6.31..6.70", not "6.31..6.7").
+        string fmt = Uncertainty is double su && su > 0 && Reporting.NumberFormat.RoundUncertainty(su).Decimals is int d && d is >= 0 and <= 6 ? "F" + d.ToString(ci) : "0.##";
+        string band = Low is double lo && High is double hi ? $", band {lo.ToString(fmt, ci)}..{hi.ToString(fmt, ci)}" : "";
         return $"t* at N = {N}: {v}{band} ({Route}: {Method})";
     }
 }

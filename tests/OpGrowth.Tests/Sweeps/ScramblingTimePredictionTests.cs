@@ -16,6 +16,16 @@ public class ScramblingTimePredictionTests
     }
 
     [Fact]
+    public void Statement_Text_BandHasTheValuesDecimals()
+    {
+        // 6.51 +- 0.10: two-sigma band 6.31..6.71, both ends to the two decimals of the value (a trailing zero kept).
+        var st = ScramblingTimeStatement.Banded("predicted", 22, 6.51, 0.10, "front", "basis");
+        Assert.Contains("6.51 ± 0.10, band 6.31..6.71", st.Text(), StringComparison.Ordinal);
+        var round = ScramblingTimeStatement.Banded("predicted", 22, 6.50, 0.10, "front", "basis");
+        Assert.Contains("band 6.30..6.70", round.Text(), StringComparison.Ordinal);
+    }
+
+    [Fact]
     public void ArrivalAt_InterpolatesInsideAndExtrapolatesWithVb()
     {
         // Arrivals 0, 1, 2, 3 (converged to distance 3) with uncertainty 0.1: d = 2.5 -> 2.5; d = 5 -> 3 + 2/v_B with
