@@ -63,17 +63,7 @@ internal readonly struct ChainKey32 : IPauliKey<ChainKey32>
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
     public static bool Overlaps(in ChainKey32 a, in ChainKey32 b) => (a.Support & b.Support) != 0;
 
-    public static int SupportSites(in ChainKey32 a, Span<int> sites)
-    {
-        uint s = a.Support;
-        int k = 0;
-        while (s != 0)
-        {
-            sites[k++] = BitOperations.TrailingZeroCount(s);
-            s &= s - 1;
-        }
-        return k;
-    }
+    public static int SupportSites(in ChainKey32 a, Span<int> sites) => PauliBits.Sites(a.Support, sites);
 
     public int Weight => BitOperations.PopCount(Support);
 

@@ -69,8 +69,7 @@ internal readonly struct ChainKey48 : IPauliKey<ChainKey48>
         var p = new ChainKey48(a.Lo ^ b.Lo, a.Hi ^ b.Hi);
         ulong ax = a.X, az = a.Z, bx = b.X, bz = b.Z;
         // Same phase rule as Pauli64.
-        phase = (BitOperations.PopCount(ax & az) + BitOperations.PopCount(bx & bz)
-                 - BitOperations.PopCount(p.X & p.Z) + 2 * BitOperations.PopCount(az & bx)) & 3;
+        phase = PauliBits.ProductPhase(ax, az, bx, bz, p.X, p.Z);
         return p;
     }
 
@@ -85,17 +84,7 @@ internal readonly struct ChainKey48 : IPauliKey<ChainKey48>
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
     public static bool Overlaps(in ChainKey48 a, in ChainKey48 b) => (a.Support & b.Support) != 0;
 
-    public static int SupportSites(in ChainKey48 a, Span<int> sites)
-    {
-        ulong s = a.Support;
-        int k = 0;
-        while (s != 0)
-        {
-            sites[k++] = BitOperations.TrailingZeroCount(s);
-            s &= s - 1;
-        }
-        return k;
-    }
+    public static int SupportSites(in ChainKey48 a, Span<int> sites) => PauliBits.Sites(a.Support, sites);
 
     public int Weight => BitOperations.PopCount(Support);
 
@@ -117,11 +106,7 @@ internal readonly struct ChainKey48 : IPauliKey<ChainKey48>
     {
         // Pauli64's hash of the same string.
         [MethodImpl(MethodImplOptions.AggressiveInlining)]
-        get
-        {
-            ulong x = X, z = Z;
-            return PauliBits.Mix(x * 0x9E3779B97F4A7C15UL ^ BitOperations.RotateLeft(z, 32) ^ z * 0xC2B2AE3D27D4EB4FUL);
-        }
+        get => PauliBits.Hash(X, Z);
     }
 
     public bool Equals(ChainKey48 other) => Lo == other.Lo && Hi == other.Hi;

@@ -82,19 +82,13 @@ internal static partial class LanczosEngine
             var sw = Stopwatch.StartNew();
             var cpu0 = Process.GetCurrentProcess().TotalProcessorTime;
             long predicted = (long)Math.Ceiling(cur.Count * growth * 1.1);
-            if (opt.MaxStrings == 0 && opt.StopAtStrings > 0 && n > 1 && predicted > opt.StopAtStrings)
-            {
-                stop = LanczosStopReason.StringLimit;
-                stopMessage = FormattableString.Invariant($"string limit: step {n} would hold about {predicted:N0} strings, above the limit of {opt.StopAtStrings:N0}");
-                break;
-            }
             // The map driver's emit buffers: one block of inputs times the products per input (sampled),
             // with up to 2x slack from doubling, plus their initial streams.
-            double products = ProductsPerInput(basis, cur);
-            if (opt.MaxStrings == 0 && opt.StopAtProducts > 0 && n > 1 && workDone + cur.Count * products > opt.StopAtProducts)
+            double products = ProductsPerInput(basis, cur.Count, i => (cur.Keys[i], cur.Coefficients[i]));
+            if (opt.MaxStrings == 0 && LimitReached(opt, n, predicted, workDone, cur.Count, products) is { } limit)
             {
                 stop = LanczosStopReason.StringLimit;
-                stopMessage = FormattableString.Invariant($"work limit: step {n} would bring the commutator products to about {Reporting.NumberFormat.Number(workDone + cur.Count * products, 3)} ({cur.Count:N0} strings times {products:F0} terms each), above the limit of {Reporting.NumberFormat.Number(opt.StopAtProducts, 3)} for the run");
+                stopMessage = limit;
                 break;
             }
             workDone += cur.Count * products;
@@ -265,23 +259,36 @@ internal static partial class LanczosEngine
         return true;
     }
 
-    /// <summary>Mean number of contributions the map emits per input string, from up to 256 evenly spread inputs.</summary>
-    private static double ProductsPerInput<T, TBasis>(in TBasis basis, PauliOperator<T> o)
+    /// <summary>
+    /// Whether step <paramref name="n"/> would pass the run's string limit (about <paramref name="predicted"/>
+    /// strings) or work limit (<paramref name="workDone"/> products so far plus <paramref name="inputs"/> times
+    /// <paramref name="products"/>); the stop message, or null. Both routes stop on the same rule.
+    /// </summary>
+    private static string? LimitReached(LanczosOptions opt, int n, long predicted, double workDone, long inputs, double products)
+    {
+        if (n <= 1) return null;
+        if (opt.StopAtStrings > 0 && predicted > opt.StopAtStrings)
+            return FormattableString.Invariant($"string limit: step {n} would hold about {predicted:N0} strings, above the limit of {opt.StopAtStrings:N0}");
+        if (opt.StopAtProducts > 0 && workDone + inputs * products > opt.StopAtProducts)
+            return FormattableString.Invariant($"work limit: step {n} would bring the commutator products to about {Reporting.NumberFormat.Number(workDone + inputs * products, 3)} ({inputs:N0} strings times {products:F0} terms each), above the limit of {Reporting.NumberFormat.Number(opt.StopAtProducts, 3)} for the run");
+        return null;
+    }
+
+    /// <summary>Mean number of contributions the map emits per input string, from up to 256 evenly spread inputs (<paramref name="item"/> gives input i).</summary>
+    private static double ProductsPerInput<T, TBasis>(in TBasis basis, int count, Func<int, (T Key, double Value)> item)
         where T : unmanaged, IPauliKey<T>
         where TBasis : struct, IKrylovBasis<T>
     {
-        if (o.Count == 0) return 0;
+        if (count == 0) return 0;
         var sink = new EmitBuffer<T>();
         sink.Reset(63, 1);
-        int samples = Math.Min(256, o.Count);
+        int samples = Math.Min(256, count);
         long total = 0;
-        var keys = o.Keys;
-        var coeffs = o.Coefficients;
         for (int i = 0; i < samples; i++)
         {
-            int idx = (int)((long)i * o.Count / samples);
+            var (key, value) = item((int)((long)i * count / samples));
             Array.Clear(sink.Counts);
-            basis.Apply(keys[idx], coeffs[idx], sink);
+            basis.Apply(key, value, sink);
             total += sink.Counts[0];
         }
         return (double)total / samples;

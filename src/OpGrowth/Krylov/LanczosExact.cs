@@ -69,17 +69,12 @@ internal static partial class LanczosEngine
                 var cpu0 = Process.GetCurrentProcess().TotalProcessorTime;
                 // The same prediction as the managed route: it sets the table's partitions and capacities, hence the order.
                 long predicted = (long)Math.Ceiling(cur.Count * growth * 1.1);
-                if (opt.StopAtStrings > 0 && n > 1 && predicted > opt.StopAtStrings)
+                var items = cur;
+                double products = ProductsPerInput(basis, cur.Count, i => (items.Items[i].Key, items.Items[i].Value));
+                if (LimitReached(opt, n, predicted, workDone, cur.Count, products) is { } limit)
                 {
                     stop = LanczosStopReason.StringLimit;
-                    stopMessage = FormattableString.Invariant($"string limit: step {n} would hold about {predicted:N0} strings, above the limit of {opt.StopAtStrings:N0}");
-                    break;
-                }
-                double products = ProductsPerInput(basis, cur);
-                if (opt.StopAtProducts > 0 && n > 1 && workDone + cur.Count * products > opt.StopAtProducts)
-                {
-                    stop = LanczosStopReason.StringLimit;
-                    stopMessage = FormattableString.Invariant($"work limit: step {n} would bring the commutator products to about {Reporting.NumberFormat.Number(workDone + cur.Count * products, 3)} ({cur.Count:N0} strings times {products:F0} terms each), above the limit of {Reporting.NumberFormat.Number(opt.StopAtProducts, 3)} for the run");
+                    stopMessage = limit;
                     break;
                 }
                 workDone += cur.Count * products;
@@ -304,26 +299,5 @@ internal static partial class LanczosEngine
         else Parallel.For(0, threads, new ParallelOptions { MaxDegreeOfParallelism = threads }, Part);
         int lo0 = lo.Min(), hi0 = hi.Max(), span0 = span.Max();
         return hi0 < 0 ? (-1, -1, 0) : (lo0, hi0, span0);
-    }
-
-    /// <summary>Mean number of contributions the map emits per input string, from up to 256 evenly spread inputs.</summary>
-    private static double ProductsPerInput<T, TBasis>(in TBasis basis, SlotVector<T> o)
-        where T : unmanaged, IPauliKey<T>
-        where TBasis : struct, IKrylovBasis<T>
-    {
-        if (o.Count == 0) return 0;
-        var sink = new EmitBuffer<T>();
-        sink.Reset(63, 1);
-        int samples = Math.Min(256, o.Count);
-        long total = 0;
-        var items = o.Items;
-        for (int i = 0; i < samples; i++)
-        {
-            int idx = (int)((long)i * o.Count / samples);
-            Array.Clear(sink.Counts);
-            basis.Apply(items[idx].Key, items[idx].Value, sink);
-            total += sink.Counts[0];
-        }
-        return (double)total / samples;
     }
 }

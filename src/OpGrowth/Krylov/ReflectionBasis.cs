@@ -1,3 +1,4 @@
+using System.Runtime.CompilerServices;
 using OpGrowth.Pauli;
 
 namespace OpGrowth.Krylov;
@@ -37,28 +38,23 @@ internal readonly struct ReflectionBasis<T> : IKrylovBasis<T> where T : unmanage
     public void Apply(in T key, double coefficient, EmitBuffer<T> sink)
     {
         bool sSym = KeyWords<T>.Reflect(key, _mirror).Equals(key);
-        double scale = sSym ? 0.5 : 1.0;
-        var sites = sink.Sites;
-        int m = T.SupportSites(key, sites);
-        var hk = _h.Keys;
-        var hc = _h.Coefficients;
-        var start = _h.SiteStart;
-        var rows = _h.SiteTerms;
-        double c2 = 2.0 * coefficient * scale;
-        for (int a = 0; a < m; a++)
+        LiouvilleTerms.Apply(_h, sSym ? 0.5 : 1.0, key, coefficient, new ClassSink(this, sink));
+    }
+
+    /// <summary>Adds each product to its pair's representative, doubled when the product is symmetric.</summary>
+    private readonly struct ClassSink(ReflectionBasis<T> basis, EmitBuffer<T> buffer) : ITermSink<T>
+    {
+        public int[] Sites
         {
-            int j = sites[a];
-            for (int q = start[j], end = start[j + 1]; q < end; q++)
-            {
-                int t = rows[q];
-                ref readonly T term = ref hk[t];
-                if (!T.Anticommute(term, key)) continue;
-                if (a > 0 && T.OverlapBelow(term, key, j)) continue;
-                T p = T.Multiply(term, key, out int k);
-                T cp = Canonical(p, out bool pSym);
-                double v = k == 1 ? -c2 * hc[t] : c2 * hc[t];
-                sink.Emit(cp, pSym ? 2 * v : v);
-            }
+            [MethodImpl(MethodImplOptions.AggressiveInlining)]
+            get => buffer.Sites;
+        }
+
+        [MethodImpl(MethodImplOptions.AggressiveInlining)]
+        public void Emit(in T key, double value)
+        {
+            T cp = basis.Canonical(key, out bool pSym);
+            buffer.Emit(cp, pSym ? 2 * value : value);
         }
     }
 
@@ -66,20 +62,20 @@ internal readonly struct ReflectionBasis<T> : IKrylovBasis<T> where T : unmanage
     {
         if (typeof(T) == typeof(Pauli64))
         {
-            var pa = System.Runtime.CompilerServices.Unsafe.As<T, Pauli64>(ref System.Runtime.CompilerServices.Unsafe.AsRef(in a));
-            var pb = System.Runtime.CompilerServices.Unsafe.As<T, Pauli64>(ref System.Runtime.CompilerServices.Unsafe.AsRef(in b));
+            var pa = Unsafe.As<T, Pauli64>(ref Unsafe.AsRef(in a));
+            var pb = Unsafe.As<T, Pauli64>(ref Unsafe.AsRef(in b));
             return pa.Z != pb.Z ? pa.Z < pb.Z : pa.X < pb.X;
         }
         if (typeof(T) == typeof(ChainKey32))
         {
             // z in the high half: comparing the words compares z first, then x, as for the wider keys.
-            return System.Runtime.CompilerServices.Unsafe.As<T, ChainKey32>(ref System.Runtime.CompilerServices.Unsafe.AsRef(in a)).Bits
-                 < System.Runtime.CompilerServices.Unsafe.As<T, ChainKey32>(ref System.Runtime.CompilerServices.Unsafe.AsRef(in b)).Bits;
+            return Unsafe.As<T, ChainKey32>(ref Unsafe.AsRef(in a)).Bits
+                 < Unsafe.As<T, ChainKey32>(ref Unsafe.AsRef(in b)).Bits;
         }
         if (typeof(T) == typeof(ChainKey48))
         {
-            var ka = System.Runtime.CompilerServices.Unsafe.As<T, ChainKey48>(ref System.Runtime.CompilerServices.Unsafe.AsRef(in a));
-            var kb = System.Runtime.CompilerServices.Unsafe.As<T, ChainKey48>(ref System.Runtime.CompilerServices.Unsafe.AsRef(in b));
+            var ka = Unsafe.As<T, ChainKey48>(ref Unsafe.AsRef(in a));
+            var kb = Unsafe.As<T, ChainKey48>(ref Unsafe.AsRef(in b));
             return ka.Z != kb.Z ? ka.Z < kb.Z : ka.X < kb.X;
         }
         int w = KeyWords<T>.Words;

@@ -1,3 +1,4 @@
+using System.Runtime.CompilerServices;
 using OpGrowth.Pauli;
 
 namespace OpGrowth.Krylov;
@@ -27,29 +28,19 @@ internal readonly struct LineClassBasis<T> : IKrylovBasis<T> where T : unmanaged
     public double Weight(in T key) => 1.0;
 
     public void Apply(in T key, double coefficient, EmitBuffer<T> sink)
+        => LiouvilleTerms.Apply(_window, 1.0, KeyWords<T>.ShiftUp(key, _r), coefficient, new ShiftSink(sink));
+
+    /// <summary>Moves each product back to start at site 0 (the class representative).</summary>
+    private readonly struct ShiftSink(EmitBuffer<T> buffer) : ITermSink<T>
     {
-        T s = KeyWords<T>.ShiftUp(key, _r);
-        var sites = sink.Sites;
-        int m = T.SupportSites(s, sites);
-        var hk = _window.Keys;
-        var hc = _window.Coefficients;
-        var start = _window.SiteStart;
-        var rows = _window.SiteTerms;
-        double c2 = 2.0 * coefficient;
-        for (int a = 0; a < m; a++)
+        public int[] Sites
         {
-            int j = sites[a];
-            for (int q = start[j], end = start[j + 1]; q < end; q++)
-            {
-                int t = rows[q];
-                ref readonly T term = ref hk[t];
-                if (!T.Anticommute(term, s)) continue;
-                if (a > 0 && T.OverlapBelow(term, s, j)) continue;
-                T p = T.Multiply(term, s, out int k);
-                // Same sign rule as the core commutator: i[P_t, S] = -2 P3 (k = 1) or +2 P3 (k = 3).
-                sink.Emit(KeyWords<T>.ShiftDown(p, p.FirstSite), k == 1 ? -c2 * hc[t] : c2 * hc[t]);
-            }
+            [MethodImpl(MethodImplOptions.AggressiveInlining)]
+            get => buffer.Sites;
         }
+
+        [MethodImpl(MethodImplOptions.AggressiveInlining)]
+        public void Emit(in T key, double value) => buffer.Emit(KeyWords<T>.ShiftDown(key, key.FirstSite), value);
     }
 }
 
@@ -81,27 +72,23 @@ internal readonly struct RingClassBasis<T> : IKrylovBasis<T> where T : unmanaged
     public void Apply(in T key, double coefficient, EmitBuffer<T> sink)
     {
         Canonical(key, _l, out int ps);
-        var sites = sink.Sites;
-        int m = T.SupportSites(key, sites);
-        var hk = _ring.Keys;
-        var hc = _ring.Coefficients;
-        var start = _ring.SiteStart;
-        var rows = _ring.SiteTerms;
-        double c2 = 2.0 * coefficient;
-        for (int a = 0; a < m; a++)
+        LiouvilleTerms.Apply(_ring, 1.0, key, coefficient, new ClassSink(sink, _l, ps));
+    }
+
+    /// <summary>Adds each product to its rotation class's representative with the factor p_S / p_P.</summary>
+    private readonly struct ClassSink(EmitBuffer<T> buffer, int l, int ps) : ITermSink<T>
+    {
+        public int[] Sites
         {
-            int j = sites[a];
-            for (int q = start[j], end = start[j + 1]; q < end; q++)
-            {
-                int t = rows[q];
-                ref readonly T term = ref hk[t];
-                if (!T.Anticommute(term, key)) continue;
-                if (a > 0 && T.OverlapBelow(term, key, j)) continue;
-                T p = T.Multiply(term, key, out int k);
-                T cp = Canonical(p, _l, out int pp);
-                double v = k == 1 ? -c2 * hc[t] : c2 * hc[t];
-                sink.Emit(cp, v * ps / pp);
-            }
+            [MethodImpl(MethodImplOptions.AggressiveInlining)]
+            get => buffer.Sites;
+        }
+
+        [MethodImpl(MethodImplOptions.AggressiveInlining)]
+        public void Emit(in T key, double value)
+        {
+            T cp = Canonical(key, l, out int pp);
+            buffer.Emit(cp, value * ps / pp);
         }
     }
 

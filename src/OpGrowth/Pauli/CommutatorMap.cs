@@ -1,10 +1,13 @@
+using System.Runtime.CompilerServices;
+
 namespace OpGrowth.Pauli;
 
 /// <summary>
 /// The Liouvillian action O -> scale * i[H, O] for Hermitian H and O (real coefficients).
 /// For an anticommuting pair, i[P_t, S] = 2 i^{k+1} P_t S with P_t S = i^k P3, k odd:
 /// k = 1 gives -2 P3, k = 3 gives +2 P3 (conventions: Heisenberg evolution).
-/// Each term overlapping S is visited once, at the lowest site it shares with S.
+/// Each term overlapping S is visited once, at the lowest site it shares with S (the loop is
+/// <see cref="LiouvilleTerms"/>, shared with the evolution's pass map).
 /// </summary>
 public readonly struct CommutatorMap<T> : IPauliMap<T> where T : unmanaged, IPauliKey<T>
 {
@@ -18,26 +21,17 @@ public readonly struct CommutatorMap<T> : IPauliMap<T> where T : unmanaged, IPau
     }
 
     public void Apply(in T key, double coefficient, EmitBuffer<T> sink)
+        => LiouvilleTerms.Apply(_h, _scale, key, coefficient, new Sink(sink));
+
+    private readonly struct Sink(EmitBuffer<T> buffer) : ITermSink<T>
     {
-        var sites = sink.Sites;
-        int m = T.SupportSites(key, sites);
-        var hk = _h.Keys;
-        var hc = _h.Coefficients;
-        var start = _h.SiteStart;
-        var rows = _h.SiteTerms;
-        double c2 = 2.0 * coefficient * _scale;
-        for (int a = 0; a < m; a++)
+        public int[] Sites
         {
-            int j = sites[a];
-            for (int r = start[j], end = start[j + 1]; r < end; r++)
-            {
-                int t = rows[r];
-                ref readonly T term = ref hk[t];
-                if (!T.Anticommute(term, key)) continue;
-                if (a > 0 && T.OverlapBelow(term, key, j)) continue;
-                T p = T.Multiply(term, key, out int k);
-                sink.Emit(p, k == 1 ? -c2 * hc[t] : c2 * hc[t]);
-            }
+            [MethodImpl(MethodImplOptions.AggressiveInlining)]
+            get => buffer.Sites;
         }
+
+        [MethodImpl(MethodImplOptions.AggressiveInlining)]
+        public void Emit(in T key, double value) => buffer.Emit(key, value);
     }
 }

@@ -72,4 +72,30 @@ internal static class PauliBits
 
     [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveInlining)]
     public static ulong LowMask(int site) => site >= 64 ? ulong.MaxValue : (1UL << site) - 1;
+
+    /// <summary>The hash of the string with x bits <paramref name="x"/> and z bits <paramref name="z"/> (one word each): every single-word key gives this number.</summary>
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveInlining)]
+    public static ulong Hash(ulong x, ulong z) => Mix(x * 0x9E3779B97F4A7C15UL ^ System.Numerics.BitOperations.RotateLeft(z, 32) ^ z * 0xC2B2AE3D27D4EB4FUL);
+
+    /// <summary>
+    /// k in P_a P_b = i^k P_p for one-word strings a, b and their product p (x and z bits): |x&amp;z| of a, of b,
+    /// minus that of the product, plus 2 |z_a &amp; x_b|, modulo 4.
+    /// </summary>
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveInlining)]
+    public static int ProductPhase(ulong ax, ulong az, ulong bx, ulong bz, ulong px, ulong pz)
+        => (System.Numerics.BitOperations.PopCount(ax & az) + System.Numerics.BitOperations.PopCount(bx & bz)
+            - System.Numerics.BitOperations.PopCount(px & pz) + 2 * System.Numerics.BitOperations.PopCount(az & bx)) & 3;
+
+    /// <summary>Writes the set bits of <paramref name="support"/> in increasing order; returns how many.</summary>
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveInlining)]
+    public static int Sites(ulong support, System.Span<int> sites)
+    {
+        int k = 0;
+        while (support != 0)
+        {
+            sites[k++] = System.Numerics.BitOperations.TrailingZeroCount(support);
+            support &= support - 1;
+        }
+        return k;
+    }
 }

@@ -30,8 +30,7 @@ public readonly struct Pauli64 : IPauliKey<Pauli64>
     public static Pauli64 Multiply(in Pauli64 a, in Pauli64 b, out int phase)
     {
         ulong x3 = a.X ^ b.X, z3 = a.Z ^ b.Z;
-        phase = (BitOperations.PopCount(a.X & a.Z) + BitOperations.PopCount(b.X & b.Z)
-                 - BitOperations.PopCount(x3 & z3) + 2 * BitOperations.PopCount(a.Z & b.X)) & 3;
+        phase = PauliBits.ProductPhase(a.X, a.Z, b.X, b.Z, x3, z3);
         return new Pauli64(x3, z3);
     }
 
@@ -46,17 +45,7 @@ public readonly struct Pauli64 : IPauliKey<Pauli64>
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
     public static bool Overlaps(in Pauli64 a, in Pauli64 b) => ((a.X | a.Z) & (b.X | b.Z)) != 0;
 
-    public static int SupportSites(in Pauli64 a, Span<int> sites)
-    {
-        ulong s = a.X | a.Z;
-        int k = 0;
-        while (s != 0)
-        {
-            sites[k++] = BitOperations.TrailingZeroCount(s);
-            s &= s - 1;
-        }
-        return k;
-    }
+    public static int SupportSites(in Pauli64 a, Span<int> sites) => PauliBits.Sites(a.X | a.Z, sites);
 
     public int Weight => BitOperations.PopCount(X | Z);
 
@@ -77,7 +66,7 @@ public readonly struct Pauli64 : IPauliKey<Pauli64>
     public ulong Hash64
     {
         [MethodImpl(MethodImplOptions.AggressiveInlining)]
-        get => PauliBits.Mix(X * 0x9E3779B97F4A7C15UL ^ BitOperations.RotateLeft(Z, 32) ^ Z * 0xC2B2AE3D27D4EB4FUL);
+        get => PauliBits.Hash(X, Z);
     }
 
     public bool Equals(Pauli64 other) => X == other.X && Z == other.Z;
