@@ -125,7 +125,7 @@ internal static partial class LanczosEngine
                     accCount = table.Count;
                     accBytes = table.AllocatedBytes;
                     accounted = held + accBytes;
-                    a = table.Compact(opt.Threads);
+                    a = table.Compact(opt.Threads, keepSpare: true);
                 }
                 finally
                 {
@@ -136,7 +136,8 @@ internal static partial class LanczosEngine
                 double bn;
                 try
                 {
-                    bn = Math.Sqrt(NormSquared(a, basis));
+                    bn = Math.Sqrt(NormSquared(a, basis, opt.Threads));
+                    a.TrimExcess();
                 }
                 catch
                 {
@@ -236,34 +237,66 @@ internal static partial class LanczosEngine
     /// (A|A) in the representation: unweighted, the sum of squares of the coefficients as one contiguous
     /// array, exactly as <see cref="KrylovVectors.NormSquared"/> sums them; weighted, w c c in storage order.
     /// </summary>
-    internal static double NormSquared<T, TBasis>(SlotVector<T> a, in TBasis basis)
+    internal static double NormSquared<T, TBasis>(SlotVector<T> a, in TBasis basis, int threads = 1)
         where T : unmanaged, IPauliKey<T>
         where TBasis : struct, IKrylovBasis<T>
     {
         var items = a.Items;
         if (!basis.IsWeighted)
         {
-            // One contiguous copy of the coefficients, in unmanaged memory freed at once (TensorPrimitives sums
-            // in an order that depends only on the length, not on the address: measured, same bits at all eight
-            // alignments of a double).
+            // One contiguous copy of the coefficients (TensorPrimitives sums in an order that depends only on
+            // the length, not on the address: measured, same bits at all eight alignments of a double). The
+            // copy goes into the vector's spare tail when it has one (the rest of the step table: pages
+            // already touched, where fresh memory would be faulted in page by page), else into unmanaged
+            // memory freed at once; the copy is split over the threads, the sum is one serial pass.
+            var spare = a.SpareDoubles;
             unsafe
             {
-                var c = (double*)NativeMemory.Alloc((nuint)Math.Max(1, items.Length), sizeof(double));
+                double* c = null;
                 try
                 {
-                    var span = new Span<double>(c, items.Length);
-                    for (int i = 0; i < span.Length; i++) span[i] = items[i].Value;
+                    Span<double> span;
+                    if (spare.Length >= items.Length)
+                    {
+                        span = spare[..items.Length];
+                    }
+                    else
+                    {
+                        c = (double*)NativeMemory.Alloc((nuint)Math.Max(1, items.Length), sizeof(double));
+                        span = new Span<double>(c, items.Length);
+                    }
+                    CopyValues(a, span, threads);
                     return TensorPrimitives.SumOfSquares(span);
                 }
                 finally
                 {
-                    NativeMemory.Free(c);
+                    if (c != null) NativeMemory.Free(c);
                 }
             }
         }
         double s = 0;
         for (int i = 0; i < items.Length; i++) s += basis.Weight(items[i].Key) * items[i].Value * items[i].Value;
         return s;
+    }
+
+    /// <summary>Copies the coefficients of <paramref name="a"/> into <paramref name="target"/> (one slice per thread).</summary>
+    private static unsafe void CopyValues<T>(SlotVector<T> a, Span<double> target, int threads)
+        where T : unmanaged, IPauliKey<T>
+    {
+        int n = a.Count;
+        threads = Math.Max(1, Math.Min(threads, n / (1 << 16)));
+        var src = a.Pointer;
+        fixed (double* dst0 = target)
+        {
+            var dst = dst0;
+            void Part(int t)
+            {
+                int s = (int)((long)n * t / threads), e = (int)((long)n * (t + 1) / threads);
+                for (int i = s; i < e; i++) dst[i] = src[i].Value;
+            }
+            if (threads == 1) Part(0);
+            else Parallel.For(0, threads, new ParallelOptions { MaxDegreeOfParallelism = threads }, Part);
+        }
     }
 
     /// <summary>Multiplies every coefficient by <paramref name="factor"/> and measures the support (lowest and highest site, largest span).</summary>

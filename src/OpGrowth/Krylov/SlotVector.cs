@@ -22,6 +22,7 @@ internal struct KeyValue<T> where T : unmanaged
 internal sealed unsafe class SlotVector<T> : IDisposable where T : unmanaged, IPauliKey<T>
 {
     private KeyValue<T>* _items;
+    private long _spareBytes;
 
     /// <summary>Number of qubits.</summary>
     public int N { get; }
@@ -29,11 +30,37 @@ internal sealed unsafe class SlotVector<T> : IDisposable where T : unmanaged, IP
     /// <summary>Number of stored strings.</summary>
     public int Count { get; private set; }
 
-    internal SlotVector(int n, KeyValue<T>* items, int count)
+    /// <summary>A vector of <paramref name="count"/> pairs at <paramref name="items"/>, in a block with <paramref name="spareBytes"/> more bytes after them (see <see cref="TrimExcess"/>).</summary>
+    internal SlotVector(int n, KeyValue<T>* items, int count, long spareBytes = 0)
     {
         N = n;
         _items = items;
         Count = count;
+        _spareBytes = spareBytes;
+    }
+
+    /// <summary>
+    /// The block's bytes after the stored pairs, 8-byte aligned: the rest of the step table it was compacted
+    /// from, pages already touched, usable as scratch until <see cref="TrimExcess"/> gives them back.
+    /// </summary>
+    internal Span<double> SpareDoubles
+    {
+        get
+        {
+            if (_items == null || _spareBytes <= 0) return default;
+            long used = (long)Count * sizeof(KeyValue<T>);
+            long start = (used + 7) & ~7L;
+            long doubles = (used + _spareBytes - start) / sizeof(double);
+            return doubles <= 0 ? default : new Span<double>((byte*)_items + start, (int)Math.Min(doubles, Array.MaxLength));
+        }
+    }
+
+    /// <summary>Shrinks the block to the stored pairs (the tail's pages go back to the system).</summary>
+    public void TrimExcess()
+    {
+        if (_spareBytes <= 0 || _items == null) return;
+        _items = (KeyValue<T>*)NativeMemory.Realloc(_items, (nuint)(Math.Max(1, Count) * (long)sizeof(KeyValue<T>)));
+        _spareBytes = 0;
     }
 
     /// <summary>A copy of an operator (any order it has).</summary>
@@ -59,7 +86,7 @@ internal sealed unsafe class SlotVector<T> : IDisposable where T : unmanaged, IP
 
     internal KeyValue<T>* Pointer => _items;
 
-    /// <summary>Bytes held.</summary>
+    /// <summary>Bytes held by the stored pairs (the spare tail, while there is one, is counted in the step that made it).</summary>
     public long Bytes => (long)Count * sizeof(KeyValue<T>);
 
     /// <summary>Bytes per stored string.</summary>
@@ -92,5 +119,6 @@ internal sealed unsafe class SlotVector<T> : IDisposable where T : unmanaged, IP
         if (_items != null) NativeMemory.Free(_items);
         _items = null;
         Count = 0;
+        _spareBytes = 0;
     }
 }

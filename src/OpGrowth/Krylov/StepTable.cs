@@ -181,7 +181,12 @@ internal sealed unsafe class StepTable<T> : IDisposable where T : unmanaged, IPa
     /// if partitions grew so much that a run would overtake a range not yet moved is a new block used.
     /// The table is empty afterwards.
     /// </summary>
-    public SlotVector<T> Compact(int threads)
+    /// <remarks>
+    /// With <paramref name="keepSpare"/> the block is not shrunk: the vector keeps the table's tail as
+    /// scratch (<see cref="SlotVector{T}.SpareDoubles"/>, pages already touched) until its
+    /// <see cref="SlotVector{T}.TrimExcess"/>.
+    /// </remarks>
+    public SlotVector<T> Compact(int threads, bool keepSpare = false)
     {
         int parts = Parts.Length;
         var counts = new int[parts];
@@ -219,7 +224,12 @@ internal sealed unsafe class StepTable<T> : IDisposable where T : unmanaged, IPa
             part = default;
             w += c;
         }
-        if (inPlace)
+        long spare = 0;
+        if (inPlace && keepSpare)
+        {
+            spare = (long)parts * _capacity0 * size - total * size;
+        }
+        else if (inPlace)
         {
             // Shrinking gives the tail pages back (a large block is its own mapping).
             dst = (KeyValue<T>*)NativeMemory.Realloc(dst, (nuint)(Math.Max(1, total) * size));
@@ -229,7 +239,7 @@ internal sealed unsafe class StepTable<T> : IDisposable where T : unmanaged, IPa
             NativeMemory.Free(_block);
         }
         _block = null;
-        return new SlotVector<T>(N, dst, (int)total);
+        return new SlotVector<T>(N, dst, (int)total, spare);
     }
 
     /// <summary>Moves the partition's surviving strings to the front of its own table (the identity first); returns how many.</summary>
