@@ -49,6 +49,7 @@ internal static partial class LanczosEngine
         var cur = SlotVector<T>.From(first);
         SlotVector<T>? prev = null;
         var driver = new StepDriver<T>();
+        using var pool = new PagePool();
         double coupling = 0;            // b_{n-1}
         double growth = 8;              // prior growth ratio of string count per step until measured (as the managed route)
         double workDone = 0;
@@ -89,7 +90,7 @@ internal static partial class LanczosEngine
                     break;
                 }
 
-                var table = new StepTable<T>(o0.N, predicted);
+                var table = new StepTable<T>(o0.N, predicted, pool);
                 SlotVector<T> a;
                 long accounted, accCount, accBytes;
                 try
@@ -187,8 +188,8 @@ internal static partial class LanczosEngine
                     MaxSpan = span,
                 };
                 steps.Add(step);
-                log?.LogDebug("lanczos step {N}: b = {B:F10}, {Strings:N0} strings, {Sec:F2} s ({Cpu:F1} s CPU), {Mem} accounted ({Table} table), {Managed} managed",
-                    n, bn, a.Count, step.Seconds, step.CpuSeconds, Gib(accounted), Gib(accBytes), Gib(managed));
+                log?.LogDebug("lanczos step {N}: b = {B:F10}, {Strings:N0} strings, {Sec:F2} s ({Cpu:F1} s CPU), {Mem} accounted ({Table} table, {Reused} of it reused pages so far), {Managed} managed",
+                    n, bn, a.Count, step.Seconds, step.CpuSeconds, Gib(accounted), Gib(accBytes), Gib(pool.ReusedBytes), Gib(managed));
                 onStep?.Invoke(step, stepOperators ? a.ToOperator() : null);
             }
         }

@@ -31,13 +31,17 @@ internal sealed unsafe class SlotVector<T> : IDisposable where T : unmanaged, IP
     public int Count { get; private set; }
 
     /// <summary>A vector of <paramref name="count"/> pairs at <paramref name="items"/>, in a block with <paramref name="spareBytes"/> more bytes after them (see <see cref="TrimExcess"/>).</summary>
-    internal SlotVector(int n, KeyValue<T>* items, int count, long spareBytes = 0)
+    internal SlotVector(int n, KeyValue<T>* items, int count, long spareBytes = 0, PagePool? pool = null)
     {
         N = n;
         _items = items;
         Count = count;
         _spareBytes = spareBytes;
+        _pool = pool;
     }
+
+    /// <summary>Where the block goes when shrunk or freed (null: the ordinary allocator).</summary>
+    private readonly PagePool? _pool;
 
     /// <summary>
     /// The block's bytes after the stored pairs, 8-byte aligned: the rest of the step table it was compacted
@@ -59,7 +63,8 @@ internal sealed unsafe class SlotVector<T> : IDisposable where T : unmanaged, IP
     public void TrimExcess()
     {
         if (_spareBytes <= 0 || _items == null) return;
-        _items = (KeyValue<T>*)NativeMemory.Realloc(_items, (nuint)(Math.Max(1, Count) * (long)sizeof(KeyValue<T>)));
+        long bytes = Math.Max(1, Count) * (long)sizeof(KeyValue<T>);
+        _items = _pool is null ? (KeyValue<T>*)NativeMemory.Realloc(_items, (nuint)bytes) : (KeyValue<T>*)_pool.Shrink(_items, bytes);
         _spareBytes = 0;
     }
 
@@ -116,7 +121,11 @@ internal sealed unsafe class SlotVector<T> : IDisposable where T : unmanaged, IP
 
     private void Free()
     {
-        if (_items != null) NativeMemory.Free(_items);
+        if (_items != null)
+        {
+            if (_pool is null) NativeMemory.Free(_items);
+            else _pool.Release(_items);
+        }
         _items = null;
         Count = 0;
         _spareBytes = 0;

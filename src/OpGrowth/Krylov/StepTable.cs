@@ -38,20 +38,29 @@ internal sealed unsafe class StepTable<T> : IDisposable where T : unmanaged, IPa
     internal readonly int Shift;
     private KeyValue<T>* _block;
     private readonly int _capacity0;
+    private readonly PagePool? _pool;
 
     /// <summary>Number of qubits.</summary>
     public int N { get; }
 
-    /// <summary>A table presized for <paramref name="expectedStrings"/> (partitions and capacities as <see cref="PauliAccumulator{T}.For"/>).</summary>
-    public StepTable(int n, long expectedStrings)
+    /// <summary>
+    /// A table presized for <paramref name="expectedStrings"/> (partitions and capacities as
+    /// <see cref="PauliAccumulator{T}.For"/>); its block comes from <paramref name="pool"/> when given (pages
+    /// freed by earlier steps), and the vector it compacts into returns it there.
+    /// </summary>
+    public StepTable(int n, long expectedStrings, PagePool? pool = null)
     {
         N = n;
         int bits = PauliAccumulator<T>.BitsFor(expectedStrings);
         Shift = 64 - bits;
         Parts = new Part[1 << bits];
         _capacity0 = Capacity(expectedStrings);
-        _block = (KeyValue<T>*)NativeMemory.AllocZeroed((nuint)Parts.Length * (nuint)_capacity0, (nuint)sizeof(KeyValue<T>));
-        LargePages.Advise(_block, (long)Parts.Length * _capacity0 * sizeof(KeyValue<T>));
+        _pool = pool;
+        long bytes = (long)Parts.Length * _capacity0 * sizeof(KeyValue<T>);
+        _block = pool is null
+            ? (KeyValue<T>*)NativeMemory.AllocZeroed((nuint)Parts.Length * (nuint)_capacity0, (nuint)sizeof(KeyValue<T>))
+            : (KeyValue<T>*)pool.AllocateZeroed(bytes);
+        LargePages.Advise(_block, bytes);
         for (int p = 0; p < Parts.Length; p++)
         {
             Parts[p].Table = _block + (long)p * _capacity0;
@@ -231,15 +240,17 @@ internal sealed unsafe class StepTable<T> : IDisposable where T : unmanaged, IPa
         }
         else if (inPlace)
         {
-            // Shrinking gives the tail pages back (a large block is its own mapping).
-            dst = (KeyValue<T>*)NativeMemory.Realloc(dst, (nuint)(Math.Max(1, total) * size));
+            // Shrinking gives the tail pages back (a large block is its own mapping), or to the pool.
+            dst = _pool is null
+                ? (KeyValue<T>*)NativeMemory.Realloc(dst, (nuint)(Math.Max(1, total) * size))
+                : (KeyValue<T>*)_pool.Shrink(dst, Math.Max(1, total) * size);
         }
         else
         {
-            NativeMemory.Free(_block);
+            FreeBlock(_block);
         }
         _block = null;
-        return new SlotVector<T>(N, dst, (int)total, spare);
+        return new SlotVector<T>(N, dst, (int)total, spare, inPlace ? _pool : null);
     }
 
     /// <summary>Moves the partition's surviving strings to the front of its own table (the identity first); returns how many.</summary>
@@ -283,8 +294,14 @@ internal sealed unsafe class StepTable<T> : IDisposable where T : unmanaged, IPa
             if (Parts[p].Own && Parts[p].Table != null) NativeMemory.Free(Parts[p].Table);
             Parts[p] = default;
         }
-        if (_block != null) NativeMemory.Free(_block);
+        if (_block != null) FreeBlock(_block);
         _block = null;
+    }
+
+    private void FreeBlock(KeyValue<T>* block)
+    {
+        if (_pool is null) NativeMemory.Free(block);
+        else _pool.Release(block);
     }
 
     /// <summary>The table as seen by <see cref="EmitBuffer{T}.MergeGroups"/>.</summary>

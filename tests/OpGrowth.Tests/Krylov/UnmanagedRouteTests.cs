@@ -211,6 +211,54 @@ public class UnmanagedRouteTests
         Assert.Equal(one.B, two.B);
     }
 
+    [Fact]
+    public void UnmanagedRoute_PooledTables_BitIdenticalToManagedRoute()
+    {
+        // From step 22 on the tables exceed PagePool.MinBytes, so later steps take the pages freed by earlier
+        // ones (moved, then cleared); the b_n must still equal the managed route's to the last bit.
+        var cell = KrylovTestModels.MixedIsing(1, 1.05, 0.5);
+        const int sites = 31, depth = 24;
+        var h = cell.OpenChain(sites);
+        var probe = PauliString.Single(sites, sites / 2, 'Z');
+        var opt = KrylovTestModels.Options(depth) with { Threads = 2 };
+        var managed = PauliWidth.Dispatch<LanczosResult, Routes>(sites, new Routes(h, probe, opt, true, false));
+        var fast = ChainWidth.Dispatch<LanczosResult, Routes>(sites, new Routes(h, probe, opt, false, false));
+        Assert.Equal(depth, fast.B.Count);
+        Assert.True(fast.Steps[^1].Strings > 400_000, $"{fast.Steps[^1].Strings} strings: the last tables must be pooled");
+        Assert.Equal(managed.B, fast.B);
+    }
+
+    [Fact]
+    public unsafe void PagePool_ReusesFreedPagesCleared()
+    {
+        // A block is written, shrunk (its tail goes to the pool) and freed (the rest goes too); the next,
+        // larger block must start with those pages, cleared, and be zero throughout.
+        using var pool = new PagePool();
+        const long mib = 1L << 20;
+        var a = (byte*)pool.AllocateZeroed(16 * mib);
+        new Span<byte>(a, (int)(16 * mib)).Fill(0xAB);
+        a = (byte*)pool.Shrink(a, 6 * mib - 100);
+        pool.Release(a);
+        var b = (byte*)pool.AllocateZeroed(32 * mib);
+        try
+        {
+            if (pool.Enabled)
+            {
+                Assert.Equal(16 * mib, pool.ReusedBytes);
+                Assert.Equal(0, pool.PooledBytes);
+            }
+            var span = new Span<byte>(b, (int)(32 * mib));
+            Assert.Equal(-1, span.IndexOfAnyExcept((byte)0));
+            span.Fill(1); // the whole block is writable
+        }
+        finally
+        {
+            pool.Release(b);
+        }
+        var small = pool.AllocateZeroed(1024); // below MinBytes: the ordinary allocator
+        pool.Release(small);
+    }
+
     private readonly struct Routes(Hamiltonian h, PauliString probe, LanczosOptions options, bool managed, bool reflect) : IWidthFunc<LanczosResult>
     {
         public LanczosResult Invoke<T>() where T : unmanaged, IPauliKey<T>
