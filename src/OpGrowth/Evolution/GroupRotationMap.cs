@@ -47,24 +47,11 @@ internal readonly struct GroupRotationMap<T> : IPassMap<T> where T : unmanaged, 
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     public void Apply(in T key, double coefficient, PassEmitter<T> sink)
     {
-        var sites = sink.Sites;
-        int ms = T.SupportSites(key, sites);
-        int[] idx = t_idx ??= new int[64];
-        int m = 0;
-        var keys = _keys;
-        for (int a = 0; a < ms; a++)
-        {
-            int j = sites[a];
-            for (int r = _start[j], end = _start[j + 1]; r < end; r++)
-            {
-                int g = _terms[r];
-                ref readonly T p = ref keys[g];
-                if (!T.Anticommute(p, key)) continue;
-                if (a > 0 && T.OverlapBelow(p, key, j)) continue;
-                if (m == idx.Length) idx = Grow();
-                idx[m++] = g;
-            }
-        }
+        // The generators that anticommute with the key, in the Liouvillian maps' order.
+        var found = new Collector(t_idx ??= new int[64]);
+        LiouvilleTerms.ForEachAnticommuting(_keys, _start, _terms, key, sink.Sites, ref found);
+        int[] idx = found.Indices;
+        int m = found.Count;
         if (m == 0)
         {
             sink.Emit(key, coefficient);
@@ -73,6 +60,20 @@ internal readonly struct GroupRotationMap<T> : IPassMap<T> where T : unmanaged, 
         int budget = StringEmissionCap;
         Branch(0, m, idx, key, coefficient, sink, ref budget);
         if (budget < 0 && _overflow is not null) _overflow[0] = 1;
+    }
+
+    /// <summary>Collects the visited generator indices into the thread's scratch (grown when full).</summary>
+    private struct Collector(int[] indices) : ITermVisitor
+    {
+        public int[] Indices = indices;
+        public int Count;
+
+        [MethodImpl(MethodImplOptions.AggressiveInlining)]
+        public void Visit(int term)
+        {
+            if (Count == Indices.Length) Indices = Grow();
+            Indices[Count++] = term;
+        }
     }
 
     [MethodImpl(MethodImplOptions.NoInlining)]

@@ -13,8 +13,10 @@ namespace OpGrowth.Krylov;
 /// <remarks>
 /// The pool never raises the peak: what it holds between steps was part of the step's peak (table plus the
 /// two older vectors), and allocating the next table first takes the pooled pages, then unmaps whatever
-/// the table could not use. Linux only (mmap, mremap, munmap, madvise); elsewhere, or for blocks below
+/// the table could not use. Linux only (mmap, mremap, munmap); elsewhere, or for blocks below
 /// <see cref="MinBytes"/>, blocks come from <see cref="NativeMemory"/> and are freed at once, as before.
+/// Blocks it did not map (small ones, or those of <see cref="None"/>) are reallocated and freed with
+/// <see cref="NativeMemory"/>, so every owner of a block can hand it back here whatever its origin.
 /// Not thread-safe for allocation; <see cref="Release"/> may come from a finalizer and takes a lock.
 /// </remarks>
 internal sealed unsafe partial class PagePool : IDisposable
@@ -28,7 +30,6 @@ internal sealed unsafe partial class PagePool : IDisposable
     private const int MapNoReserve = 0x4000;
     private const int MremapMayMove = 1;
     private const int MremapFixed = 2;
-    private const int MadvHugePage = 14;
     private static readonly nint MapFailed = -1;
 
     private readonly object _lock = new();
@@ -36,8 +37,14 @@ internal sealed unsafe partial class PagePool : IDisposable
     private readonly List<(nint Address, long Bytes)> _free = [];
     private bool _disposed;
 
+    /// <summary>The pool that keeps nothing: every block from and back to <see cref="NativeMemory"/> (for tables used alone).</summary>
+    public static readonly PagePool None = new(enabled: false);
+
+    /// <summary>A pool; <paramref name="enabled"/> false (or not Linux) makes it the plain allocator.</summary>
+    public PagePool(bool enabled = true) => Enabled = enabled && OperatingSystem.IsLinux();
+
     /// <summary>Whether blocks are mapped here (Linux, and the calls answered).</summary>
-    public bool Enabled { get; private set; } = OperatingSystem.IsLinux();
+    public bool Enabled { get; private set; }
 
     /// <summary>Bytes of freed pages held for reuse now.</summary>
     public long PooledBytes
@@ -60,9 +67,6 @@ internal sealed unsafe partial class PagePool : IDisposable
     [LibraryImport("libc", EntryPoint = "mremap", SetLastError = true)]
     private static partial nint Mremap(nint oldAddress, nuint oldLength, nuint newLength, int flags, nint newAddress);
 
-    [LibraryImport("libc", EntryPoint = "madvise")]
-    private static partial int Madvise(nint address, nuint length, int advice);
-
     private static long RoundUp(long bytes) => (bytes + Granule - 1) & ~(Granule - 1);
 
     /// <summary>
@@ -83,7 +87,7 @@ internal sealed unsafe partial class PagePool : IDisposable
             if (block > raw) Munmap(raw, (nuint)(block - raw));
             long tail = raw + size + Granule - (block + size);
             if (tail > 0) Munmap(block + (nint)size, (nuint)tail);
-            Madvise(block, (nuint)size, MadvHugePage);
+            // The owner asks for huge pages (LargePages.Advise), as it does for blocks from NativeMemory.
         }
         catch (Exception e) when (e is DllNotFoundException or EntryPointNotFoundException)
         {
@@ -95,7 +99,6 @@ internal sealed unsafe partial class PagePool : IDisposable
             long filled = 0;
             // Largest pooled regions first: fewer moves.
             _free.Sort((a, b) => b.Bytes.CompareTo(a.Bytes));
-            var keep = new List<(nint, long)>();
             foreach (var (address, length) in _free)
             {
                 long take = Math.Min(length, size - filled);
@@ -111,7 +114,7 @@ internal sealed unsafe partial class PagePool : IDisposable
                     continue;
                 }
                 if (take < length) Munmap(address + (nint)take, (nuint)(length - take));
-                ClearRange(block + (nint)filled, take);
+                NativeMemory.Clear((void*)(block + (nint)filled), (nuint)take);
                 filled += take;
                 ReusedBytes += take;
             }
@@ -121,18 +124,11 @@ internal sealed unsafe partial class PagePool : IDisposable
         return (void*)block;
     }
 
-    private static void ClearRange(nint address, long bytes)
-    {
-        for (long off = 0; off < bytes; off += int.MaxValue & ~4095L)
-        {
-            long len = Math.Min(bytes - off, int.MaxValue & ~4095L);
-            new Span<byte>((void*)(address + (nint)off), (int)len).Clear();
-        }
-    }
-
     /// <summary>Shrinks a block to <paramref name="bytes"/> (rounded up to 2 MiB); the tail's pages are kept for the next table. Returns the block (same address).</summary>
     public void* Shrink(void* block, long bytes)
     {
+        // Not enabled: nothing was ever mapped here (Enabled only turns false before the first mapping).
+        if (!Enabled) return NativeMemory.Realloc(block, (nuint)Math.Max(1, bytes));
         lock (_lock)
         {
             if (!_live.TryGetValue((nint)block, out long size))
@@ -151,6 +147,11 @@ internal sealed unsafe partial class PagePool : IDisposable
     public void Release(void* block)
     {
         if (block == null) return;
+        if (!Enabled)
+        {
+            NativeMemory.Free(block);
+            return;
+        }
         lock (_lock)
         {
             if (!_live.Remove((nint)block, out long size))

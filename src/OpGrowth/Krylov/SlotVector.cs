@@ -37,11 +37,11 @@ internal sealed unsafe class SlotVector<T> : IDisposable where T : unmanaged, IP
         _items = items;
         Count = count;
         _spareBytes = spareBytes;
-        _pool = pool;
+        _pool = pool ?? PagePool.None;
     }
 
-    /// <summary>Where the block goes when shrunk or freed (null: the ordinary allocator).</summary>
-    private readonly PagePool? _pool;
+    /// <summary>Where the block goes when shrunk or freed (<see cref="PagePool.None"/>: the ordinary allocator).</summary>
+    private readonly PagePool _pool;
 
     /// <summary>
     /// The block's bytes after the stored pairs, 8-byte aligned: the rest of the step table it was compacted
@@ -64,7 +64,7 @@ internal sealed unsafe class SlotVector<T> : IDisposable where T : unmanaged, IP
     {
         if (_spareBytes <= 0 || _items == null) return;
         long bytes = Math.Max(1, Count) * (long)sizeof(KeyValue<T>);
-        _items = _pool is null ? (KeyValue<T>*)NativeMemory.Realloc(_items, (nuint)bytes) : (KeyValue<T>*)_pool.Shrink(_items, bytes);
+        _items = (KeyValue<T>*)_pool.Shrink(_items, bytes);
         _spareBytes = 0;
     }
 
@@ -121,11 +121,7 @@ internal sealed unsafe class SlotVector<T> : IDisposable where T : unmanaged, IP
 
     private void Free()
     {
-        if (_items != null)
-        {
-            if (_pool is null) NativeMemory.Free(_items);
-            else _pool.Release(_items);
-        }
+        if (_items != null) _pool.Release(_items);
         _items = null;
         Count = 0;
         _spareBytes = 0;

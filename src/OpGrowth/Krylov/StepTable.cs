@@ -38,7 +38,7 @@ internal sealed unsafe class StepTable<T> : IDisposable where T : unmanaged, IPa
     internal readonly int Shift;
     private KeyValue<T>* _block;
     private readonly int _capacity0;
-    private readonly PagePool? _pool;
+    private readonly PagePool _pool;
 
     /// <summary>Number of qubits.</summary>
     public int N { get; }
@@ -46,7 +46,7 @@ internal sealed unsafe class StepTable<T> : IDisposable where T : unmanaged, IPa
     /// <summary>
     /// A table presized for <paramref name="expectedStrings"/> (partitions and capacities as
     /// <see cref="PauliAccumulator{T}.For"/>); its block comes from <paramref name="pool"/> when given (pages
-    /// freed by earlier steps), and the vector it compacts into returns it there.
+    /// freed by earlier steps, else <see cref="PagePool.None"/>), and the vector it compacts into returns it there.
     /// </summary>
     public StepTable(int n, long expectedStrings, PagePool? pool = null)
     {
@@ -55,11 +55,9 @@ internal sealed unsafe class StepTable<T> : IDisposable where T : unmanaged, IPa
         Shift = 64 - bits;
         Parts = new Part[1 << bits];
         _capacity0 = Capacity(expectedStrings);
-        _pool = pool;
+        _pool = pool ?? PagePool.None;
         long bytes = (long)Parts.Length * _capacity0 * sizeof(KeyValue<T>);
-        _block = pool is null
-            ? (KeyValue<T>*)NativeMemory.AllocZeroed((nuint)Parts.Length * (nuint)_capacity0, (nuint)sizeof(KeyValue<T>))
-            : (KeyValue<T>*)pool.AllocateZeroed(bytes);
+        _block = (KeyValue<T>*)_pool.AllocateZeroed(bytes);
         LargePages.Advise(_block, bytes);
         for (int p = 0; p < Parts.Length; p++)
         {
@@ -241,16 +239,14 @@ internal sealed unsafe class StepTable<T> : IDisposable where T : unmanaged, IPa
         else if (inPlace)
         {
             // Shrinking gives the tail pages back (a large block is its own mapping), or to the pool.
-            dst = _pool is null
-                ? (KeyValue<T>*)NativeMemory.Realloc(dst, (nuint)(Math.Max(1, total) * size))
-                : (KeyValue<T>*)_pool.Shrink(dst, Math.Max(1, total) * size);
+            dst = (KeyValue<T>*)_pool.Shrink(dst, Math.Max(1, total) * size);
         }
         else
         {
-            FreeBlock(_block);
+            _pool.Release(_block);
         }
         _block = null;
-        return new SlotVector<T>(N, dst, (int)total, spare, inPlace ? _pool : null);
+        return new SlotVector<T>(N, dst, (int)total, spare, _pool);
     }
 
     /// <summary>Moves the partition's surviving strings to the front of its own table (the identity first); returns how many.</summary>
@@ -294,14 +290,8 @@ internal sealed unsafe class StepTable<T> : IDisposable where T : unmanaged, IPa
             if (Parts[p].Own && Parts[p].Table != null) NativeMemory.Free(Parts[p].Table);
             Parts[p] = default;
         }
-        if (_block != null) FreeBlock(_block);
+        if (_block != null) _pool.Release(_block);
         _block = null;
-    }
-
-    private void FreeBlock(KeyValue<T>* block)
-    {
-        if (_pool is null) NativeMemory.Free(block);
-        else _pool.Release(block);
     }
 
     /// <summary>The table as seen by <see cref="EmitBuffer{T}.MergeGroups"/>.</summary>
