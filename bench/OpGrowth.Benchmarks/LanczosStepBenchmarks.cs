@@ -62,6 +62,7 @@ public class LanczosStepBenchmarks
     {
         _cur.Dispose();
         _prev.Dispose();
+        _driver.Dispose();
     }
 
     [Benchmark]

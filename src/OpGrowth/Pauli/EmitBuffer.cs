@@ -16,6 +16,7 @@ public sealed class EmitBuffer<T> where T : unmanaged, IPauliKey<T>
     internal Entry[][] Streams;
     internal int[] Counts;
     private int _groupShift;
+    private int _groupMask;
 
     /// <summary>Partitions per group (log2): four partitions of about 2048 strings each, a few hundred kilobytes.</summary>
     internal const int PartitionsPerGroupBits = 2;
@@ -44,8 +45,26 @@ public sealed class EmitBuffer<T> where T : unmanaged, IPauliKey<T>
         ArgumentOutOfRangeException.ThrowIfLessThan(owners, 1);
         int partitionBits = 64 - shift;
         int groupBits = Math.Max(0, partitionBits - PartitionsPerGroupBits);
-        int groups = 1 << groupBits;
         _groupShift = groupBits == 0 ? 0 : 64 - groupBits;
+        _groupMask = (1 << groupBits) - 1;
+        Size(1 << groupBits);
+    }
+
+    /// <summary>
+    /// Prepares for a pass in which stream g takes the partitions p with p mod 2^<paramref name="groupBits"/> = g
+    /// (the low bits of the partition index): each stream's partitions are spread evenly over the target's memory.
+    /// </summary>
+    internal void ResetInterleaved(int partitionShift, int groupBits)
+    {
+        ArgumentOutOfRangeException.ThrowIfNegative(groupBits);
+        _groupShift = partitionShift;
+        _groupMask = (1 << groupBits) - 1;
+        Size(1 << groupBits);
+    }
+
+    private void Size(int groups)
+    {
+        int groupBits = System.Numerics.BitOperations.Log2((uint)groups);
         if (Streams.Length != groups)
         {
             Streams = new Entry[groups][];
@@ -61,7 +80,7 @@ public sealed class EmitBuffer<T> where T : unmanaged, IPauliKey<T>
     public void Emit(in T key, double value)
     {
         ulong h = key.Hash64;
-        int u = _groupShift == 0 ? 0 : (int)(h >> _groupShift);
+        int u = (int)(h >> _groupShift) & _groupMask;
         int c = Counts[u];
         var arr = Streams[u];
         if (c == arr.Length) arr = Grow(u);

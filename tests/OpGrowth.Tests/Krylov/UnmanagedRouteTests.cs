@@ -202,13 +202,68 @@ public class UnmanagedRouteTests
     }
 
     [Fact]
-    public void UnmanagedRoute_SameBitsAtOneAndTwoThreads()
+    public void UnmanagedRoute_SameBitsAtOneToFourThreads()
     {
-        // Determinism: depth 22 reaches ~3e5 strings (many blocks, both partition owners busy).
+        // Determinism: depth 22 reaches ~3e5 strings (many chunks, every owner busy); 3 threads is the uneven
+        // case (four partition groups over three owners).
         var cell = KrylovTestModels.MixedIsing(1, 1.05, 0.5);
         var one = InfiniteChainLanczos.Run(cell, "Z", KrylovTestModels.Options(22) with { Threads = 1 });
-        var two = InfiniteChainLanczos.Run(cell, "Z", KrylovTestModels.Options(22) with { Threads = 2 });
-        Assert.Equal(one.B, two.B);
+        foreach (int threads in new[] { 2, 3, 4 })
+        {
+            var many = InfiniteChainLanczos.Run(cell, "Z", KrylovTestModels.Options(22) with { Threads = threads });
+            Assert.Equal(one.B, many.B);
+        }
+    }
+
+    /// <summary>The commutator map, failing on one chosen input string.</summary>
+    private readonly struct FailingMap(PlainBasis<ChainKey32> inner, ChainKey32 poison) : IPauliMap<ChainKey32>
+    {
+        public void Apply(in ChainKey32 key, double coefficient, EmitBuffer<ChainKey32> sink)
+        {
+            if (key.Equals(poison)) throw new InvalidOperationException("poisoned input");
+            inner.Apply(key, coefficient, sink);
+        }
+    }
+
+    [Fact]
+    public async Task StepDriver_FailureInAnyThread_EndsThePassWithTheError_DriverStillExact()
+    {
+        // A thread of the pipeline that throws must end the pass for all of them (no thread left waiting for
+        // its chunks) with the original exception; the driver then runs the next pass as before: the table it
+        // fills equals, bit for bit, the one filled with one thread (reference: the single-thread route).
+        const int sites = 31, count = 40_000;
+        var rng = new Random(2026);
+        var keys = new HashSet<ChainKey32>();
+        while (keys.Count < count) keys.Add(ChainKey32.From(RandomString(rng, sites)));
+        var keyArray = keys.ToArray();
+        var coeffs = keyArray.Select(_ => rng.NextDouble() - 0.5).ToArray();
+        using var cur = SlotVector<ChainKey32>.From(new PauliOperator<ChainKey32>(sites, keyArray, coeffs, count));
+        var h = KrylovTestModels.MixedIsing(1, 1.05, 0.5).OpenChain(sites).Compile<ChainKey32>();
+        var basis = new PlainBasis<ChainKey32>(h);
+        using var driver = new StepDriver<ChainKey32>();
+        foreach (int at in new[] { 10, count / 2, count - 3 })
+        {
+            var poison = cur.Items[at].Key;
+            // A fresh table each time (the failed pass leaves its table part-filled).
+            using var table = new StepTable<ChainKey32>(sites, 20 * count);
+            var pass = Task.Run(() => driver.Map(cur, 0, cur.Count, new FailingMap(basis, poison), table, 2));
+            Assert.True(await Task.WhenAny(pass, Task.Delay(TimeSpan.FromSeconds(120))) == pass, $"the pass with a failure at input {at} did not end");
+            await Assert.ThrowsAsync<InvalidOperationException>(() => pass);
+        }
+        using var t1 = new StepTable<ChainKey32>(sites, 20 * count);
+        using var t2 = new StepTable<ChainKey32>(sites, 20 * count);
+        using var single = new StepDriver<ChainKey32>();
+        single.Map(cur, 0, cur.Count, basis, t1, 1);
+        driver.Map(cur, 0, cur.Count, basis, t2, 2);
+        using var a1 = t1.Compact(1);
+        using var a2 = t2.Compact(2);
+        Assert.True(a1.Count > count, $"{a1.Count} strings");
+        Assert.Equal(a1.Count, a2.Count);
+        for (int i = 0; i < a1.Count; i++)
+        {
+            Assert.Equal(a1.Items[i].Key, a2.Items[i].Key);
+            Assert.Equal(a1.Items[i].Value, a2.Items[i].Value);
+        }
     }
 
     [Fact]
