@@ -80,7 +80,7 @@ public sealed class EmitBuffer<T> where T : unmanaged, IPauliKey<T>
     public void Emit(in T key, double value)
     {
         ulong h = key.Hash64;
-        int u = (int)(h >> _groupShift) & _groupMask;
+        int u = _groupMask == 0 ? 0 : (int)(h >> _groupShift) & _groupMask;
         int c = Counts[u];
         var arr = Streams[u];
         if (c == arr.Length) arr = Grow(u);
