@@ -9,11 +9,11 @@ namespace OpGrowth.Krylov;
 /// in the first-level cache) and are then added to the table in emission order, the home slot of each one
 /// prefetched 32 entries ahead. Several threads: a pipeline without barriers. The input is cut into
 /// small contiguous chunks, taken in order by whichever thread is free and produced into a ring of emit
-/// buffers, one stream per owner (owner u holds the partitions p with p mod owners = u); each owner adds its
-/// streams of chunk 0, 1, 2, ... in chunk order, whichever thread produced them. Every string's
-/// contributions are therefore summed in input order, and every partition receives its strings in input
-/// order, at any thread count and any chunk size: the result is bit-identical to feeding the table one
-/// contribution at a time, as the managed accumulator is fed.
+/// buffers, one stream per owner (partitions interleaved: with two owners, owner u holds every partition p
+/// with p mod 2 = u); each owner adds its streams of chunk 0, 1, 2, ... in chunk order, whichever thread
+/// produced them. Every string's contributions are therefore summed in input order, and every partition
+/// receives its strings in input order, at any thread count and any chunk size: the result is bit-identical
+/// to feeding the table one contribution at a time, as the managed accumulator is fed.
 /// </summary>
 internal sealed unsafe class StepDriver<T> : IDisposable where T : unmanaged, IPauliKey<T>
 {
