@@ -197,7 +197,7 @@ internal static partial class LanczosEngine
         {
             cur.Dispose();
             prev?.Dispose();
-            driver.Release();
+            driver.Dispose();
         }
 
         return new LanczosResult

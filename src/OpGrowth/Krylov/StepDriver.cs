@@ -56,16 +56,22 @@ internal sealed unsafe class StepDriver<T> : IDisposable where T : unmanaged, IP
         return buffers * (emissions * 2 + 4096L) * Unsafe.SizeOf<EmitBuffer<T>.Entry>();
     }
 
+    /// <summary>Drops the emit buffers (the next pass regrows them); the pipeline's threads stay parked.</summary>
+    public void Release() => _buffers = [];
+
     /// <summary>Drops the emit buffers and stops the pipeline's threads.</summary>
-    public void Release()
+    public void Dispose()
     {
-        _buffers = [];
+        Release();
         _crew?.Dispose();
         _crew = null;
     }
 
-    /// <summary>Same as <see cref="Release"/>.</summary>
-    public void Dispose() => Release();
+    /// <summary>Input strings in the next block: about <paramref name="wanted"/> contributions at the last measured rate.</summary>
+    private static int NextBlock(long wanted, double perInput) => (int)Math.Clamp(wanted / perInput, FirstBlock, MaxBlock);
+
+    /// <summary>Contributions per input string of a block (at least 1, so an empty block does not blow up the next).</summary>
+    private static double PerInput(long emitted, int inputs) => Math.Max(1.0, emitted / (double)inputs);
 
     /// <summary>Accumulates map(strings start..end of <paramref name="source"/>) into <paramref name="target"/>.</summary>
     public void Map<TMap>(SlotVector<T> source, int start, int end, TMap map, StepTable<T> target, int threads)
@@ -107,8 +113,7 @@ internal sealed unsafe class StepDriver<T> : IDisposable where T : unmanaged, IP
             buffer.Counts[0] = 0;
             producer.Produce(items, b0, b1, buffer);
             Merge(buffer, 0, 1, target);
-            double perInput = Math.Max(1.0, buffer.Counts[0] / (double)(b1 - b0));
-            blockSize = (int)Math.Clamp(SingleBlockEmissions / perInput, FirstBlock, MaxBlock);
+            blockSize = NextBlock(SingleBlockEmissions, PerInput(buffer.Counts[0], b1 - b0));
         }
     }
 
@@ -195,7 +200,7 @@ internal sealed unsafe class StepDriver<T> : IDisposable where T : unmanaged, IP
                         e = s;
                         if (s < end && claimed - MinMerged() < slots)
                         {
-                            e = (int)Math.Min(end, s + (long)Math.Clamp(ChunkEmissions / _perInput, FirstBlock, MaxBlock));
+                            e = (int)Math.Min(end, s + (long)NextBlock(ChunkEmissions, _perInput));
                             _pos = e;
                             _claimed = claimed + 1;
                         }
@@ -208,7 +213,7 @@ internal sealed unsafe class StepDriver<T> : IDisposable where T : unmanaged, IP
                         producer.Produce(items, s, e, buffer);
                         long emitted = 0;
                         foreach (int c in buffer.Counts) emitted += c;
-                        _perInput = Math.Max(1.0, emitted / (double)(e - s));
+                        _perInput = PerInput(emitted, e - s);
                         Volatile.Write(ref _ready[rc * Pad], claimed + 1);
                         spin.Reset();
                         continue;

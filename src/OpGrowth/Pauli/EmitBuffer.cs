@@ -47,7 +47,7 @@ public sealed class EmitBuffer<T> where T : unmanaged, IPauliKey<T>
         int groupBits = Math.Max(0, partitionBits - PartitionsPerGroupBits);
         _groupShift = groupBits == 0 ? 0 : 64 - groupBits;
         _groupMask = (1 << groupBits) - 1;
-        Size(1 << groupBits);
+        Size(groupBits);
     }
 
     /// <summary>
@@ -59,12 +59,13 @@ public sealed class EmitBuffer<T> where T : unmanaged, IPauliKey<T>
         ArgumentOutOfRangeException.ThrowIfNegative(groupBits);
         _groupShift = partitionShift;
         _groupMask = (1 << groupBits) - 1;
-        Size(1 << groupBits);
+        Size(groupBits);
     }
 
-    private void Size(int groups)
+    /// <summary>One stream per group (2^<paramref name="groupBits"/>), kept from the last pass when the count is the same; counts cleared.</summary>
+    private void Size(int groupBits)
     {
-        int groupBits = System.Numerics.BitOperations.Log2((uint)groups);
+        int groups = 1 << groupBits;
         if (Streams.Length != groups)
         {
             Streams = new Entry[groups][];
