@@ -24,6 +24,7 @@ internal readonly struct GroupRotationMap<T> : IPassMap<T> where T : unmanaged, 
     private readonly double[] _sin;
     private readonly int[] _start;
     private readonly int[] _terms;
+    private readonly SiteWindows<T> _windows;
     private readonly double _prune;
     private readonly int[]? _overflow;
 
@@ -41,6 +42,7 @@ internal readonly struct GroupRotationMap<T> : IPassMap<T> where T : unmanaged, 
         _sin = sin;
         _start = group.SiteStart;
         _terms = group.SiteTerms;
+        _windows = group.Windows;
         _prune = prune;
     }
 
@@ -49,7 +51,7 @@ internal readonly struct GroupRotationMap<T> : IPassMap<T> where T : unmanaged, 
     {
         // The generators that anticommute with the key, in the Liouvillian maps' order.
         var found = new Collector(t_idx ??= new int[64]);
-        LiouvilleTerms.ForEachAnticommuting(_keys, _start, _terms, key, sink.Sites, ref found);
+        LiouvilleTerms.ForEachAnticommuting(_keys, _start, _terms, _windows, key, sink.Sites, ref found);
         int[] idx = found.Indices;
         int m = found.Count;
         if (m == 0)

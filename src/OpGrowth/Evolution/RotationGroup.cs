@@ -53,7 +53,11 @@ internal sealed class RotationGroup<T> where T : unmanaged, IPauliKey<T>
             int m = T.SupportSites(Keys[t], sites);
             for (int i = 0; i < m; i++) SiteTerms[fill[sites[i]]++] = t;
         }
+        Windows = new SiteWindows<T>(Keys, SiteStart, SiteTerms, n);
     }
+
+    /// <summary>Per-site lookup tables of the anticommuting generators (see <see cref="SiteWindows{T}"/>).</summary>
+    public SiteWindows<T> Windows { get; }
 
     /// <summary>Number of generators.</summary>
     public int Count => Keys.Length;

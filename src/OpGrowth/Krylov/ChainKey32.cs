@@ -65,6 +65,13 @@ internal readonly struct ChainKey32 : IPauliKey<ChainKey32>
 
     public static int SupportSites(in ChainKey32 a, Span<int> sites) => PauliBits.Sites(a.Support, sites);
 
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    public static int Window(in ChainKey32 a, int first, int width)
+    {
+        ulong m = (1UL << width) - 1;
+        return (int)(((a.Bits >> first) & m) | (((a.Bits >> (32 + first)) & m) << width));
+    }
+
     public int Weight => BitOperations.PopCount(Support);
 
     public int FirstSite => Support == 0 ? -1 : BitOperations.TrailingZeroCount(Support);

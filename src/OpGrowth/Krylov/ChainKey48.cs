@@ -84,6 +84,9 @@ internal readonly struct ChainKey48 : IPauliKey<ChainKey48>
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
     public static bool Overlaps(in ChainKey48 a, in ChainKey48 b) => (a.Support & b.Support) != 0;
 
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    public static int Window(in ChainKey48 a, int first, int width) => PauliBits.Window(a.X, a.Z, first, width);
+
     public static int SupportSites(in ChainKey48 a, Span<int> sites) => PauliBits.Sites(a.Support, sites);
 
     public int Weight => BitOperations.PopCount(Support);

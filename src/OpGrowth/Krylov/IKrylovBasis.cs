@@ -24,6 +24,9 @@ internal readonly struct PlainBasis<T> : IKrylovBasis<T> where T : unmanaged, IP
 
     public PlainBasis(CompiledHamiltonian<T> h) => _map = new CommutatorMap<T>(h);
 
+    /// <summary>The commutator map (the step driver runs it through <see cref="CommutatorKernel{T}"/>).</summary>
+    internal CommutatorMap<T> Map => _map;
+
     public bool IsWeighted => false;
 
     public double Weight(in T key) => 1.0;

@@ -20,6 +20,12 @@ public readonly struct CommutatorMap<T> : IPauliMap<T> where T : unmanaged, IPau
         _scale = scale;
     }
 
+    /// <summary>The Hamiltonian H.</summary>
+    internal CompiledHamiltonian<T> Hamiltonian => _h;
+
+    /// <summary>The factor in front of i[H, O].</summary>
+    internal double Scale => _scale;
+
     public void Apply(in T key, double coefficient, EmitBuffer<T> sink)
         => LiouvilleTerms.Apply(_h, _scale, key, coefficient, new Sink(sink));
 

@@ -70,7 +70,7 @@ public sealed class EmitBuffer<T> where T : unmanaged, IPauliKey<T>
         {
             Streams = new Entry[groups][];
             int initial = Math.Max(16, 4096 >> groupBits);
-            for (int i = 0; i < groups; i++) Streams[i] = new Entry[initial];
+            for (int i = 0; i < groups; i++) Streams[i] = NewStream(initial);
             Counts = new int[groups];
         }
         Array.Clear(Counts);
@@ -94,9 +94,30 @@ public sealed class EmitBuffer<T> where T : unmanaged, IPauliKey<T>
 
     private Entry[] Grow(int u)
     {
-        Array.Resize(ref Streams[u], Streams[u].Length * 2);
-        return Streams[u];
+        var old = Streams[u];
+        var grown = NewStream(old.Length * 2);
+        old.AsSpan().CopyTo(grown);
+        Streams[u] = grown;
+        return grown;
     }
+
+    /// <summary>A stream array on the pinned heap, so a kernel may write it through a pointer (<see cref="StreamPointer"/>).</summary>
+    private static Entry[] NewStream(int length) => GC.AllocateUninitializedArray<Entry>(length, pinned: true);
+
+    /// <summary>Shift and mask that take a hash to its stream: u = (hash &gt;&gt; GroupShift) &amp; GroupMask.</summary>
+    internal int GroupShift => _groupShift;
+
+    /// <inheritdoc cref="GroupShift"/>
+    internal int GroupMask => _groupMask;
+
+    /// <summary>Grows stream u until it has room for <paramref name="room"/> more contributions after its count.</summary>
+    internal void EnsureRoom(int u, int room)
+    {
+        while (Streams[u].Length - Counts[u] < room) Grow(u);
+    }
+
+    /// <summary>Address of stream u's first entry (the arrays are pinned; valid until the stream grows).</summary>
+    internal unsafe Entry* StreamPointer(int u) => (Entry*)Unsafe.AsPointer(ref System.Runtime.InteropServices.MemoryMarshal.GetArrayDataReference(Streams[u]));
 
     internal struct Entry
     {

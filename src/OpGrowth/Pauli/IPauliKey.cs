@@ -33,6 +33,13 @@ public interface IPauliKey<TSelf> : IEquatable<TSelf>
     /// <summary>Writes the support sites in increasing order; returns how many.</summary>
     static abstract int SupportSites(in TSelf a, Span<int> sites);
 
+    /// <summary>
+    /// The letters of sites first .. first + width - 1 (all inside the capacity, width at most
+    /// <see cref="SiteWindows{T}.MaxWidth"/>) as one number: x bits in bits 0 .. width - 1, z bits in
+    /// bits width .. 2 width - 1 (see <see cref="SiteWindows{T}"/>).
+    /// </summary>
+    static abstract int Window(in TSelf a, int first, int width);
+
     /// <summary>Number of non-identity sites.</summary>
     int Weight { get; }
 
@@ -85,6 +92,19 @@ internal static class PauliBits
     public static int ProductPhase(ulong ax, ulong az, ulong bx, ulong bz, ulong px, ulong pz)
         => (System.Numerics.BitOperations.PopCount(ax & az) + System.Numerics.BitOperations.PopCount(bx & bz)
             - System.Numerics.BitOperations.PopCount(px & pz) + 2 * System.Numerics.BitOperations.PopCount(az & bx)) & 3;
+
+    /// <summary>The window number of one-word x and z bits (see <see cref="IPauliKey{TSelf}.Window"/>).</summary>
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveInlining)]
+    public static int Window(ulong x, ulong z, int first, int width)
+    {
+        ulong m = (1UL << width) - 1;
+        return (int)(((x >> first) & m) | (((z >> first) & m) << width));
+    }
+
+    /// <summary>Bits first .. first + 63 of the 128-bit number (hi, lo), first in 0..127.</summary>
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveInlining)]
+    public static ulong From128(ulong lo, ulong hi, int first)
+        => first == 0 ? lo : first < 64 ? (lo >> first) | (hi << (64 - first)) : hi >> (first - 64);
 
     /// <summary>Writes the set bits of <paramref name="support"/> in increasing order; returns how many.</summary>
     [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveInlining)]

@@ -1,3 +1,4 @@
+using System.Numerics;
 using System.Runtime.CompilerServices;
 
 namespace OpGrowth.Pauli;
@@ -30,12 +31,48 @@ internal static class LiouvilleTerms
     /// <summary>
     /// Visits, in one fixed order, every term of a site-indexed set (<paramref name="keys"/>; the terms on
     /// site j are <paramref name="siteTerms"/>[<paramref name="siteStart"/>[j] .. siteStart[j + 1]]) that
-    /// anticommutes with <paramref name="key"/>, each once, at the lowest site it shares with the key.
-    /// <paramref name="sites"/> is scratch for the key's support. Used by the Liouvillian maps and by the
-    /// evolution's rotation groups.
+    /// anticommutes with <paramref name="key"/>, each once, at the lowest site it shares with the key: the
+    /// key's support sites in increasing order, at each the row's terms in row order. Sites with a table in
+    /// <paramref name="windows"/> (built from the same rows) take their terms from it, the others are tested
+    /// term by term; the order is the same. <paramref name="sites"/> is scratch for the key's support. Used
+    /// by the Liouvillian maps and by the evolution's rotation groups.
     /// </summary>
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
-    public static void ForEachAnticommuting<T, TVisitor>(T[] keys, int[] siteStart, int[] siteTerms, in T key, int[] sites, ref TVisitor visitor)
+    public static void ForEachAnticommuting<T, TVisitor>(T[] keys, int[] siteStart, int[] siteTerms, SiteWindows<T> windows, in T key, int[] sites, ref TVisitor visitor)
+        where T : unmanaged, IPauliKey<T>
+        where TVisitor : struct, ITermVisitor
+    {
+        int m = T.SupportSites(key, sites);
+        var at = windows.Sites;
+        var masks = windows.Masks;
+        for (int a = 0; a < m; a++)
+        {
+            int j = sites[a];
+            var w = at[j];
+            if (w.Offset >= 0)
+            {
+                ulong bits = masks[w.Offset + T.Window(key, w.First, w.Width)];
+                int row = siteStart[j];
+                while (bits != 0)
+                {
+                    visitor.Visit(siteTerms[row + BitOperations.TrailingZeroCount(bits)]);
+                    bits &= bits - 1;
+                }
+                continue;
+            }
+            for (int r = siteStart[j], end = siteStart[j + 1]; r < end; r++)
+            {
+                int t = siteTerms[r];
+                ref readonly T term = ref keys[t];
+                if (!T.Anticommute(term, key)) continue;
+                if (a > 0 && T.OverlapBelow(term, key, j)) continue;
+                visitor.Visit(t);
+            }
+        }
+    }
+
+    /// <summary>The term-by-term loop alone (every site tested term by term): the reference the tables are checked against.</summary>
+    internal static void ForEachAnticommutingByTerm<T, TVisitor>(T[] keys, int[] siteStart, int[] siteTerms, in T key, int[] sites, ref TVisitor visitor)
         where T : unmanaged, IPauliKey<T>
         where TVisitor : struct, ITermVisitor
     {
@@ -61,7 +98,7 @@ internal static class LiouvilleTerms
         where TSink : struct, ITermSink<T>
     {
         var emit = new Emitter<T, TSink>(h.Keys, h.Coefficients, key, 2.0 * coefficient * scale, sink);
-        ForEachAnticommuting(h.Keys, h.SiteStart, h.SiteTerms, key, sink.Sites, ref emit);
+        ForEachAnticommuting(h.Keys, h.SiteStart, h.SiteTerms, h.Windows, key, sink.Sites, ref emit);
     }
 
     /// <summary>Emits +-c2 h_t P3 for i[P_t, S] (see the class remarks).</summary>

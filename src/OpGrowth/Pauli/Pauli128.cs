@@ -58,6 +58,10 @@ public readonly struct Pauli128 : IPauliKey<Pauli128>
     public static bool Overlaps(in Pauli128 a, in Pauli128 b)
         => (((a.X0 | a.Z0) & (b.X0 | b.Z0)) | ((a.X1 | a.Z1) & (b.X1 | b.Z1))) != 0;
 
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    public static int Window(in Pauli128 a, int first, int width)
+        => PauliBits.Window(PauliBits.From128(a.X0, a.X1, first), PauliBits.From128(a.Z0, a.Z1, first), 0, width);
+
     public static int SupportSites(in Pauli128 a, Span<int> sites)
     {
         int k = 0;

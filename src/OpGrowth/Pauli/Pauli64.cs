@@ -47,6 +47,9 @@ public readonly struct Pauli64 : IPauliKey<Pauli64>
 
     public static int SupportSites(in Pauli64 a, Span<int> sites) => PauliBits.Sites(a.X | a.Z, sites);
 
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    public static int Window(in Pauli64 a, int first, int width) => PauliBits.Window(a.X, a.Z, first, width);
+
     public int Weight => BitOperations.PopCount(X | Z);
 
     public int FirstSite => (X | Z) == 0 ? -1 : BitOperations.TrailingZeroCount(X | Z);

@@ -149,6 +149,15 @@ public struct PauliWide<TWords> : IPauliKey<PauliWide<TWords>>
         return false;
     }
 
+    public static int Window(in PauliWide<TWords> a, int first, int width)
+    {
+        var ax = View(in a._x);
+        var az = View(in a._z);
+        int w = first >> 6, b = first & 63;
+        ulong hiX = w + 1 < TWords.Length ? ax[w + 1] : 0, hiZ = w + 1 < TWords.Length ? az[w + 1] : 0;
+        return PauliBits.Window(PauliBits.From128(ax[w], hiX, b), PauliBits.From128(az[w], hiZ, b), 0, width);
+    }
+
     public static int SupportSites(in PauliWide<TWords> a, Span<int> sites)
     {
         var ax = View(in a._x);
