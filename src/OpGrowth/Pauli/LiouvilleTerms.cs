@@ -71,26 +71,6 @@ internal static class LiouvilleTerms
         }
     }
 
-    /// <summary>The term-by-term loop alone (every site tested term by term): the reference the tables are checked against.</summary>
-    internal static void ForEachAnticommutingByTerm<T, TVisitor>(T[] keys, int[] siteStart, int[] siteTerms, in T key, int[] sites, ref TVisitor visitor)
-        where T : unmanaged, IPauliKey<T>
-        where TVisitor : struct, ITermVisitor
-    {
-        int m = T.SupportSites(key, sites);
-        for (int a = 0; a < m; a++)
-        {
-            int j = sites[a];
-            for (int r = siteStart[j], end = siteStart[j + 1]; r < end; r++)
-            {
-                int t = siteTerms[r];
-                ref readonly T term = ref keys[t];
-                if (!T.Anticommute(term, key)) continue;
-                if (a > 0 && T.OverlapBelow(term, key, j)) continue;
-                visitor.Visit(t);
-            }
-        }
-    }
-
     /// <summary>Emits scale * i[H, coefficient * key] term by term into <paramref name="sink"/>.</summary>
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
     public static void Apply<T, TSink>(CompiledHamiltonian<T> h, double scale, in T key, double coefficient, TSink sink)

@@ -39,8 +39,14 @@ public sealed class SiteWindows<T> where T : unmanaged, IPauliKey<T>
     public int Covered { get; }
 
     /// <summary>Builds the tables for terms indexed by site (rows of <paramref name="siteTerms"/> from <paramref name="siteStart"/>) on <paramref name="n"/> sites.</summary>
-    public SiteWindows(T[] keys, int[] siteStart, int[] siteTerms, int n)
+    public SiteWindows(T[] keys, int[] siteStart, int[] siteTerms, int n) : this(keys, siteStart, siteTerms, n, MaxWidth)
     {
+    }
+
+    /// <summary>As above with windows of at most <paramref name="maxWidth"/> sites (0: no tables, every site tested term by term).</summary>
+    internal SiteWindows(T[] keys, int[] siteStart, int[] siteTerms, int n, int maxWidth)
+    {
+        ArgumentOutOfRangeException.ThrowIfGreaterThan(maxWidth, MaxWidth);
         Sites = new SiteWindow[n];
         var masks = new List<ulong>();
         var signs = new List<ulong>();
@@ -57,7 +63,7 @@ public sealed class SiteWindows<T> where T : unmanaged, IPauliKey<T>
                 hi = Math.Max(hi, k.LastSite);
             }
             int width = hi - lo + 1;
-            if (count == 0 || count > 64 || width > MaxWidth)
+            if (count == 0 || count > 64 || width > maxWidth)
             {
                 Sites[j] = new SiteWindow(lo, width, -1);
                 continue;

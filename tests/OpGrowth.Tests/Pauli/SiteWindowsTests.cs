@@ -22,10 +22,12 @@ public class SiteWindowsTests
         var terms = new List<(PauliString, double)>();
         var seen = new HashSet<PauliString>();
         int count = rng.Next(n, 4 * n);
+        int wide = Math.Max(1, n / 8);
         while (terms.Count < count)
         {
-            // Mostly short terms (a chain's), some up to 8 sites wide: wider than a table's 6.
-            int width = rng.NextDouble() < 0.8 ? rng.Next(1, 4) : rng.Next(4, 9);
+            // Mostly short terms (a chain's), a few 7 or 8 sites wide: the sites those touch are wider than a
+            // table's 6 and fall back to the term-by-term loop; the others keep a table.
+            int width = terms.Count < wide ? rng.Next(7, 9) : rng.Next(1, 4);
             width = Math.Min(width, n);
             int first = rng.Next(0, n - width + 1);
             var b = new PauliString.Builder(n);
@@ -58,6 +60,9 @@ public class SiteWindowsTests
     {
         var h = new CompiledHamiltonian<T>(c.N, [.. c.Terms.Select(t => (T.From(t.Term), t.Coefficient))]);
         var sites = new int[T.Capacity];
+        var byTerm = new SiteWindows<T>(h.Keys, h.SiteStart, h.SiteTerms, c.N, maxWidth: 0);
+        Assert.Equal(0, byTerm.Covered);
+        Assert.InRange(h.Windows.Covered, 1, c.N - 1);   // both paths are exercised
         foreach (var s in c.Strings)
         {
             var key = T.From(s);
@@ -66,7 +71,7 @@ public class SiteWindowsTests
             var fc = new Collect(fast);
             var sc = new Collect(slow);
             LiouvilleTerms.ForEachAnticommuting(h.Keys, h.SiteStart, h.SiteTerms, h.Windows, key, sites, ref fc);
-            LiouvilleTerms.ForEachAnticommutingByTerm(h.Keys, h.SiteStart, h.SiteTerms, key, sites, ref sc);
+            LiouvilleTerms.ForEachAnticommuting(h.Keys, h.SiteStart, h.SiteTerms, byTerm, key, sites, ref sc);
             Assert.Equal(slow, fast);
             // The general form: exactly the anticommuting terms, each once.
             var expected = Enumerable.Range(0, c.Terms.Length).Where(t => !c.Terms[t].Term.CommutesWith(s)).ToHashSet();
