@@ -20,13 +20,21 @@ internal static unsafe class CommutatorKernel<T> where T : unmanaged, IPauliKey<
     public const int MaxStreams = 8;
 
     /// <summary>Emits map(items[start..end)) into <paramref name="sink"/>; false (nothing emitted) when the sink has more than <see cref="MaxStreams"/> streams.</summary>
-    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     public static bool Produce(CommutatorMap<T> map, KeyValue<T>* items, int start, int end, EmitBuffer<T> sink)
+        => Produce(map.Hamiltonian, items, start, end, sink, new PlainClass(map.Scale));
+
+    /// <summary>
+    /// The kernel for a basis whose map is the commutator followed by a change of key: each input string's
+    /// factor comes from <paramref name="classes"/> (<see cref="IProductClass.Scale"/>), and each product is
+    /// replaced by its class's key before it is written (<see cref="IProductClass.Class"/>), as the basis's
+    /// own sink does after the shared loop.
+    /// </summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
+    public static bool Produce<TClass>(CompiledHamiltonian<T> h, KeyValue<T>* items, int start, int end, EmitBuffer<T> sink, TClass classes)
+        where TClass : struct, IProductClass
     {
         int groups = sink.Groups;
         if (groups > MaxStreams) return false;
-        var h = map.Hamiltonian;
-        double scale = map.Scale;
         var windows = h.Windows;
         int room = Math.Max(1, h.Count);
         int shift = sink.GroupShift, mask = sink.GroupMask;
@@ -56,7 +64,7 @@ internal static unsafe class CommutatorKernel<T> where T : unmanaged, IPauliKey<
                 for (; i < end; i++)
                 {
                     T key = items[i].Key;
-                    double c2 = 2.0 * items[i].Value * scale;
+                    double c2 = 2.0 * items[i].Value * classes.Scale(key);
                     int m = T.SupportSites(key, siteSpan);
                     for (int a = 0; a < m; a++)
                     {
@@ -75,6 +83,7 @@ internal static unsafe class CommutatorKernel<T> where T : unmanaged, IPauliKey<
                                 T p = T.Multiply(keys[t], key, out _);
                                 // -(c2 h_t) equals (-c2) h_t exactly: flipping the sign bit is the shared loop's k == 1 branch.
                                 double v = BitConverter.Int64BitsToDouble(BitConverter.DoubleToInt64Bits(c2 * coef[t]) ^ (long)(((neg >> r) & 1) << 63));
+                                p = classes.Class(p, ref v);
                                 ulong hash = p.Hash64;
                                 int u = (int)(hash >> shift) & mask;
                                 var e = w[u];
@@ -92,6 +101,7 @@ internal static unsafe class CommutatorKernel<T> where T : unmanaged, IPauliKey<
                             if (a > 0 && T.OverlapBelow(keys[t], key, j)) continue;
                             T p = T.Multiply(keys[t], key, out int k);
                             double v = k == 1 ? -c2 * coef[t] : c2 * coef[t];
+                            p = classes.Class(p, ref v);
                             ulong hash = p.Hash64;
                             int u = (int)(hash >> shift) & mask;
                             var e = w[u];
@@ -113,5 +123,25 @@ internal static unsafe class CommutatorKernel<T> where T : unmanaged, IPauliKey<
             }
         }
         return true;
+    }
+
+    /// <summary>What a basis does around the commutator: a factor per input string, and the key (and factor) a product is stored under.</summary>
+    internal interface IProductClass
+    {
+        /// <summary>The factor in front of i[H, S] for the input string S.</summary>
+        double Scale(in T key);
+
+        /// <summary>The key the product is stored under; may change its value.</summary>
+        T Class(in T product, ref double value);
+    }
+
+    /// <summary>The plain basis: one factor for every string, every product its own key.</summary>
+    internal readonly struct PlainClass(double scale) : IProductClass
+    {
+        [MethodImpl(MethodImplOptions.AggressiveInlining)]
+        public double Scale(in T key) => scale;
+
+        [MethodImpl(MethodImplOptions.AggressiveInlining)]
+        public T Class(in T product, ref double value) => product;
     }
 }

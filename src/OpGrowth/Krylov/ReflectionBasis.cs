@@ -35,10 +35,28 @@ internal readonly struct ReflectionBasis<T> : IKrylovBasis<T> where T : unmanage
         return Less(r, key) ? r : key;
     }
 
+    /// <summary>The Hamiltonian (the step driver runs this basis's map through <see cref="CommutatorKernel{T}"/> with <see cref="PairClass"/>).</summary>
+    internal CompiledHamiltonian<T> Hamiltonian => _h;
+
     public void Apply(in T key, double coefficient, EmitBuffer<T> sink)
     {
         bool sSym = KeyWords<T>.Reflect(key, _mirror).Equals(key);
         LiouvilleTerms.Apply(_h, sSym ? 0.5 : 1.0, key, coefficient, new ClassSink(this, sink));
+    }
+
+    /// <summary>The same factors and representatives as <see cref="Apply"/> and its sink, for the commutator kernel.</summary>
+    internal readonly struct PairClass(ReflectionBasis<T> basis) : CommutatorKernel<T>.IProductClass
+    {
+        [MethodImpl(MethodImplOptions.AggressiveInlining)]
+        public double Scale(in T key) => KeyWords<T>.Reflect(key, basis._mirror).Equals(key) ? 0.5 : 1.0;
+
+        [MethodImpl(MethodImplOptions.AggressiveInlining)]
+        public T Class(in T product, ref double value)
+        {
+            T cp = basis.Canonical(product, out bool pSym);
+            if (pSym) value = 2 * value;
+            return cp;
+        }
     }
 
     /// <summary>Adds each product to its pair's representative, doubled when the product is symmetric.</summary>

@@ -372,10 +372,16 @@ internal sealed unsafe class StepDriver<T> : IDisposable where T : unmanaged, IP
         [MethodImpl(MethodImplOptions.AggressiveOptimization)]
         public void Produce(KeyValue<T>* items, int start, int end, EmitBuffer<T> sink)
         {
-            // The plain basis's commutator has its own loop (same contributions, same order, same bits).
+            // The plain and mirror-pair bases' commutator has its own loop (same contributions, same order, same bits).
             if (typeof(TMap) == typeof(PlainBasis<T>)
                 && CommutatorKernel<T>.Produce(Unsafe.As<TMap, PlainBasis<T>>(ref Unsafe.AsRef(in _map)).Map, items, start, end, sink))
                 return;
+            if (typeof(TMap) == typeof(ReflectionBasis<T>))
+            {
+                var basis = Unsafe.As<TMap, ReflectionBasis<T>>(ref Unsafe.AsRef(in _map));
+                if (CommutatorKernel<T>.Produce(basis.Hamiltonian, items, start, end, sink, new ReflectionBasis<T>.PairClass(basis)))
+                    return;
+            }
             for (int i = start; i < end; i++) _map.Apply(items[i].Key, items[i].Value, sink);
         }
     }

@@ -196,4 +196,59 @@ public class SiteWindowsTests
 
     [Fact]
     public void Kernel_EmitsTheSharedLoopsContributions_BitForBit_ChainKey48() => CheckKernel<ChainKey48>(RandomCase(47, 40), 1);
+
+    /// <summary>The mirror-pair basis through the kernel: the same streams as the basis's own map (shared loop and its class sink).</summary>
+    private static unsafe void CheckPairKernel<T>(Case c, int groupBits) where T : unmanaged, IPauliKey<T>
+    {
+        var h = new CompiledHamiltonian<T>(c.N, [.. c.Terms.Select(t => (T.From(t.Term), t.Coefficient))]);
+        var basis = new ReflectionBasis<T>(h);
+        var rng = new Random(c.N);
+        var items = new KeyValue<T>[c.Strings.Length];
+        for (int i = 0; i < items.Length; i++)
+        {
+            // Representatives, as the basis stores them; some symmetric ones (palindromes) among them.
+            var key = i % 7 == 0 ? Palindrome<T>(c.Strings[i]) : T.From(c.Strings[i]);
+            items[i].Key = basis.Canonical(key, out _);
+            items[i].Value = Math.Round(rng.NextDouble() * 2 - 1, 4);
+        }
+        var shared = new EmitBuffer<T>();
+        var kernel = new EmitBuffer<T>();
+        shared.ResetInterleaved(64 - 8, groupBits);
+        kernel.ResetInterleaved(64 - 8, groupBits);
+        foreach (var kv in items) basis.Apply(kv.Key, kv.Value, shared);
+        fixed (KeyValue<T>* p = items)
+        {
+            Assert.True(CommutatorKernel<T>.Produce(h, p, 0, items.Length, kernel, new ReflectionBasis<T>.PairClass(basis)));
+        }
+        Assert.Equal(shared.Counts, kernel.Counts);
+        for (int g = 0; g < shared.Groups; g++)
+        {
+            for (int e = 0; e < shared.Counts[g]; e++)
+            {
+                Assert.True(shared.Streams[g][e].Key.Equals(kernel.Streams[g][e].Key), $"group {g} entry {e}: key");
+                Assert.Equal(BitConverter.DoubleToInt64Bits(shared.Streams[g][e].Value), BitConverter.DoubleToInt64Bits(kernel.Streams[g][e].Value));
+            }
+        }
+    }
+
+    private static T Palindrome<T>(PauliString s) where T : unmanaged, IPauliKey<T>
+    {
+        var b = new PauliString.Builder(s.N);
+        for (int j = 0; j < s.N / 2; j++)
+        {
+            char letter = "IXZY"[T.From(s).LetterCode(j)];
+            if (letter == 'I') continue;
+            b.Set(j, letter);
+            b.Set(s.N - 1 - j, letter);
+        }
+        return T.From(b.Build());
+    }
+
+    [Theory]
+    [InlineData(0)]
+    [InlineData(1)]
+    public void PairKernel_EmitsTheMirrorBasisContributions_BitForBit_ChainKey32(int groupBits) => CheckPairKernel<ChainKey32>(RandomCase(31, 50 + groupBits), groupBits);
+
+    [Fact]
+    public void PairKernel_EmitsTheMirrorBasisContributions_BitForBit_ChainKey48() => CheckPairKernel<ChainKey48>(RandomCase(41, 60), 1);
 }
