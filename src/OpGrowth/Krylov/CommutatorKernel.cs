@@ -5,8 +5,8 @@ using OpGrowth.Pauli;
 namespace OpGrowth.Krylov;
 
 /// <summary>
-/// The plain basis's map, scale * i[H, S] for each stored string S of a block, written out as one loop for the
-/// step driver: the same contributions in the same order with the same values as
+/// The commutator map, scale * i[H, S] for each stored string S of a block, written out as one loop for the
+/// step driver (the plain basis, and the mirror-pair basis through <see cref="IProductClass"/>): the same contributions in the same order with the same values as
 /// <see cref="LiouvilleTerms.Apply{T, TSink}"/> followed by <see cref="EmitBuffer{T}.Emit"/> (so the same
 /// bits), with the Hamiltonian's arrays, the site tables and the stream pointers held in locals. The terms of
 /// a support site come from its <see cref="SiteWindows{T}"/> table, together with the sign of each product
