@@ -40,11 +40,15 @@ internal readonly struct ReflectionBasis<T> : IKrylovBasis<T> where T : unmanage
 
     public void Apply(in T key, double coefficient, EmitBuffer<T> sink)
     {
-        bool sSym = KeyWords<T>.Reflect(key, _mirror).Equals(key);
-        LiouvilleTerms.Apply(_h, sSym ? 0.5 : 1.0, key, coefficient, new ClassSink(this, sink));
+        var pairs = new PairClass(this);
+        LiouvilleTerms.Apply(_h, pairs.Scale(key), key, coefficient, new ClassSink(pairs, sink));
     }
 
-    /// <summary>The same factors and representatives as <see cref="Apply"/> and its sink, for the commutator kernel.</summary>
+    /// <summary>
+    /// The basis's rule around the commutator: 1/2 in front of i[H, S] for a symmetric input, and each product added to
+    /// its pair's representative, doubled when the product is symmetric. Used by <see cref="Apply"/> and by the
+    /// commutator kernel.
+    /// </summary>
     internal readonly struct PairClass(ReflectionBasis<T> basis) : CommutatorKernel<T>.IProductClass
     {
         [MethodImpl(MethodImplOptions.AggressiveInlining)]
@@ -59,8 +63,8 @@ internal readonly struct ReflectionBasis<T> : IKrylovBasis<T> where T : unmanage
         }
     }
 
-    /// <summary>Adds each product to its pair's representative, doubled when the product is symmetric.</summary>
-    private readonly struct ClassSink(ReflectionBasis<T> basis, EmitBuffer<T> buffer) : ITermSink<T>
+    /// <summary>Adds each product to its pair's representative (<see cref="PairClass.Class"/>).</summary>
+    private readonly struct ClassSink(PairClass pairs, EmitBuffer<T> buffer) : ITermSink<T>
     {
         public int[] Sites
         {
@@ -71,8 +75,8 @@ internal readonly struct ReflectionBasis<T> : IKrylovBasis<T> where T : unmanage
         [MethodImpl(MethodImplOptions.AggressiveInlining)]
         public void Emit(in T key, double value)
         {
-            T cp = basis.Canonical(key, out bool pSym);
-            buffer.Emit(cp, pSym ? 2 * value : value);
+            T cp = pairs.Class(key, ref value);
+            buffer.Emit(cp, value);
         }
     }
 

@@ -124,6 +124,23 @@ public class SiteWindowsTests
         Assert.True(h.Windows.Masks.Length <= 3 * 64, $"{h.Windows.Masks.Length} entries");
     }
 
+    /// <summary>The same contributions in every stream, in the same order: keys, value bits and hashes.</summary>
+    private static void AssertSameStreams<T>(EmitBuffer<T> expected, EmitBuffer<T> actual) where T : unmanaged, IPauliKey<T>
+    {
+        Assert.Equal(expected.Counts, actual.Counts);
+        for (int g = 0; g < expected.Groups; g++)
+        {
+            for (int e = 0; e < expected.Counts[g]; e++)
+            {
+                var a = expected.Streams[g][e];
+                var b = actual.Streams[g][e];
+                Assert.True(a.Key.Equals(b.Key), $"group {g} entry {e}: key");
+                Assert.Equal(BitConverter.DoubleToInt64Bits(a.Value), BitConverter.DoubleToInt64Bits(b.Value));
+                Assert.Equal(a.Hash, b.Hash);
+            }
+        }
+    }
+
     private static unsafe void CheckKernel<T>(Case c, int groupBits) where T : unmanaged, IPauliKey<T>
     {
         var h = new CompiledHamiltonian<T>(c.N, [.. c.Terms.Select(t => (T.From(t.Term), t.Coefficient))]);
@@ -146,18 +163,7 @@ public class SiteWindowsTests
             Assert.True(CommutatorKernel<T>.Produce(map, p, 0, items.Length / 3, kernel));
             Assert.True(CommutatorKernel<T>.Produce(map, p, items.Length / 3, items.Length, kernel));
         }
-        Assert.Equal(shared.Counts, kernel.Counts);
-        for (int g = 0; g < shared.Groups; g++)
-        {
-            for (int e = 0; e < shared.Counts[g]; e++)
-            {
-                var a = shared.Streams[g][e];
-                var b = kernel.Streams[g][e];
-                Assert.True(a.Key.Equals(b.Key), $"group {g} entry {e}: key");
-                Assert.Equal(BitConverter.DoubleToInt64Bits(a.Value), BitConverter.DoubleToInt64Bits(b.Value));
-                Assert.Equal(a.Hash, b.Hash);
-            }
-        }
+        AssertSameStreams(shared, kernel);
         // The general form: the contributions of each string are 0.75 * i [h_t P_t, c S] = 0.75 * i * c * h_t * (+-2i) P3.
         var expected = new Dictionary<PauliString, double>();
         for (int i = 0; i < items.Length; i++)
@@ -220,15 +226,7 @@ public class SiteWindowsTests
         {
             Assert.True(CommutatorKernel<T>.Produce(h, p, 0, items.Length, kernel, new ReflectionBasis<T>.PairClass(basis)));
         }
-        Assert.Equal(shared.Counts, kernel.Counts);
-        for (int g = 0; g < shared.Groups; g++)
-        {
-            for (int e = 0; e < shared.Counts[g]; e++)
-            {
-                Assert.True(shared.Streams[g][e].Key.Equals(kernel.Streams[g][e].Key), $"group {g} entry {e}: key");
-                Assert.Equal(BitConverter.DoubleToInt64Bits(shared.Streams[g][e].Value), BitConverter.DoubleToInt64Bits(kernel.Streams[g][e].Value));
-            }
-        }
+        AssertSameStreams(shared, kernel);
     }
 
     private static T Palindrome<T>(PauliString s) where T : unmanaged, IPauliKey<T>
